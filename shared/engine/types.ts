@@ -1,0 +1,172 @@
+/**
+ * Matrix document and engine result types.
+ *
+ * Invariant: a MatrixDocument is plain JSON (no classes, no Dates) so the same shape is stored in
+ * seeds/, sent over the API and read by the browser. Trait and value codes are kebab-case and the
+ * core ones come verbatim from the trait glossary.
+ */
+
+/** How a trait is recorded. */
+export type TraitKind = 'state' | 'numeric' | 'count';
+
+/** When a trait can be observed. `leaf-off` traits are also visible in leaf. */
+export type Season = 'any' | 'leaf-on' | 'leaf-off';
+
+/** The season a sift is made in: in leaf or leafless. */
+export type ObservingSeason = 'leaf-on' | 'leaf-off';
+
+/** How often a taxon shows a coded value. */
+export type Frequency = 'usual' | 'occasional' | 'rare';
+
+/** Length units accepted in numeric observations. Matrix ranges are always in the trait's unit (cm). */
+export type LengthUnit = 'cm' | 'mm' | 'in';
+
+/** The plant part a trait belongs to; the client groups traits by it. */
+export type PlantPart = 'leaf' | 'needle' | 'cone' | 'fruit' | 'flower' | 'twig' | 'bark' | 'form';
+
+export interface TraitValue {
+  /** kebab-case code, stable across editions */
+  code: string;
+  label: string;
+  /** one-sentence glossary definition */
+  definition?: string;
+  /** path of the value's drawing relative to the illustrations root, e.g. `leaf-margin/serrate.svg` */
+  illustration?: string;
+  /** words a person might type to find this value ("three needles", "peeling") */
+  synonyms?: string[];
+}
+
+export interface Trait {
+  code: string;
+  label: string;
+  part: PlantPart;
+  kind: TraitKind;
+  /** unit of numeric ranges in the matrix; numeric traits only */
+  unit?: 'cm';
+  season: Season;
+  /** observation effort, 1 = seen at a glance … 5 = needs a lens, a cut or a measurement; divides information gain */
+  ease: number;
+  /** probability that an observer reports a wrong value for this trait, in [0, 0.5) */
+  errorRate: number;
+  help?: string;
+  /** state traits: the possible values */
+  values?: TraitValue[];
+  /** count traits: smallest and largest count an observer may report */
+  countRange?: { min: number; max: number };
+  /** the trait only makes sense when each named trait has one of the listed values */
+  appliesWhen?: Record<string, string[]>;
+}
+
+/** A set of coded values (state codes or counts), grouped by how often the taxon shows them. */
+export interface DiscreteCell {
+  usual?: Array<string | number>;
+  occasional?: Array<string | number>;
+  rare?: Array<string | number>;
+}
+
+/** A numeric range in the trait's unit: min ≤ low ≤ high ≤ max (typical range inside extreme range). */
+export interface NumericCell {
+  min: number;
+  low: number;
+  high: number;
+  max: number;
+}
+
+/** `unknown`: not coded yet (never counts against a taxon). `inapplicable`: the trait does not exist on this taxon. */
+export type Cell = DiscreteCell | NumericCell | 'unknown' | 'inapplicable';
+
+export interface Taxon {
+  /** stable slug, e.g. `pinus-taeda` */
+  id: string;
+  scientificName: string;
+  authority: string;
+  family: string;
+  commonNames: string[];
+  status?: 'native' | 'naturalised' | 'introduced';
+  /** relative commonness in the edition's region; > 0, default 1 */
+  prior?: number;
+  /** trait code → cell; a trait missing here is `unknown` */
+  cells: Record<string, Cell>;
+  /** where the coding came from: a named handbook or flora, or `from memory` */
+  source?: string;
+  habitat?: string;
+  range?: string;
+  /** plain-language cautions (toxic parts, thorns, skin irritants) */
+  cautions?: string[];
+  /** ids of taxa commonly confused with this one */
+  lookAlikes?: string[];
+  photos?: Array<{ url: string; caption?: string; credit?: string }>;
+}
+
+/** A pair of taxa that no trait of the matrix separates, recorded with the reason. */
+export interface InseparablePair {
+  taxa: [string, string];
+  reason: string;
+}
+
+export interface MatrixDocument {
+  format: 'sylvasift-matrix';
+  version: 1;
+  title: string;
+  region?: string;
+  traits: Trait[];
+  taxa: Taxon[];
+  inseparable?: InseparablePair[];
+}
+
+/**
+ * What an observer reports. Several values mean "one of these" (the observer is unsure).
+ * Numeric observations carry a single value and its unit (default: the trait's unit).
+ */
+export type Observation =
+  | { trait: string; values: Array<string | number> }
+  | { trait: string; value: number; unit?: LengthUnit };
+
+/** How one observed trait bears on one candidate. */
+export type ReasonStatus = 'matched' | 'partial' | 'conflict' | 'not-coded' | 'not-applicable';
+
+export interface Reason {
+  trait: string;
+  status: ReasonStatus;
+  /** P(observation | taxon) used in the score, in (0, 1] */
+  likelihood: number;
+  /** one plain-language sentence the UI can show as is */
+  text: string;
+}
+
+export interface Candidate {
+  taxonId: string;
+  /** posterior probability over all taxa, in [0, 1]; all candidates plus ruled-out sum to 1 */
+  probability: number;
+  /** number of observed traits that conflict with the coding */
+  conflicts: number;
+  reasons: Reason[];
+}
+
+export interface RankResult {
+  candidates: Candidate[];
+  /** taxa with more conflicts than the leeway allows, best first */
+  ruledOut: Candidate[];
+}
+
+export interface SuggestionPreview {
+  /** the answer (a value code, a count, or a numeric band label like `< 8 cm`) */
+  answer: string | number;
+  label: string;
+  /** probability the observer gives this answer under the current posterior */
+  probability: number;
+  /** ids of the candidates that would lead after this answer, best first (at most 3) */
+  leaders: string[];
+  /** how many candidates would stay within leeway */
+  remaining: number;
+}
+
+export interface Suggestion {
+  trait: string;
+  label: string;
+  /** expected reduction of posterior entropy in bits */
+  expectedGain: number;
+  /** expectedGain divided by the trait's ease */
+  score: number;
+  preview: SuggestionPreview[];
+}
