@@ -49,7 +49,10 @@ export interface Trait {
   /** probability that an observer reports a wrong value for this trait, in [0, 0.5) */
   errorRate: number;
   help?: string;
-  /** state traits: the possible values */
+  /**
+   * state traits: the possible values. count traits may also list labelled counts for chips and
+   * drawings; there `code` is the count as a decimal string (`"3"`).
+   */
   values?: TraitValue[];
   /** count traits: smallest and largest count an observer may report */
   countRange?: { min: number; max: number };
