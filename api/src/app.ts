@@ -1,0 +1,85 @@
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import { pino, type Logger } from 'pino';
+import { pinoHttp } from 'pino-http';
+import type { Sequelize } from 'sequelize';
+import type { AppConfig } from './config';
+import { openDatabase } from './db/database';
+import { defineModels, type Models } from './db/models';
+import { prepareDatabase } from './db/migrator';
+import { apiNotFound, problemErrorHandler } from './http/error-handler';
+import { healthRoutes } from './health/health-routes';
+import { docsRoutes } from './docs/docs-routes';
+import { webRoutes } from './web/web-routes';
+
+/** Everything a route's domain service may need, built once per app. */
+export interface AppContext {
+  config: AppConfig;
+  logger: Logger;
+  sequelize: Sequelize;
+  models: Models;
+}
+
+export interface CreatedApp {
+  app: Express;
+  context: AppContext;
+  /** closes the database; call after the HTTP server has stopped */
+  close(): Promise<void>;
+}
+
+/** Builds the Express app and its database; listening is left to the caller (server.ts or a test). */
+export async function createApp(config: AppConfig): Promise<CreatedApp> {
+  const logger = pino({ level: config.logLevel, base: { app: 'sylvasift' } });
+  const sequelize = await openDatabase(config.databaseUrl, logger);
+  const models = defineModels(sequelize);
+  if (config.migrateOnStart) {
+    const { migrated, seeded } = await prepareDatabase(sequelize, logger);
+    if (migrated.length > 0) logger.info({ migrated }, 'database migrated');
+    if (seeded.length > 0) logger.info({ seeded }, 'database seeded');
+  }
+  const context: AppContext = { config, logger, sequelize, models };
+
+  const app = express();
+  app.disable('x-powered-by');
+  app.set('trust proxy', 'loopback');
+  app.set('etag', 'strong');
+  app.use(
+    helmet({
+      contentSecurityPolicy: {
+        directives: {
+          // Angular and Material add component styles at run time; scripts stay same-origin only.
+          'style-src': ["'self'", "'unsafe-inline'"],
+          'img-src': ["'self'", 'data:', 'blob:'],
+          'connect-src': ["'self'"],
+          'worker-src': ["'self'"],
+          'manifest-src': ["'self'"],
+          // The app is often served over plain http on localhost or a field laptop.
+          'upgrade-insecure-requests': null,
+        },
+      },
+    }),
+  );
+  app.use(
+    pinoHttp({
+      logger,
+      autoLogging: { ignore: (req) => req.url === '/api/health' },
+      serializers: {
+        req: (req: { method: string; url: string }) => ({ method: req.method, url: req.url }),
+        res: (res: { statusCode: number }) => ({ status: res.statusCode }),
+      },
+    }),
+  );
+  app.use(express.json({ limit: '256kb' }));
+
+  app.use('/api/health', healthRoutes(sequelize, config.version));
+  app.use('/api', docsRoutes());
+  app.use('/api', apiNotFound);
+  app.use(webRoutes(config.webRoot));
+  app.use(problemErrorHandler);
+
+  return {
+    app,
+    context,
+    close: () => sequelize.close(),
+  };
+}

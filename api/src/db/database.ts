@@ -1,0 +1,58 @@
+import path from 'node:path';
+import { Sequelize } from 'sequelize';
+import type { Logger } from 'pino';
+
+/** How long a connection waits for another writer before SQLite reports SQLITE_BUSY. */
+const BUSY_TIMEOUT_MS = 5000;
+
+interface SqliteConnection {
+  configure(option: 'busyTimeout', value: number): void;
+}
+interface ConnectionManagerLike {
+  getConnection(options?: unknown): Promise<SqliteConnection>;
+}
+
+/**
+ * Opens the database named by a `sqlite:` or `postgres://` URL.
+ * For SQLite: foreign keys on (every connection), WAL journal, busy timeout.
+ */
+export async function openDatabase(databaseUrl: string, logger?: Logger): Promise<Sequelize> {
+  const logging = logger ? (sql: string) => logger.debug({ sql }, 'sql') : false;
+  if (!databaseUrl.startsWith('sqlite:')) {
+    const sequelize = new Sequelize(databaseUrl, { logging });
+    await sequelize.authenticate();
+    return sequelize;
+  }
+
+  const target = databaseUrl.slice('sqlite:'.length);
+  const storage = target === ':memory:' || target === '' ? ':memory:' : path.resolve(target);
+  const sequelize = new Sequelize({ dialect: 'sqlite', storage, logging });
+
+  // Sequelize opens a separate SQLite connection per transaction; each needs its own busy timeout.
+  const manager = sequelize.connectionManager as unknown as ConnectionManagerLike;
+  const openConnection = manager.getConnection.bind(manager);
+  const configured = new WeakSet<SqliteConnection>();
+  manager.getConnection = async (options?: unknown) => {
+    const connection = await openConnection(options);
+    if (!configured.has(connection)) {
+      connection.configure('busyTimeout', BUSY_TIMEOUT_MS);
+      configured.add(connection);
+    }
+    return connection;
+  };
+
+  await sequelize.authenticate();
+  if (storage !== ':memory:') await sequelize.query('PRAGMA journal_mode = WAL');
+  await sequelize.query('PRAGMA foreign_keys = ON');
+  return sequelize;
+}
+
+/** True when the database answers a trivial query. */
+export async function isDatabaseReachable(sequelize: Sequelize): Promise<boolean> {
+  try {
+    await sequelize.query('SELECT 1');
+    return true;
+  } catch {
+    return false;
+  }
+}

@@ -1,0 +1,63 @@
+import type { Sequelize } from 'sequelize';
+import type { MatrixDocument } from '@shared/engine/types';
+import type { EditionSummary, Models } from '../db/models';
+import { readWorkingMatrix } from '../taxa/matrix-store';
+
+export interface PublishRequest {
+  title: string;
+  region?: string;
+  publishedBy?: string;
+}
+
+export interface PublishedEdition {
+  number: number;
+  title: string;
+  publishedAt: Date;
+  summary: EditionSummary;
+}
+
+/** Compares two documents: taxa and traits added or removed, and cells whose coding changed. */
+export function summariseChanges(previous: MatrixDocument | undefined, next: MatrixDocument): EditionSummary {
+  const before = new Map((previous?.taxa ?? []).map((t) => [t.id, t]));
+  const after = new Map(next.taxa.map((t) => [t.id, t]));
+  const traitsBefore = new Set((previous?.traits ?? []).map((t) => t.code));
+  const traitsAfter = new Set(next.traits.map((t) => t.code));
+  let cellsChanged = 0;
+  for (const [id, taxon] of after) {
+    const old = before.get(id);
+    const codes = new Set([...Object.keys(taxon.cells), ...Object.keys(old?.cells ?? {})]);
+    for (const code of codes) {
+      if (JSON.stringify(taxon.cells[code] ?? 'unknown') !== JSON.stringify(old?.cells[code] ?? 'unknown')) cellsChanged++;
+    }
+  }
+  return {
+    taxaAdded: [...after.keys()].filter((id) => !before.has(id)),
+    taxaRemoved: [...before.keys()].filter((id) => !after.has(id)),
+    traitsAdded: [...traitsAfter].filter((c) => !traitsBefore.has(c)),
+    traitsRemoved: [...traitsBefore].filter((c) => !traitsAfter.has(c)),
+    cellsChanged,
+    taxonCount: next.taxa.length,
+    traitCount: next.traits.length,
+  };
+}
+
+/** Publishes the working matrix as the next immutable, numbered edition, in one transaction. */
+export async function publishEdition(sequelize: Sequelize, models: Models, request: PublishRequest): Promise<PublishedEdition> {
+  return sequelize.transaction(async (transaction) => {
+    const document = await readWorkingMatrix(models, { title: request.title, region: request.region }, transaction);
+    const latest = await models.Edition.findOne({ order: [['number', 'DESC']], transaction });
+    const summary = summariseChanges(latest?.document as MatrixDocument | undefined, document);
+    const edition = await models.Edition.create(
+      {
+        number: (latest?.number ?? 0) + 1,
+        title: request.title,
+        publishedAt: new Date(),
+        publishedBy: request.publishedBy ?? null,
+        summary,
+        document,
+      },
+      { transaction },
+    );
+    return { number: edition.number, title: edition.title, publishedAt: edition.publishedAt, summary };
+  });
+}

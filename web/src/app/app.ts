@@ -1,0 +1,13 @@
+import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { RouterOutlet } from '@angular/router';
+import { TopBar } from './core/layout/top-bar';
+import { SiteFooter } from './core/layout/site-footer';
+
+@Component({
+  selector: 'sv-root',
+  imports: [RouterOutlet, TopBar, SiteFooter],
+  templateUrl: './app.html',
+  styleUrl: './app.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class App {}

@@ -1,0 +1,11 @@
+/** One entry of the main navigation; features add theirs here as their pages land. */
+export interface NavLink {
+  path: string;
+  label: string;
+  icon: string;
+}
+
+export const NAV_LINKS: readonly NavLink[] = Object.freeze([
+  { path: '/', label: 'Home', icon: 'park' },
+  { path: '/about', label: 'About', icon: 'info' },
+]);

@@ -1,0 +1,17 @@
+import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { RouterLink, RouterLinkActive } from '@angular/router';
+import { MatToolbar } from '@angular/material/toolbar';
+import { MatIcon } from '@angular/material/icon';
+import { MatAnchor } from '@angular/material/button';
+import { NAV_LINKS } from './nav-links';
+
+@Component({
+  selector: 'sv-top-bar',
+  imports: [RouterLink, RouterLinkActive, MatToolbar, MatIcon, MatAnchor],
+  templateUrl: './top-bar.html',
+  styleUrl: './top-bar.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class TopBar {
+  protected readonly links = NAV_LINKS;
+}

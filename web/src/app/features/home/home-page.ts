@@ -1,0 +1,17 @@
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
+import { MatCard, MatCardAvatar, MatCardContent, MatCardHeader, MatCardTitle } from '@angular/material/card';
+import { MatIcon } from '@angular/material/icon';
+import { MatProgressBar } from '@angular/material/progress-bar';
+import { HealthService } from '../../core/api/health-service';
+
+@Component({
+  selector: 'sv-home-page',
+  imports: [MatCard, MatCardAvatar, MatCardHeader, MatCardTitle, MatCardContent, MatIcon, MatProgressBar],
+  templateUrl: './home-page.html',
+  styleUrl: './home-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class HomePage {
+  private readonly healthService = inject(HealthService);
+  protected readonly health = this.healthService.healthResource();
+}
