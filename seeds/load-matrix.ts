@@ -1,0 +1,69 @@
+/**
+ * Reads the reference tree matrix from seeds/matrix into one MatrixDocument.
+ *
+ * Invariant: the result is deterministic for a given checkout — taxon files are read in file-name
+ * order and taxa are sorted by id — so editions built from it differ only where the data differs.
+ */
+import { readdirSync, readFileSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { InseparablePair, MatrixDocument, Taxon, Trait } from '@shared/engine/types';
+
+const SEEDS_DIR = dirname(fileURLToPath(import.meta.url));
+const MATRIX_DIR = join(SEEDS_DIR, 'matrix');
+const TAXA_DIR = join(MATRIX_DIR, 'taxa');
+
+/** Absolute path of the value drawings; a value's `illustration` is relative to it. */
+export const ILLUSTRATIONS_DIR = join(SEEDS_DIR, 'illustrations');
+
+interface TraitsFile {
+  title: string;
+  region?: string;
+  traits: Trait[];
+}
+
+interface TaxaFile {
+  taxa: Taxon[];
+}
+
+interface InseparableFile {
+  inseparable: InseparablePair[];
+}
+
+function readJson<T>(path: string): T {
+  try {
+    return JSON.parse(readFileSync(path, 'utf8')) as T;
+  } catch (error) {
+    throw new Error(`cannot read matrix file ${path}: ${(error as Error).message}`, { cause: error });
+  }
+}
+
+/** The names of the taxon files, in the order they are read. */
+export function taxonFileNames(): string[] {
+  return readdirSync(TAXA_DIR)
+    .filter((name) => name.endsWith('.json'))
+    .sort();
+}
+
+export function loadReferenceMatrix(): MatrixDocument {
+  const traitsFile = readJson<TraitsFile>(join(MATRIX_DIR, 'traits.json'));
+  const taxa: Taxon[] = [];
+  for (const name of taxonFileNames()) {
+    const file = readJson<TaxaFile>(join(TAXA_DIR, name));
+    if (!Array.isArray(file.taxa)) throw new Error(`matrix file ${name} has no "taxa" array`);
+    taxa.push(...file.taxa);
+  }
+  taxa.sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+  const { inseparable } = readJson<InseparableFile>(join(MATRIX_DIR, 'inseparable.json'));
+
+  const doc: MatrixDocument = {
+    format: 'sylvasift-matrix',
+    version: 1,
+    title: traitsFile.title,
+    traits: traitsFile.traits,
+    taxa,
+    inseparable,
+  };
+  if (traitsFile.region !== undefined) doc.region = traitsFile.region;
+  return doc;
+}
