@@ -9,9 +9,8 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { InseparablePair, MatrixDocument, Taxon, Trait } from '@shared/engine/types';
 
-const SEEDS_DIR = dirname(fileURLToPath(import.meta.url));
-const MATRIX_DIR = join(SEEDS_DIR, 'matrix');
-const TAXA_DIR = join(MATRIX_DIR, 'taxa');
+/** The seeds folder when running from source; bundled callers pass the folder explicitly. */
+export const SEEDS_DIR = dirname(fileURLToPath(import.meta.url));
 
 /** Absolute path of the value drawings; a value's `illustration` is relative to it. */
 export const ILLUSTRATIONS_DIR = join(SEEDS_DIR, 'illustrations');
@@ -39,22 +38,23 @@ function readJson<T>(path: string): T {
 }
 
 /** The names of the taxon files, in the order they are read. */
-export function taxonFileNames(): string[] {
-  return readdirSync(TAXA_DIR)
+export function taxonFileNames(seedsDir: string = SEEDS_DIR): string[] {
+  return readdirSync(join(seedsDir, 'matrix', 'taxa'))
     .filter((name) => name.endsWith('.json'))
     .sort();
 }
 
-export function loadReferenceMatrix(): MatrixDocument {
-  const traitsFile = readJson<TraitsFile>(join(MATRIX_DIR, 'traits.json'));
+export function loadReferenceMatrix(seedsDir: string = SEEDS_DIR): MatrixDocument {
+  const matrixDir = join(seedsDir, 'matrix');
+  const traitsFile = readJson<TraitsFile>(join(matrixDir, 'traits.json'));
   const taxa: Taxon[] = [];
-  for (const name of taxonFileNames()) {
-    const file = readJson<TaxaFile>(join(TAXA_DIR, name));
+  for (const name of taxonFileNames(seedsDir)) {
+    const file = readJson<TaxaFile>(join(matrixDir, 'taxa', name));
     if (!Array.isArray(file.taxa)) throw new Error(`matrix file ${name} has no "taxa" array`);
     taxa.push(...file.taxa);
   }
   taxa.sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
-  const { inseparable } = readJson<InseparableFile>(join(MATRIX_DIR, 'inseparable.json'));
+  const { inseparable } = readJson<InseparableFile>(join(matrixDir, 'inseparable.json'));
 
   const doc: MatrixDocument = {
     format: 'sylvasift-matrix',
