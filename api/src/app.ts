@@ -33,7 +33,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   const sequelize = await openDatabase(config.databaseUrl, logger);
   const models = defineModels(sequelize);
   if (config.migrateOnStart) {
-    const { migrated, seeded } = await prepareDatabase(sequelize, logger);
+    const { migrated, seeded } = await prepareDatabase(sequelize, models, logger);
     if (migrated.length > 0) logger.info({ migrated }, 'database migrated');
     if (seeded.length > 0) logger.info({ seeded }, 'database seeded');
   }

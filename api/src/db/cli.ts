@@ -8,6 +8,7 @@ import { pino } from 'pino';
 import { loadConfig } from '../config';
 import { openDatabase } from './database';
 import { createMigrator, createSeeder } from './migrator';
+import { defineModels } from './models';
 
 const USAGE = 'usage: tsx api/src/db/cli.ts migrate | seed | reset';
 
@@ -22,19 +23,20 @@ async function main(command: string | undefined): Promise<void> {
     console.log(`removed ${file}`);
   }
   const sequelize = await openDatabase(config.databaseUrl, logger);
+  const models = defineModels(sequelize);
   try {
     if (command === 'reset' && !config.databaseUrl.startsWith('sqlite:')) {
-      await createSeeder(sequelize, logger).down({ to: 0 });
-      await createMigrator(sequelize, logger).down({ to: 0 });
+      await createSeeder(sequelize, models, logger).down({ to: 0 });
+      await createMigrator(sequelize, models, logger).down({ to: 0 });
     }
     if (command === 'migrate' || command === 'reset') {
-      const done = await createMigrator(sequelize, logger).up();
+      const done = await createMigrator(sequelize, models, logger).up();
       console.log(done.length ? `migrated: ${done.map((m) => m.name).join(', ')}` : 'schema already up to date');
     }
     if (command === 'seed' || command === 'reset') {
-      const pending = await createMigrator(sequelize, logger).pending();
+      const pending = await createMigrator(sequelize, models, logger).pending();
       if (pending.length > 0) throw new Error('run `npm run db:migrate` first: the schema is not up to date');
-      const done = await createSeeder(sequelize, logger).up();
+      const done = await createSeeder(sequelize, models, logger).up();
       console.log(done.length ? `seeded: ${done.map((s) => s.name).join(', ')}` : 'nothing new to seed');
     }
   } finally {

@@ -3,11 +3,16 @@ import type { QueryInterface, Sequelize } from 'sequelize';
 import type { Logger } from 'pino';
 import { migrations } from './migrations';
 import { seeders } from './seeders';
+import type { Models } from './models';
 
-/** What a migration or seeder receives. */
+/**
+ * What a migration or seeder receives. Migrations use only the query interface (models change over
+ * time, a landed migration must not); seeders may use the current models.
+ */
 export interface MigrationContext {
   sequelize: Sequelize;
   queryInterface: QueryInterface;
+  models: Models;
   logger?: Logger;
 }
 
@@ -18,10 +23,10 @@ export interface Step {
   down(params: MigrationParams<MigrationContext>): Promise<void>;
 }
 
-function umzugFor(steps: readonly Step[], tableName: string, sequelize: Sequelize, logger?: Logger) {
+function umzugFor(steps: readonly Step[], tableName: string, sequelize: Sequelize, models: Models, logger?: Logger) {
   return new Umzug<MigrationContext>({
     migrations: steps.map((step) => ({ name: step.name, up: step.up, down: step.down })),
-    context: { sequelize, queryInterface: sequelize.getQueryInterface(), logger },
+    context: { sequelize, queryInterface: sequelize.getQueryInterface(), models, logger },
     storage: new SequelizeStorage({ sequelize, tableName }),
     logger: logger
       ? { info: (m) => logger.info(m), warn: (m) => logger.warn(m), error: (m) => logger.error(m), debug: (m) => logger.debug(m) }
@@ -30,18 +35,18 @@ function umzugFor(steps: readonly Step[], tableName: string, sequelize: Sequeliz
 }
 
 /** Schema migrations, tracked in `schema_migrations`. */
-export function createMigrator(sequelize: Sequelize, logger?: Logger) {
-  return umzugFor(migrations, 'schema_migrations', sequelize, logger);
+export function createMigrator(sequelize: Sequelize, models: Models, logger?: Logger) {
+  return umzugFor(migrations, 'schema_migrations', sequelize, models, logger);
 }
 
 /** Seeders (reference matrix, demo scenario), tracked separately in `seed_runs`. */
-export function createSeeder(sequelize: Sequelize, logger?: Logger) {
-  return umzugFor(seeders, 'seed_runs', sequelize, logger);
+export function createSeeder(sequelize: Sequelize, models: Models, logger?: Logger) {
+  return umzugFor(seeders, 'seed_runs', sequelize, models, logger);
 }
 
 /** Brings the schema up to date, then runs the seeders this database has not had yet. */
-export async function prepareDatabase(sequelize: Sequelize, logger?: Logger): Promise<{ migrated: string[]; seeded: string[] }> {
-  const migrated = await createMigrator(sequelize, logger).up();
-  const seeded = await createSeeder(sequelize, logger).up();
+export async function prepareDatabase(sequelize: Sequelize, models: Models, logger?: Logger): Promise<{ migrated: string[]; seeded: string[] }> {
+  const migrated = await createMigrator(sequelize, models, logger).up();
+  const seeded = await createSeeder(sequelize, models, logger).up();
   return { migrated: migrated.map((m) => m.name), seeded: seeded.map((s) => s.name) };
 }

@@ -1,4 +1,5 @@
 import type { Step } from '../migrator';
+import { referenceMatrix } from './0001-reference-matrix';
 
 /** Every seeder, in the order they run. */
-export const seeders: readonly Step[] = [];
+export const seeders: readonly Step[] = [referenceMatrix];
