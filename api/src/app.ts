@@ -11,6 +11,14 @@ import { apiNotFound, problemErrorHandler } from './http/error-handler';
 import { healthRoutes } from './health/health-routes';
 import { docsRoutes } from './docs/docs-routes';
 import { webRoutes } from './web/web-routes';
+import { loadOpenApiDocument } from './docs/openapi-document';
+import { contractValidation, type ContractViolation } from './http/openapi-validation';
+import { openToAnonymousButKeysNeed } from './http/lookup-access';
+import { EditionCatalog } from './editions/edition-catalog';
+import { editionRoutes } from './editions/edition-routes';
+import { identifyRoutes } from './identify/identify-routes';
+import { taxaRoutes } from './taxa/taxa-routes';
+import { traitsRoutes } from './traits/traits-routes';
 
 /** Everything a route's domain service may need, built once per app. */
 export interface AppContext {
@@ -18,11 +26,15 @@ export interface AppContext {
   logger: Logger;
   sequelize: Sequelize;
   models: Models;
+  /** the published editions, compiled once each; call `editions.invalidate()` after replacing them */
+  editions: EditionCatalog;
 }
 
 export interface CreatedApp {
   app: Express;
   context: AppContext;
+  /** JSON responses that broke openapi.yaml (recorded when config.validateResponses is on) */
+  contractViolations: ContractViolation[];
   /** closes the database; call after the HTTP server has stopped */
   close(): Promise<void>;
 }
@@ -37,7 +49,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
     if (migrated.length > 0) logger.info({ migrated }, 'database migrated');
     if (seeded.length > 0) logger.info({ seeded }, 'database seeded');
   }
-  const context: AppContext = { config, logger, sequelize, models };
+  const context: AppContext = { config, logger, sequelize, models, editions: new EditionCatalog(models) };
 
   const app = express();
   app.disable('x-powered-by');
@@ -70,9 +82,16 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
     }),
   );
   app.use(express.json({ limit: '256kb' }));
+  const contract = contractValidation(loadOpenApiDocument(), { validateResponses: config.validateResponses });
+  app.use(contract.middleware);
 
   app.use('/api/health', healthRoutes(sequelize, config.version));
   app.use('/api', docsRoutes());
+  const lookup = openToAnonymousButKeysNeed('lookup');
+  app.use('/api/v1/identify', identifyRoutes(context.editions));
+  app.use('/api/v1/taxa', lookup, taxaRoutes(context));
+  app.use('/api/v1/traits', lookup, traitsRoutes(context.editions));
+  app.use('/api/v1/editions', editionRoutes(context));
   app.use('/api', apiNotFound);
   app.use(webRoutes(config.webRoot));
   app.use(problemErrorHandler);
@@ -80,6 +99,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   return {
     app,
     context,
+    contractViolations: contract.violations,
     close: () => sequelize.close(),
   };
 }

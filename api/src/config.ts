@@ -1,3 +1,4 @@
+import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -21,6 +22,10 @@ export interface AppConfig {
   version: string;
   /** run migrations (and, on an empty database, the seeders) when the server starts */
   migrateOnStart: boolean;
+  /** folder for uploaded photos, outside the web root; files there have random names */
+  uploadsDir: string;
+  /** check every JSON response against openapi.yaml and record mismatches (on by default in test) */
+  validateResponses: boolean;
 }
 
 export class ConfigError extends Error {
@@ -57,6 +62,13 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
   const migrateText = env['MIGRATE_ON_START'] ?? 'true';
   if (migrateText !== 'true' && migrateText !== 'false') problems.push(`MIGRATE_ON_START must be true or false (got "${migrateText}")`);
 
+  const validateResponsesText = env['VALIDATE_RESPONSES'] ?? (nodeEnv === 'test' ? 'true' : 'false');
+  if (validateResponsesText !== 'true' && validateResponsesText !== 'false') {
+    problems.push(`VALIDATE_RESPONSES must be true or false (got "${validateResponsesText}")`);
+  }
+  // Each test app gets its own uploads folder so parallel runs never share files.
+  const defaultUploads = nodeEnv === 'test' ? path.join(os.tmpdir(), `sylvasift-uploads-${process.pid}`) : 'data/uploads';
+
   if (problems.length > 0) throw new ConfigError(problems);
   return Object.freeze({
     env: nodeEnv,
@@ -66,5 +78,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     webRoot: path.resolve(env['WEB_ROOT'] ?? path.join(REPO_ROOT, 'dist/web')),
     version: readVersion(),
     migrateOnStart: migrateText === 'true',
+    uploadsDir: path.resolve(env['UPLOADS_DIR'] ?? defaultUploads),
+    validateResponses: validateResponsesText === 'true',
   });
 }

@@ -181,6 +181,71 @@ export function defineModels(sequelize: Sequelize) {
     { ...common, tableName: 'editions', modelName: 'Edition' },
   );
 
+  class AuditEntryRecord extends Model<InferAttributes<AuditEntryRecord>, InferCreationAttributes<AuditEntryRecord>> {
+    declare id: CreationOptional<number>;
+    declare actorId: number | null;
+    declare actorEmail: string | null;
+    /** `taxon`, `trait`, `trait-value`, `cell`, `import` or `edition` */
+    declare entity: string;
+    /** the entity's key: a taxon id, a trait code, `trait/value`, `taxon/trait`, an edition number */
+    declare entityKey: string;
+    declare action: string;
+    declare before: unknown;
+    declare after: unknown;
+    declare reason: string;
+    declare createdAt: CreationOptional<Date>;
+    declare updatedAt: CreationOptional<Date>;
+  }
+  AuditEntryRecord.init(
+    {
+      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+      actorId: { type: DataTypes.INTEGER, allowNull: true },
+      actorEmail: { type: DataTypes.STRING(200), allowNull: true },
+      entity: { type: DataTypes.STRING(32), allowNull: false },
+      entityKey: { type: DataTypes.STRING(200), allowNull: false },
+      action: { type: DataTypes.STRING(32), allowNull: false },
+      before: { type: DataTypes.JSON, allowNull: true },
+      after: { type: DataTypes.JSON, allowNull: true },
+      reason: { type: DataTypes.TEXT, allowNull: false },
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+    },
+    { ...common, tableName: 'audit_entries', modelName: 'AuditEntry' },
+  );
+
+  class PhotoRecord extends Model<InferAttributes<PhotoRecord>, InferCreationAttributes<PhotoRecord>> {
+    declare id: CreationOptional<number>;
+    declare taxonId: string;
+    /** random file name inside the uploads folder, e.g. `3f9c…e1.webp` */
+    declare fileName: string;
+    declare mediaType: 'image/jpeg' | 'image/webp';
+    declare width: number;
+    declare height: number;
+    declare bytes: number;
+    declare caption: string | null;
+    declare credit: string | null;
+    declare uploadedBy: number | null;
+    declare createdAt: CreationOptional<Date>;
+    declare updatedAt: CreationOptional<Date>;
+  }
+  PhotoRecord.init(
+    {
+      id: { type: DataTypes.INTEGER, primaryKey: true, autoIncrement: true },
+      taxonId: { type: DataTypes.STRING(120), allowNull: false },
+      fileName: { type: DataTypes.STRING(80), allowNull: false, unique: true },
+      mediaType: { type: DataTypes.STRING(32), allowNull: false },
+      width: { type: DataTypes.INTEGER, allowNull: false },
+      height: { type: DataTypes.INTEGER, allowNull: false },
+      bytes: { type: DataTypes.INTEGER, allowNull: false },
+      caption: { type: DataTypes.STRING(300), allowNull: true },
+      credit: { type: DataTypes.STRING(200), allowNull: true },
+      uploadedBy: { type: DataTypes.INTEGER, allowNull: true },
+      createdAt: DataTypes.DATE,
+      updatedAt: DataTypes.DATE,
+    },
+    { ...common, tableName: 'photos', modelName: 'Photo' },
+  );
+
   TraitRecord.hasMany(TraitValueRecord, { foreignKey: 'traitCode', as: 'values' });
   TraitValueRecord.belongsTo(TraitRecord, { foreignKey: 'traitCode' });
   TaxonRecord.hasMany(CellRecord, { foreignKey: 'taxonId', as: 'cells' });
@@ -194,6 +259,8 @@ export function defineModels(sequelize: Sequelize) {
     Cell: CellRecord,
     InseparablePair: InseparablePairRecord,
     Edition: EditionRecord,
+    AuditEntry: AuditEntryRecord,
+    Photo: PhotoRecord,
   };
 }
 

@@ -1,4 +1,4 @@
-import type { Sequelize } from 'sequelize';
+import type { Sequelize, Transaction } from 'sequelize';
 import type { MatrixDocument } from '@shared/engine/types';
 import type { EditionSummary, Models } from '../db/models';
 import { readWorkingMatrix } from '../taxa/matrix-store';
@@ -41,10 +41,19 @@ export function summariseChanges(previous: MatrixDocument | undefined, next: Mat
   };
 }
 
+/** Steps a caller adds inside the publishing transaction. */
+export interface PublishHooks {
+  /** sees the document about to be published; throw to stop publishing */
+  check?(document: MatrixDocument): void;
+  /** runs after the edition row is written, in the same transaction (e.g. the audit entry) */
+  published?(edition: PublishedEdition, transaction: Transaction): Promise<void>;
+}
+
 /** Publishes the working matrix as the next immutable, numbered edition, in one transaction. */
-export async function publishEdition(sequelize: Sequelize, models: Models, request: PublishRequest): Promise<PublishedEdition> {
+export async function publishEdition(sequelize: Sequelize, models: Models, request: PublishRequest, hooks: PublishHooks = {}): Promise<PublishedEdition> {
   return sequelize.transaction(async (transaction) => {
     const document = await readWorkingMatrix(models, { title: request.title, region: request.region }, transaction);
+    hooks.check?.(document);
     const latest = await models.Edition.findOne({ order: [['number', 'DESC']], transaction });
     const summary = summariseChanges(latest?.document as MatrixDocument | undefined, document);
     const edition = await models.Edition.create(
@@ -58,6 +67,8 @@ export async function publishEdition(sequelize: Sequelize, models: Models, reque
       },
       { transaction },
     );
-    return { number: edition.number, title: edition.title, publishedAt: edition.publishedAt, summary };
+    const published = { number: edition.number, title: edition.title, publishedAt: edition.publishedAt, summary };
+    await hooks.published?.(published, transaction);
+    return published;
   });
 }

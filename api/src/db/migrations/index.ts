@@ -1,5 +1,6 @@
 import type { Step } from '../migrator';
 import { matrix } from './0001-matrix';
+import { curationAuditPhotos } from './0002-curation-audit-photos';
 
 /** Every schema migration, oldest first. Add new ones at the end; never edit a landed one. */
-export const migrations: readonly Step[] = [matrix];
+export const migrations: readonly Step[] = [matrix, curationAuditPhotos];
