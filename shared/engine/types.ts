@@ -173,3 +173,153 @@ export interface Suggestion {
   score: number;
   preview: SuggestionPreview[];
 }
+
+/* ------------------------------------------------------------------------------------------------
+ * Additions for the engine's validation, comparison, health and key results. Everything above this
+ * line is the shared contract and stays as it is.
+ * ---------------------------------------------------------------------------------------------- */
+
+/** How serious a matrix problem is: an `error` stops compilation, a `warning` is repaired or reported. */
+export type ProblemSeverity = 'error' | 'warning';
+
+/** One thing wrong with a matrix document, precise enough to point a curator at the cell. */
+export interface MatrixProblem {
+  severity: ProblemSeverity;
+  /** stable machine code, e.g. `unknown-value-in-cell` */
+  code: string;
+  /** JSON-path-like location, e.g. `taxa[3].cells.needle-length` */
+  path: string;
+  taxon?: string;
+  trait?: string;
+  /** one plain sentence naming the taxon, the trait and what is wrong */
+  message: string;
+}
+
+/** Which part of an observation is wrong. */
+export type ObservationField = 'observation' | 'trait' | 'values' | 'value' | 'unit';
+
+/** One thing wrong with one observation; `index` is its position in the submitted list. */
+export interface ObservationProblem {
+  index: number;
+  field: ObservationField;
+  /** stable machine code, e.g. `unknown-value` */
+  code: string;
+  message: string;
+}
+
+/** An observation the ranking set aside, with the reason shown to the user. */
+export interface SkippedObservation {
+  trait: string;
+  reason: string;
+}
+
+/** How one trait relates a set of taxa in a side-by-side comparison. */
+export type ComparisonVerdict = 'separates' | 'overlaps' | 'same' | 'not-coded';
+
+export interface TraitComparison {
+  trait: string;
+  label: string;
+  verdict: ComparisonVerdict;
+  /** taxon id → the coded cell, for display */
+  cells: Record<string, Cell>;
+  /** one plain sentence */
+  text: string;
+}
+
+export interface ComparisonResult {
+  taxa: string[];
+  /** every pair of the set has disjoint codings on these traits */
+  separating: TraitComparison[];
+  /** some codings differ but at least one pair overlaps */
+  overlapping: TraitComparison[];
+  /** coded identically for every taxon of the set */
+  same: TraitComparison[];
+  /** at least one taxon of the set has no coding */
+  notCoded: TraitComparison[];
+}
+
+export interface DiagnosticTrait {
+  trait: string;
+  label: string;
+  /** ids of the other taxa this trait tells apart from the diagnosed one */
+  separates: string[];
+  text: string;
+}
+
+export interface DiagnosisResult {
+  taxonId: string;
+  /** a small set of traits that together separate the taxon from the others, in the order chosen */
+  traits: DiagnosticTrait[];
+  /** taxa of the set that no trait separates from the diagnosed one */
+  unseparated: string[];
+}
+
+export interface HealthReport {
+  /** pairs of taxa that no trait separates; `known` when the document records the pair as inseparable */
+  inseparablePairs: Array<{ taxa: [string, string]; known: boolean; reason?: string }>;
+  /** unknown cells, per taxon */
+  emptyCells: Array<{ taxon: string; traits: string[] }>;
+  /** share of cells that are unknown, in [0, 1] */
+  emptyShare: number;
+  /** traits on which no two taxa have disjoint codings */
+  traitsSeparatingNothing: string[];
+  /** numeric cells whose min ≤ low ≤ high ≤ max order was broken in the document (compiled sorted) */
+  rangesOutOfOrder: Array<{ taxon: string; trait: string; cell: NumericCell }>;
+  /** taxa coded for a trait while coded outside that trait's appliesWhen condition */
+  appliesWhenViolations: Array<{ taxon: string; trait: string; condition: string }>;
+  /** every warning found at compile time */
+  warnings: MatrixProblem[];
+}
+
+/** One lead of a couplet: a description and where it goes. */
+export interface KeyLead {
+  /** the lead's wording, e.g. `Needles in bundles of 3` */
+  text: string;
+  trait: string;
+  /** value codes or counts this lead covers; for numeric leads, the band in cm */
+  values?: Array<string | number>;
+  range?: { from?: number; to?: number };
+  /** the next couplet, or the end of the key */
+  next: KeyNode;
+}
+
+export interface KeyCouplet {
+  kind: 'couplet';
+  /** 1-based number, depth-first, for printing `1a`/`1b` and `go to 4` */
+  number: number;
+  trait: string;
+  leads: [KeyLead, KeyLead];
+}
+
+export interface KeyEnd {
+  kind: 'taxa';
+  /** one id when the key reaches a single taxon; several when nothing left splits them */
+  taxa: string[];
+}
+
+export type KeyNode = KeyCouplet | KeyEnd;
+
+export interface DichotomousKey {
+  taxa: string[];
+  root: KeyNode;
+  /** number of couplets */
+  couplets: number;
+}
+
+/** Declaration merging: optional fields added to the shared result types above. */
+export interface RankResult {
+  /** observations set aside because other observations contradict their appliesWhen condition */
+  skipped?: SkippedObservation[];
+  /** how many taxa are within leeway in total (candidates may be cut by the limit) */
+  totalCandidates?: number;
+  /** how many taxa exceed the leeway in total */
+  totalRuledOut?: number;
+}
+
+export interface Suggestion {
+  /**
+   * expected number of further questions to reach a confident leader when this trait is asked first
+   * and the best-scoring trait after it; present only when the shortlist was small enough to look ahead
+   */
+  expectedQuestions?: number;
+}

@@ -1,0 +1,163 @@
+/**
+ * rank: the Shortlist and Ruled out lists with probabilities and reasons.
+ *
+ * Invariant: candidates and ruledOut are each sorted best first (probability, then fewer conflicts,
+ * then matrix order) and no taxon appears in both; probabilities are over all taxa.
+ */
+import { ValueStatus, type CompiledMatrix } from './compiled';
+import { RANK_DEFAULTS, type RankOptions } from './defaults';
+import { EngineUsageError, usageMessages } from './errors';
+import { effectiveCellOf } from './lookup';
+import { prepareObservations, type PreparedObservation } from './observations';
+import { measureRegion, regionLikelihood, scoreObservations, type Scored, type SkipCause } from './scoring';
+import { codedText, observedText, reasonTexts } from './texts';
+import type { Candidate, Observation, RankResult, Reason, ReasonStatus } from './types';
+
+export function resolveCount(name: string, value: number | undefined, fallback: number): number {
+  if (value === undefined) return fallback;
+  if (value === Infinity) return value;
+  if (typeof value !== 'number' || !Number.isInteger(value) || value < 0) throw new EngineUsageError(usageMessages.badOption(name, value, 'a whole number ≥ 0'));
+  return value;
+}
+
+const STATUS_RANK: Record<number, number> = {
+  [ValueStatus.Usual]: 0,
+  [ValueStatus.Occasional]: 1,
+  [ValueStatus.Rare]: 2,
+  [ValueStatus.Unknown]: 3,
+  [ValueStatus.NotCoded]: 4,
+  [ValueStatus.Inapplicable]: 5,
+};
+
+function setReason(compiled: CompiledMatrix, observation: PreparedObservation & { kind: 'set' }, t: number): Reason {
+  const trait = observation.trait;
+  const pattern = compiled.cellPattern[trait.index * compiled.taxonCount + t];
+  const base = trait.likBase + pattern * trait.answerCount;
+  let best: number = ValueStatus.Inapplicable;
+  let sum = 0;
+  for (const answer of observation.answers) {
+    const status = compiled.valueStatus[base + answer];
+    if (STATUS_RANK[status] < STATUS_RANK[best]) best = status;
+    sum += compiled.likelihood[base + answer];
+  }
+  const likelihood = Math.min(1, sum);
+  const seen = observedText(observation);
+  const cell = effectiveCellOf(compiled, trait, t);
+  let status: ReasonStatus;
+  let text: string;
+  switch (best) {
+    case ValueStatus.Usual:
+      status = 'matched';
+      text = reasonTexts.matched(trait, seen);
+      break;
+    case ValueStatus.Occasional:
+    case ValueStatus.Rare:
+      status = 'partial';
+      text = reasonTexts.partial(trait, seen, codedText(trait, cell));
+      break;
+    case ValueStatus.Unknown:
+      status = 'not-coded';
+      text = reasonTexts.notCoded(trait);
+      break;
+    case ValueStatus.NotCoded:
+      status = 'conflict';
+      text = reasonTexts.conflict(trait, seen, codedText(trait, cell));
+      break;
+    default:
+      status = 'conflict';
+      text = reasonTexts.doesNotApply(trait);
+  }
+  return { trait: trait.code, status, likelihood, text };
+}
+
+function measureReason(compiled: CompiledMatrix, observation: PreparedObservation & { kind: 'measure' }, t: number): Reason {
+  const trait = observation.trait;
+  const region = measureRegion(compiled, observation, t);
+  const likelihood = regionLikelihood(region, trait.errorRate);
+  const seen = observedText(observation);
+  const cell = effectiveCellOf(compiled, trait, t);
+  const range = typeof cell === 'object' && 'min' in cell ? cell : undefined;
+  switch (region) {
+    case 'typical':
+      return { trait: trait.code, status: 'matched', likelihood, text: reasonTexts.typical(trait, seen, range!.low, range!.high) };
+    case 'extreme':
+      return { trait: trait.code, status: 'partial', likelihood, text: reasonTexts.extreme(trait, seen, range!) };
+    case 'outside':
+      return { trait: trait.code, status: 'conflict', likelihood, text: reasonTexts.outside(trait, seen, range!.min, range!.max) };
+    case 'unknown':
+      return { trait: trait.code, status: 'not-coded', likelihood, text: reasonTexts.notCoded(trait) };
+    case 'inapplicable':
+      return { trait: trait.code, status: 'conflict', likelihood, text: reasonTexts.doesNotApply(trait) };
+  }
+}
+
+/** Per-observation reasons for one taxon, in the order the observations were given. */
+export function reasonsFor(compiled: CompiledMatrix, prepared: readonly PreparedObservation[], skipped: ReadonlyMap<number, SkipCause>, t: number): Reason[] {
+  return prepared.map((observation) => {
+    const cause = skipped.get(observation.index);
+    if (cause) return { trait: observation.trait.code, status: 'not-applicable', likelihood: 1, text: reasonTexts.skipped(compiled, observation.trait, cause) };
+    return observation.kind === 'set' ? setReason(compiled, observation, t) : measureReason(compiled, observation, t);
+  });
+}
+
+/** True when taxon a ranks before taxon b. */
+function before(scored: Scored, a: number, b: number): boolean {
+  const pa = scored.probability[a];
+  const pb = scored.probability[b];
+  if (pa !== pb) return pa > pb;
+  const ca = scored.conflicts[a];
+  const cb = scored.conflicts[b];
+  if (ca !== cb) return ca < cb;
+  return a < b;
+}
+
+/** The best `limit` taxa passing `accept`, best first, plus how many passed in all. */
+export function selectBest(scored: Scored, limit: number, accept: (t: number) => boolean): { best: number[]; total: number } {
+  const best: number[] = [];
+  let total = 0;
+  const n = scored.probability.length;
+  for (let t = 0; t < n; t++) {
+    if (!accept(t)) continue;
+    total++;
+    if (best.length === limit && (limit === 0 || !before(scored, t, best[best.length - 1]))) continue;
+    let at = best.length;
+    while (at > 0 && before(scored, t, best[at - 1])) at--;
+    best.splice(at, 0, t);
+    if (best.length > limit) best.pop();
+  }
+  return { best, total };
+}
+
+function toCandidate(compiled: CompiledMatrix, scored: Scored, prepared: readonly PreparedObservation[], t: number): Candidate {
+  return {
+    taxonId: compiled.taxa[t].id,
+    probability: scored.probability[t],
+    conflicts: scored.conflicts[t],
+    reasons: reasonsFor(compiled, prepared, scored.skipped, t),
+  };
+}
+
+/**
+ * Ranks every taxon against the observations. Each observed trait multiplies a taxon's weight by
+ * P(observation | taxon), so one wrong answer lowers a taxon rather than removing it; taxa with more
+ * than `leeway` conflicts go to ruledOut. Throws ObservationError for invalid observations.
+ */
+export function rank(compiled: CompiledMatrix, observations: readonly Observation[], options: RankOptions = {}): RankResult {
+  const leeway = resolveCount('leeway', options.leeway, RANK_DEFAULTS.leeway);
+  const limit = resolveCount('limit', options.limit, RANK_DEFAULTS.limit);
+  const prepared = prepareObservations(compiled, observations);
+  const scored = scoreObservations(compiled, prepared, options.priors);
+  const kept = selectBest(scored, limit, (t) => scored.conflicts[t] <= leeway);
+  const dropped = selectBest(scored, limit, (t) => scored.conflicts[t] > leeway);
+  const skipped = [...scored.skipped.entries()].map(([index, cause]) => {
+    const observation = prepared.find((item) => item.index === index)!;
+    return { trait: observation.trait.code, reason: reasonTexts.skipped(compiled, observation.trait, cause) };
+  });
+  return {
+    candidates: kept.best.map((t) => toCandidate(compiled, scored, prepared, t)),
+    ruledOut: dropped.best.map((t) => toCandidate(compiled, scored, prepared, t)),
+    skipped,
+    totalCandidates: kept.total,
+    totalRuledOut: dropped.total,
+  };
+}

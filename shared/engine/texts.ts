@@ -1,0 +1,81 @@
+/**
+ * Plain-language sentences for reasons, comparisons, keys and suggestion previews.
+ *
+ * Invariant: every sentence is built from the edition's own labels, so the UI shows it as is.
+ */
+import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
+import type { PreparedMeasure, PreparedObservation } from './observations';
+import type { SkipCause } from './scoring';
+import type { Cell } from './types';
+
+export function formatNumber(value: number): string {
+  if (!Number.isFinite(value)) return String(value);
+  return String(Math.round(value * 100) / 100);
+}
+
+export function formatLength(centimetres: number): string {
+  return `${formatNumber(centimetres)} cm`;
+}
+
+/** "a or b" / "a, b or c" */
+export function joinOr(items: readonly string[]): string {
+  if (items.length <= 1) return items.join('');
+  return `${items.slice(0, -1).join(', ')} or ${items[items.length - 1]}`;
+}
+
+export function answerLabel(trait: CompiledTrait, answer: number): string {
+  return trait.answerLabels[answer] ?? String(trait.answerCodes[answer]);
+}
+
+export function observedText(observation: PreparedObservation): string {
+  if (observation.kind === 'set') return joinOr(observation.answers.map((answer) => answerLabel(observation.trait, answer)));
+  return measuredText(observation);
+}
+
+function measuredText(observation: PreparedMeasure): string {
+  if (observation.shownUnit === 'cm') return formatLength(observation.centimetres);
+  return `${formatNumber(observation.shownValue)} ${observation.shownUnit} (${formatLength(observation.centimetres)})`;
+}
+
+/** "usually 2 or 3, occasionally 4" for a discrete cell. */
+export function codedText(trait: CompiledTrait, cell: Cell): string {
+  if (cell === 'unknown') return 'not coded';
+  if (cell === 'inapplicable') return 'not applicable';
+  if ('min' in cell) return `typically ${formatNumber(cell.low)}–${formatNumber(cell.high)} cm, recorded ${formatNumber(cell.min)}–${formatNumber(cell.max)} cm`;
+  const label = (value: string | number): string => {
+    const index = trait.answerCodes.indexOf(value);
+    return index >= 0 ? answerLabel(trait, index) : String(value);
+  };
+  const parts: string[] = [];
+  if (cell.usual?.length) parts.push(`usually ${joinOr(cell.usual.map(label))}`);
+  if (cell.occasional?.length) parts.push(`occasionally ${joinOr(cell.occasional.map(label))}`);
+  if (cell.rare?.length) parts.push(`rarely ${joinOr(cell.rare.map(label))}`);
+  return parts.join(', ');
+}
+
+export const reasonTexts = {
+  matched: (trait: CompiledTrait, seen: string) => `${trait.label}: you saw ${seen}, which is usual for this species.`,
+  partial: (trait: CompiledTrait, seen: string, coded: string) => `${trait.label}: you saw ${seen}; this species shows it less often (${coded}).`,
+  conflict: (trait: CompiledTrait, seen: string, coded: string) => `${trait.label}: you saw ${seen}, but this species is ${coded}.`,
+  notCoded: (trait: CompiledTrait) => `${trait.label} is not coded for this species yet, so it counts neither for nor against it.`,
+  doesNotApply: (trait: CompiledTrait) => `${trait.label} does not apply to this species, so seeing it counts against it.`,
+  typical: (trait: CompiledTrait, seen: string, low: number, high: number) =>
+    `${trait.label}: ${seen} is inside this species' typical range of ${formatNumber(low)}–${formatNumber(high)} cm.`,
+  extreme: (trait: CompiledTrait, seen: string, cell: { min: number; low: number; high: number; max: number }) =>
+    `${trait.label}: ${seen} is outside the typical ${formatNumber(cell.low)}–${formatNumber(cell.high)} cm but within the recorded ${formatNumber(cell.min)}–${formatNumber(cell.max)} cm.`,
+  outside: (trait: CompiledTrait, seen: string, min: number, max: number) =>
+    `${trait.label}: ${seen} is outside this species' recorded range of ${formatNumber(min)}–${formatNumber(max)} cm.`,
+  skipped: (compiled: CompiledMatrix, trait: CompiledTrait, cause: SkipCause) => {
+    const condition = compiled.traits[cause.condition.trait];
+    const allowed = joinOr(cause.condition.allowed.map((answer) => answerLabel(condition, answer)));
+    const seen = observedText(cause.contradictedBy);
+    return `${trait.label} was set aside: it only applies when ${condition.label} is ${allowed}, and you saw ${seen}.`;
+  },
+} as const;
+
+/** A short description of a pattern, for conflicts: "usually 2 or 3" or "not coded". */
+export function patternPhrase(trait: CompiledTrait, pattern: number, cell: Cell): string {
+  if (pattern === UNKNOWN_PATTERN) return 'not coded';
+  if (pattern === INAPPLICABLE_PATTERN) return 'not applicable';
+  return codedText(trait, cell);
+}

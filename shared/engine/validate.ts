@@ -1,0 +1,439 @@
+/**
+ * Structural and data-quality checks of a matrix document before compilation.
+ *
+ * Invariant: validateMatrix never throws, whatever it is given; every problem names its path, and
+ * a document with no `error` problems compiles without throwing.
+ */
+import { countSpanOf, MAX_COUNT_SPAN, parseCount, type CountSpan } from './count-span';
+import { MatrixValidationError, matrixMessages as m } from './errors';
+import type { MatrixDocument, MatrixProblem, Taxon, Trait } from './types';
+
+const KEBAB = /^[a-z0-9]+(?:-[a-z0-9]+)*$/;
+const KINDS = ['state', 'numeric', 'count'] as const;
+const SEASONS = ['any', 'leaf-on', 'leaf-off'] as const;
+const PARTS = ['leaf', 'needle', 'cone', 'fruit', 'flower', 'twig', 'bark', 'form'] as const;
+const STATUSES = ['native', 'naturalised', 'introduced'] as const;
+const FREQUENCIES = ['usual', 'occasional', 'rare'] as const;
+const RANGE_FIELDS = ['min', 'low', 'high', 'max'] as const;
+
+type Record_ = Record<string, unknown>;
+
+function isObject(value: unknown): value is Record_ {
+  return typeof value === 'object' && value !== null && !Array.isArray(value);
+}
+
+function isNonEmptyString(value: unknown): value is string {
+  return typeof value === 'string' && value.trim().length > 0;
+}
+
+class ProblemList {
+  readonly items: MatrixProblem[] = [];
+  error(path: string, code: string, message: string, taxon?: string, trait?: string): void {
+    this.items.push({ severity: 'error', code, path, message, ...(taxon !== undefined && { taxon }), ...(trait !== undefined && { trait }) });
+  }
+  warning(path: string, code: string, message: string, taxon?: string, trait?: string): void {
+    this.items.push({ severity: 'warning', code, path, message, ...(taxon !== undefined && { taxon }), ...(trait !== undefined && { trait }) });
+  }
+}
+
+/** What validation learns about each well-formed trait, for checking cells. */
+interface TraitFacts {
+  trait: Trait;
+  valueCodes: Set<string>;
+  span?: CountSpan;
+}
+
+function checkTrait(raw: unknown, index: number, problems: ProblemList, seen: Set<string>): Trait | undefined {
+  const path = `traits[${index}]`;
+  if (!isObject(raw)) {
+    problems.error(path, 'not-an-object', m.notAnObject(path));
+    return undefined;
+  }
+  const code = raw['code'];
+  if (!isNonEmptyString(code) || !KEBAB.test(code)) {
+    problems.error(`${path}.code`, 'bad-code', m.badCode('Trait', code));
+    return undefined;
+  }
+  if (seen.has(code)) {
+    problems.error(`${path}.code`, 'duplicate-trait', m.duplicate('Trait', code), undefined, code);
+    return undefined;
+  }
+  seen.add(code);
+  let ok = true;
+  if (!isNonEmptyString(raw['label'])) {
+    problems.error(`${path}.label`, 'missing-field', m.missingField(undefined, code, 'label'), undefined, code);
+    ok = false;
+  }
+  const enumChecks: Array<[string, readonly string[]]> = [['part', PARTS], ['kind', KINDS], ['season', SEASONS]];
+  for (const [field, allowed] of enumChecks) {
+    if (!allowed.includes(raw[field] as string)) {
+      problems.error(`${path}.${field}`, `bad-${field}`, m.badEnum(code, field, raw[field], allowed), undefined, code);
+      ok = false;
+    }
+  }
+  const ease = raw['ease'];
+  if (typeof ease !== 'number' || !Number.isFinite(ease) || ease < 1 || ease > 5) {
+    problems.error(`${path}.ease`, 'bad-ease', m.badEase(code, ease), undefined, code);
+    ok = false;
+  }
+  const errorRate = raw['errorRate'];
+  if (typeof errorRate !== 'number' || !Number.isFinite(errorRate) || errorRate < 0 || errorRate >= 0.5) {
+    problems.error(`${path}.errorRate`, 'bad-error-rate', m.badErrorRate(code, errorRate), undefined, code);
+    ok = false;
+  }
+  const kind = raw['kind'];
+  if (kind === 'numeric') {
+    if (raw['unit'] !== undefined && raw['unit'] !== 'cm') {
+      problems.error(`${path}.unit`, 'bad-unit', m.badUnit(code, raw['unit']), undefined, code);
+      ok = false;
+    }
+  } else if (raw['unit'] !== undefined) {
+    problems.error(`${path}.unit`, 'bad-unit', m.unitOnNonNumeric(code), undefined, code);
+    ok = false;
+  }
+  const values = raw['values'];
+  if (values !== undefined && !Array.isArray(values)) {
+    problems.error(`${path}.values`, 'not-a-list', m.notAList(`${path}.values`), undefined, code);
+    ok = false;
+  } else if (Array.isArray(values)) {
+    const codes = new Set<string>();
+    values.forEach((value: unknown, valueIndex: number) => {
+      const valuePath = `${path}.values[${valueIndex}]`;
+      if (!isObject(value) || !isNonEmptyString(value['label'])) {
+        problems.error(valuePath, 'bad-value', m.missingField(undefined, code, `values[${valueIndex}].label`), undefined, code);
+        ok = false;
+        return;
+      }
+      const valueCode = value['code'];
+      const wellFormed =
+        kind === 'count' ? typeof valueCode === 'string' && parseCount(valueCode) !== undefined : isNonEmptyString(valueCode) && KEBAB.test(valueCode);
+      if (!wellFormed) {
+        problems.error(valuePath, 'bad-value-code', kind === 'count' ? m.badCountValue(code, valueCode) : m.badCode('Value', valueCode), undefined, code);
+        ok = false;
+        return;
+      }
+      if (codes.has(valueCode as string)) {
+        problems.error(valuePath, 'duplicate-value', m.duplicateValue(code, valueCode as string), undefined, code);
+        ok = false;
+      }
+      codes.add(valueCode as string);
+    });
+  }
+  if (kind === 'state' && (!Array.isArray(values) || values.length === 0)) {
+    problems.error(`${path}.values`, 'no-values', m.noValues(code), undefined, code);
+    ok = false;
+  }
+  const countRange = raw['countRange'];
+  if (countRange !== undefined) {
+    const valid =
+      kind === 'count' &&
+      isObject(countRange) &&
+      Number.isInteger(countRange['min']) &&
+      Number.isInteger(countRange['max']) &&
+      (countRange['min'] as number) >= 0 &&
+      (countRange['min'] as number) <= (countRange['max'] as number) &&
+      (countRange['max'] as number) <= 1000;
+    if (!valid) {
+      problems.error(`${path}.countRange`, 'bad-count-range', m.badCountRange(code), undefined, code);
+      ok = false;
+    }
+  }
+  if (raw['appliesWhen'] !== undefined && !isObject(raw['appliesWhen'])) {
+    problems.error(`${path}.appliesWhen`, 'bad-applies-when', m.notAnObject(`${path}.appliesWhen`), undefined, code);
+    ok = false;
+  }
+  return ok ? (raw as unknown as Trait) : undefined;
+}
+
+function checkAppliesWhen(facts: Map<string, TraitFacts>, traitIndex: Map<string, number>, problems: ProblemList): void {
+  for (const { trait } of facts.values()) {
+    const conditions = trait.appliesWhen;
+    if (!conditions) continue;
+    const path = `traits[${traitIndex.get(trait.code)}].appliesWhen`;
+    for (const [other, allowed] of Object.entries(conditions)) {
+      const target = facts.get(other);
+      if (other === trait.code) {
+        problems.error(path, 'bad-applies-when', m.appliesWhenSelf(trait.code), undefined, trait.code);
+      } else if (!target) {
+        problems.error(path, 'bad-applies-when', m.appliesWhenUnknownTrait(trait.code, other), undefined, trait.code);
+      } else if (target.trait.kind === 'numeric') {
+        problems.error(path, 'bad-applies-when', m.appliesWhenNumeric(trait.code, other), undefined, trait.code);
+      } else if (!Array.isArray(allowed) || allowed.length === 0) {
+        problems.error(path, 'bad-applies-when', m.appliesWhenEmpty(trait.code, other), undefined, trait.code);
+      } else {
+        for (const value of allowed) {
+          if (!isKnownValue(target, value)) {
+            problems.error(path, 'bad-applies-when', m.appliesWhenUnknownValue(trait.code, other, value), undefined, trait.code);
+          }
+        }
+      }
+    }
+  }
+  const cycle = findCycle(facts);
+  if (cycle) problems.error('traits', 'applies-when-cycle', m.appliesWhenCycle(cycle));
+}
+
+function isKnownValue(facts: TraitFacts, value: unknown): boolean {
+  if (facts.trait.kind === 'count') {
+    const count = parseCount(value);
+    return count !== undefined && facts.span !== undefined && count >= facts.span.min && count <= facts.span.max;
+  }
+  return typeof value === 'string' && facts.valueCodes.has(value);
+}
+
+function findCycle(facts: Map<string, TraitFacts>): string[] | undefined {
+  const state = new Map<string, 'visiting' | 'done'>();
+  const stack: string[] = [];
+  const visit = (code: string): string[] | undefined => {
+    if (state.get(code) === 'done') return undefined;
+    if (state.get(code) === 'visiting') return stack.slice(stack.indexOf(code));
+    state.set(code, 'visiting');
+    stack.push(code);
+    for (const other of Object.keys(facts.get(code)?.trait.appliesWhen ?? {})) {
+      if (!facts.has(other) || other === code) continue;
+      const found = visit(other);
+      if (found) return found;
+    }
+    stack.pop();
+    state.set(code, 'done');
+    return undefined;
+  };
+  for (const code of facts.keys()) {
+    const found = visit(code);
+    if (found) return found;
+  }
+  return undefined;
+}
+
+function checkDiscreteCell(cell: unknown, facts: TraitFacts, taxon: string, path: string, problems: ProblemList): void {
+  const code = facts.trait.code;
+  const expected = 'an object with usual/occasional/rare lists';
+  if (!isObject(cell) || Object.keys(cell).some((key) => !(FREQUENCIES as readonly string[]).includes(key))) {
+    problems.error(path, 'bad-cell', m.badCell(taxon, code, expected), taxon, code);
+    return;
+  }
+  const seen = new Set<string | number>();
+  let listed = 0;
+  for (const frequency of FREQUENCIES) {
+    const values = cell[frequency];
+    if (values === undefined) continue;
+    if (!Array.isArray(values)) {
+      problems.error(`${path}.${frequency}`, 'bad-cell', m.badFrequencyList(taxon, code, frequency), taxon, code);
+      continue;
+    }
+    for (const value of values) {
+      listed++;
+      let key: string | number;
+      if (facts.trait.kind === 'count') {
+        const count = parseCount(value);
+        if (count === undefined) {
+          problems.error(`${path}.${frequency}`, 'count-not-integer', m.countNotInteger(taxon, code, value), taxon, code);
+          continue;
+        }
+        const span = facts.span;
+        if (span && (count < span.min || count > span.max)) {
+          problems.error(`${path}.${frequency}`, 'count-out-of-range', m.countOutOfRange(taxon, code, count, span.min, span.max), taxon, code);
+          continue;
+        }
+        key = count;
+      } else {
+        if (typeof value !== 'string' || !facts.valueCodes.has(value)) {
+          problems.error(`${path}.${frequency}`, 'unknown-value-in-cell', m.unknownValueInCell(taxon, code, value, [...facts.valueCodes]), taxon, code);
+          continue;
+        }
+        key = value;
+      }
+      if (seen.has(key)) problems.error(`${path}.${frequency}`, 'value-in-two-frequencies', m.valueTwice(taxon, code, value), taxon, code);
+      seen.add(key);
+    }
+  }
+  if (listed === 0) problems.warning(path, 'empty-cell', m.emptyCell(taxon, code), taxon, code);
+}
+
+function checkNumericCell(cell: unknown, facts: TraitFacts, taxon: string, path: string, problems: ProblemList): void {
+  const code = facts.trait.code;
+  if (!isObject(cell) || Object.keys(cell).some((key) => !(RANGE_FIELDS as readonly string[]).includes(key))) {
+    problems.error(path, 'bad-cell', m.badCell(taxon, code, 'an object with min, low, high and max'), taxon, code);
+    return;
+  }
+  let finite = true;
+  for (const field of RANGE_FIELDS) {
+    const value = cell[field];
+    if (typeof value !== 'number' || !Number.isFinite(value)) {
+      problems.error(`${path}.${field}`, 'range-not-finite', m.rangeNotFinite(taxon, code, field, value), taxon, code);
+      finite = false;
+    }
+  }
+  if (!finite) return;
+  const range = cell as { min: number; low: number; high: number; max: number };
+  if (range.min < 0 || range.low < 0 || range.high < 0 || range.max < 0) {
+    problems.error(path, 'range-negative', m.rangeNegative(taxon, code), taxon, code);
+    return;
+  }
+  if (!(range.min <= range.low && range.low <= range.high && range.high <= range.max)) {
+    problems.warning(path, 'range-out-of-order', m.rangeOutOfOrder(taxon, code, range), taxon, code);
+  }
+}
+
+function describeCondition(other: string, allowed: readonly string[]): string {
+  return `${other} is ${allowed.join(' or ')}`;
+}
+
+/** True when a coded discrete cell lists none of the allowed values, or the cell is inapplicable. */
+function isOutsideCondition(cell: unknown, allowed: readonly string[], kind: Trait['kind']): boolean {
+  if (cell === 'inapplicable') return true;
+  if (!isObject(cell)) return false;
+  const listed: unknown[] = [];
+  for (const frequency of FREQUENCIES) {
+    const values = cell[frequency];
+    if (Array.isArray(values)) listed.push(...values);
+  }
+  if (listed.length === 0) return false;
+  const normalise = (value: unknown): string => (kind === 'count' ? String(parseCount(value)) : String(value));
+  const wanted = new Set(allowed.map(normalise));
+  return !listed.some((value) => wanted.has(normalise(value)));
+}
+
+function checkTaxon(raw: unknown, index: number, facts: Map<string, TraitFacts>, problems: ProblemList, seen: Set<string>): string | undefined {
+  const path = `taxa[${index}]`;
+  if (!isObject(raw)) {
+    problems.error(path, 'not-an-object', m.notAnObject(path));
+    return undefined;
+  }
+  const id = raw['id'];
+  if (!isNonEmptyString(id) || !KEBAB.test(id)) {
+    problems.error(`${path}.id`, 'bad-code', m.badCode('Taxon', id));
+    return undefined;
+  }
+  if (seen.has(id)) {
+    problems.error(`${path}.id`, 'duplicate-taxon', m.duplicate('Taxon', id), id);
+    return undefined;
+  }
+  seen.add(id);
+  for (const field of ['scientificName', 'family']) {
+    if (!isNonEmptyString(raw[field])) problems.error(`${path}.${field}`, 'missing-field', m.missingField(id, undefined, field), id);
+  }
+  if (typeof raw['authority'] !== 'string') problems.error(`${path}.authority`, 'missing-field', m.missingField(id, undefined, 'authority'), id);
+  const commonNames = raw['commonNames'];
+  if (!Array.isArray(commonNames) || commonNames.some((name) => typeof name !== 'string')) {
+    problems.error(`${path}.commonNames`, 'not-a-list', m.notAList(`${path}.commonNames`), id);
+  }
+  if (raw['status'] !== undefined && !(STATUSES as readonly string[]).includes(raw['status'] as string)) {
+    problems.error(`${path}.status`, 'bad-status', m.badEnum(id, 'status', raw['status'], STATUSES), id);
+  }
+  const prior = raw['prior'];
+  if (prior !== undefined && (typeof prior !== 'number' || !Number.isFinite(prior) || prior <= 0)) {
+    problems.error(`${path}.prior`, 'bad-prior', m.badPrior(id, prior), id);
+  }
+  const cells = raw['cells'];
+  if (!isObject(cells)) {
+    problems.error(`${path}.cells`, 'not-an-object', m.notAnObject(`${path}.cells`), id);
+    return id;
+  }
+  for (const [traitCode, cell] of Object.entries(cells)) {
+    const cellPath = `${path}.cells.${traitCode}`;
+    const traitFacts = facts.get(traitCode);
+    if (!traitFacts) {
+      problems.error(cellPath, 'unknown-trait-in-cell', m.unknownTraitInCell(id, traitCode), id, traitCode);
+      continue;
+    }
+    if (cell === 'unknown' || cell === 'inapplicable') continue;
+    if (traitFacts.trait.kind === 'numeric') checkNumericCell(cell, traitFacts, id, cellPath, problems);
+    else checkDiscreteCell(cell, traitFacts, id, cellPath, problems);
+  }
+  for (const traitFacts of facts.values()) {
+    const conditions = traitFacts.trait.appliesWhen;
+    const own = cells[traitFacts.trait.code];
+    if (!conditions || own === undefined || own === 'unknown' || own === 'inapplicable') continue;
+    for (const [other, allowed] of Object.entries(conditions)) {
+      const otherFacts = facts.get(other);
+      if (!otherFacts || !Array.isArray(allowed)) continue;
+      if (isOutsideCondition(cells[other], allowed, otherFacts.trait.kind)) {
+        const condition = describeCondition(other, allowed);
+        problems.warning(`${path}.cells.${traitFacts.trait.code}`, 'applies-when-violation', m.appliesWhenViolation(id, traitFacts.trait.code, condition), id, traitFacts.trait.code);
+      }
+    }
+  }
+  return id;
+}
+
+/** Every problem of a matrix document: errors stop compilation, warnings are repaired and reported. */
+export function validateMatrix(doc: unknown): MatrixProblem[] {
+  const problems = new ProblemList();
+  if (!isObject(doc)) {
+    problems.error('', 'not-an-object', m.notAnObject('The matrix document'));
+    return problems.items;
+  }
+  if (doc['format'] !== 'sylvasift-matrix') problems.error('format', 'wrong-format', m.wrongFormat(doc['format']));
+  if (doc['version'] !== 1) problems.error('version', 'wrong-version', m.wrongVersion(doc['version']));
+  if (typeof doc['title'] !== 'string') problems.error('title', 'missing-field', m.missingField(undefined, undefined, 'title'));
+  const rawTraits = doc['traits'];
+  const rawTaxa = doc['taxa'];
+  if (!Array.isArray(rawTraits)) problems.error('traits', 'not-a-list', m.notAList('traits'));
+  if (!Array.isArray(rawTaxa)) problems.error('taxa', 'not-a-list', m.notAList('taxa'));
+  if (!Array.isArray(rawTraits) || !Array.isArray(rawTaxa)) return problems.items;
+
+  const seenTraits = new Set<string>();
+  const traits: Trait[] = [];
+  const traitIndex = new Map<string, number>();
+  rawTraits.forEach((raw: unknown, index: number) => {
+    const trait = checkTrait(raw, index, problems, seenTraits);
+    if (trait) {
+      traits.push(trait);
+      traitIndex.set(trait.code, index);
+    }
+  });
+  const wellFormedTaxa = rawTaxa.filter((taxon): taxon is Taxon => isObject(taxon) && isObject(taxon['cells']));
+  const facts = new Map<string, TraitFacts>();
+  for (const trait of traits) {
+    const entry: TraitFacts = { trait, valueCodes: new Set((trait.values ?? []).map((value) => value.code)) };
+    if (trait.kind === 'count') {
+      const span = countSpanOf(trait, wellFormedTaxa);
+      const path = `traits[${traitIndex.get(trait.code)}]`;
+      if (!span) {
+        problems.error(path, 'counts-undefined', m.countsUndefined(trait.code), undefined, trait.code);
+      } else if (span.max - span.min + 1 > MAX_COUNT_SPAN) {
+        problems.error(path, 'too-many-counts', m.tooManyCounts(trait.code, span.max - span.min + 1), undefined, trait.code);
+      } else {
+        entry.span = span;
+        for (const value of trait.values ?? []) {
+          const count = parseCount(value.code) as number;
+          if (count < span.min || count > span.max) {
+            problems.error(`${path}.values`, 'count-value-out-of-range', m.countValueOutOfRange(trait.code, count, span.min, span.max), undefined, trait.code);
+          }
+        }
+      }
+    }
+    facts.set(trait.code, entry);
+  }
+  checkAppliesWhen(facts, traitIndex, problems);
+
+  const seenTaxa = new Set<string>();
+  rawTaxa.forEach((raw: unknown, index: number) => checkTaxon(raw, index, facts, problems, seenTaxa));
+
+  const inseparable = doc['inseparable'];
+  if (inseparable !== undefined) {
+    if (!Array.isArray(inseparable)) {
+      problems.error('inseparable', 'not-a-list', m.notAList('inseparable'));
+    } else {
+      inseparable.forEach((pair: unknown, index: number) => {
+        const taxa = isObject(pair) ? pair['taxa'] : undefined;
+        const valid =
+          isObject(pair) &&
+          Array.isArray(taxa) &&
+          taxa.length === 2 &&
+          taxa[0] !== taxa[1] &&
+          taxa.every((id) => typeof id === 'string' && seenTaxa.has(id)) &&
+          typeof pair['reason'] === 'string';
+        if (!valid) problems.error(`inseparable[${index}]`, 'bad-inseparable', m.badInseparable(index));
+      });
+    }
+  }
+  return problems.items;
+}
+
+/** Throws a MatrixValidationError listing every problem when the document has any error. */
+export function assertValidMatrix(doc: unknown): asserts doc is MatrixDocument {
+  const problems = validateMatrix(doc);
+  if (problems.some((problem) => problem.severity === 'error')) throw new MatrixValidationError(problems);
+}
