@@ -11,6 +11,7 @@ import { apiNotFound, problemErrorHandler } from './http/error-handler';
 import { healthRoutes } from './health/health-routes';
 import { docsRoutes } from './docs/docs-routes';
 import { webRoutes } from './web/web-routes';
+import { startPeople, type People } from './accounts/people';
 import { loadOpenApiDocument } from './docs/openapi-document';
 import { contractValidation, type ContractViolation } from './http/openapi-validation';
 import { openToAnonymousButKeysNeed } from './http/lookup-access';
@@ -28,6 +29,8 @@ export interface AppContext {
   models: Models;
   /** the published editions, compiled once each; call `editions.invalidate()` after replacing them */
   editions: EditionCatalog;
+  /** accounts, sessions, partner keys, rate limits and mail */
+  people: People;
 }
 
 export interface CreatedApp {
@@ -49,7 +52,8 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
     if (migrated.length > 0) logger.info({ migrated }, 'database migrated');
     if (seeded.length > 0) logger.info({ seeded }, 'database seeded');
   }
-  const context: AppContext = { config, logger, sequelize, models, editions: new EditionCatalog(models) };
+  const people = await startPeople({ config, logger, sequelize, models });
+  const context: AppContext = { config, logger, sequelize, models, editions: new EditionCatalog(models), people };
 
   const app = express();
   app.disable('x-powered-by');
@@ -82,6 +86,8 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
     }),
   );
   app.use(express.json({ limit: '256kb' }));
+  app.use('/api/v1', people.gate);
+  app.use('/api/v1/editions/current/bundle', people.anonymousBundleLimit);
   const contract = contractValidation(loadOpenApiDocument(), { validateResponses: config.validateResponses });
   app.use(contract.middleware);
 
@@ -92,6 +98,8 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   app.use('/api/v1/taxa', lookup, taxaRoutes(context));
   app.use('/api/v1/traits', lookup, traitsRoutes(context.editions));
   app.use('/api/v1/editions', editionRoutes(context));
+  app.use('/api/v1', people.routes);
+  if (people.devRoutes) app.use('/api/dev', people.devRoutes);
   app.use('/api', apiNotFound);
   app.use(webRoutes(config.webRoot));
   app.use(problemErrorHandler);
@@ -100,6 +108,9 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
     app,
     context,
     contractViolations: contract.violations,
-    close: () => sequelize.close(),
+    close: async () => {
+      await people.close();
+      await sequelize.close();
+    },
   };
 }

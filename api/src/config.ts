@@ -1,6 +1,7 @@
 import os from 'node:os';
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { readPeopleConfig, type PeopleConfig } from './accounts/people-config';
 
 /** Where the running code sits: the repo root both from source (tsx) and from the bundle in dist/api. */
 export const REPO_ROOT = path.resolve(path.dirname(fileURLToPath(import.meta.url)), '../..');
@@ -26,6 +27,8 @@ export interface AppConfig {
   uploadsDir: string;
   /** check every JSON response against openapi.yaml and record mismatches (on by default in test) */
   validateResponses: boolean;
+  /** accounts, sessions, sign-in throttling, partner keys, rate limits, mail, backups and the demo scenario */
+  people: PeopleConfig;
 }
 
 export class ConfigError extends Error {
@@ -69,6 +72,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
   // Each test app gets its own uploads folder so parallel runs never share files.
   const defaultUploads = nodeEnv === 'test' ? path.join(os.tmpdir(), `sylvasift-uploads-${process.pid}`) : 'data/uploads';
 
+  const people = readPeopleConfig(env, nodeEnv, problems);
+
   if (problems.length > 0) throw new ConfigError(problems);
   return Object.freeze({
     env: nodeEnv,
@@ -80,5 +85,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     migrateOnStart: migrateText === 'true',
     uploadsDir: path.resolve(env['UPLOADS_DIR'] ?? defaultUploads),
     validateResponses: validateResponsesText === 'true',
+    people,
   });
 }

@@ -1,5 +1,8 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 import type { Cell, PlantPart, Season, TraitKind } from '@shared/engine/types';
+import { defineAccountModels } from '../accounts/account-models';
+import { defineKeyModels } from '../keys/key-models';
+import { defineQueryModels } from '../queries/query-models';
 
 /**
  * Model classes are defined per Sequelize instance (a factory, not module-level classes) so several
@@ -261,6 +264,9 @@ export function defineModels(sequelize: Sequelize) {
     Edition: EditionRecord,
     AuditEntry: AuditEntryRecord,
     Photo: PhotoRecord,
+    ...defineAccountModels(sequelize),
+    ...defineKeyModels(sequelize),
+    ...defineQueryModels(sequelize),
   };
 }
 

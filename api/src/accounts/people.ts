@@ -1,0 +1,73 @@
+import { Router, type RequestHandler } from 'express';
+import type { Logger } from 'pino';
+import type { Sequelize } from 'sequelize';
+import type { AppConfig } from '../config';
+import type { Models } from '../db/models';
+import { authenticate } from '../auth/authenticate';
+import { startMailer, type Mailer } from '../mail/mailer';
+import { devMailRoutes } from '../mail/dev-mail-routes';
+import { createLimiterStores, createRateLimiters, type LimiterStores } from '../keys/rate-limits';
+import { keyService, type KeyService } from '../keys/key-service';
+import { adminKeyRoutes, keyRoutes } from '../keys/key-routes';
+import { accountService, type AccountService } from './account-service';
+import { accountRoutes } from './account-routes';
+import { userAdminService } from '../admin/user-admin-service';
+import { userAdminRoutes } from '../admin/user-admin-routes';
+
+/** The accounts, keys, mail and limits side of the app, built once per app. */
+export interface People {
+  mailer: Mailer;
+  limiterStores: LimiterStores;
+  accounts: AccountService;
+  keys: KeyService;
+  /** authenticate, then the anonymous and per-key limits, then the key's usage count; mount before every route */
+  gate: RequestHandler[];
+  /** the tighter limit for anonymous bundle downloads; mount on the bundle route */
+  anonymousBundleLimit: RequestHandler;
+  /** routes mounted at /api/v1 */
+  routes: Router;
+  /** development-only routes mounted at /api/dev (undefined in production) */
+  devRoutes: Router | undefined;
+  close(): Promise<void>;
+}
+
+export async function startPeople(deps: { config: AppConfig; logger: Logger; sequelize: Sequelize; models: Models }): Promise<People> {
+  const { config, logger, sequelize, models } = deps;
+  const mailer = await startMailer(config.people, logger);
+  const limiterStores = createLimiterStores(config.people, logger);
+  const limiters = createRateLimiters(config.people, limiterStores);
+  const accounts = accountService({ sequelize, models, config: config.people, mailer, logger });
+  const keys = keyService(models);
+
+  const countKeyUse: RequestHandler = async (req, _res, next) => {
+    if (req.principal?.kind === 'key') await keys.recordUse(req.principal.keyId);
+    next();
+  };
+
+  const routes = Router();
+  routes.use('/', accountRoutes(accounts, limiters.signIn));
+  routes.use('/keys', keyRoutes(keys));
+  routes.use('/admin/keys', adminKeyRoutes(keys));
+  routes.use('/admin/users', userAdminRoutes(userAdminService(sequelize, models)));
+
+  let devRoutes: Router | undefined;
+  if (config.env !== 'production' && mailer.captured) {
+    devRoutes = Router();
+    devRoutes.use('/mail', devMailRoutes(mailer));
+  }
+
+  return {
+    mailer,
+    limiterStores,
+    accounts,
+    keys,
+    gate: [authenticate(models), limiters.anonymous, ...limiters.partnerKey, countKeyUse],
+    anonymousBundleLimit: limiters.anonymousBundle,
+    routes,
+    devRoutes,
+    async close() {
+      await mailer.close();
+      await limiterStores.close();
+    },
+  };
+}

@@ -1,0 +1,55 @@
+import type { RequestHandler } from 'express';
+import passport from 'passport';
+import { Strategy as BearerStrategy } from 'passport-http-bearer';
+import type { Models } from '../db/models';
+import { unauthorized } from './challenge';
+import type { Principal } from './principal';
+import { findKeyPrincipal, findSessionPrincipal } from './principal-store';
+import { hashToken, KEY_PREFIX, SESSION_PREFIX } from './tokens';
+
+async function principalFor(models: Models, token: string): Promise<Principal | undefined> {
+  if (token.startsWith(SESSION_PREFIX)) return findSessionPrincipal(models, hashToken(token), new Date());
+  if (token.startsWith(KEY_PREFIX)) return findKeyPrincipal(models, hashToken(token));
+  return undefined;
+}
+
+function isPrincipal(value: unknown): value is Principal {
+  return typeof value === 'object' && value !== null && 'kind' in value;
+}
+
+/**
+ * Reads `Authorization: Bearer <token>` (a session token or a partner key) and sets req.principal.
+ * No header means anonymous; a header that does not name a live token is a 401.
+ */
+export function authenticate(models: Models): RequestHandler {
+  // One authenticator per app, so test apps with their own databases never share a strategy.
+  const authenticator = new passport.Passport();
+  authenticator.use(
+    new BearerStrategy((token, done) => {
+      principalFor(models, token).then(
+        (principal) => done(null, principal ?? false),
+        (error: unknown) => done(error),
+      );
+    }),
+  );
+
+  return (req, res, next) => {
+    if (req.headers.authorization === undefined) {
+      next();
+      return;
+    }
+    const handler = authenticator.authenticate('bearer', { session: false }, (error: unknown, user: unknown) => {
+      if (error) {
+        next(error);
+        return;
+      }
+      if (!isPrincipal(user)) {
+        next(unauthorized(res, 'The bearer token is unknown, expired or revoked.', true));
+        return;
+      }
+      req.principal = user;
+      next();
+    }) as RequestHandler;
+    handler(req, res, next);
+  };
+}

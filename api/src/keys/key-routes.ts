@@ -1,0 +1,71 @@
+import { Router } from 'express';
+import { currentUser, requireUser } from '../auth/guards';
+import { isScope, type Scope } from '../auth/principal';
+import { problems } from '../http/problem';
+import { idParam, stringField } from '../accounts/request-fields';
+import type { KeyService, KeyWithUsage } from './key-service';
+import type { PartnerKey } from './key-store';
+
+const keyView = (key: PartnerKey) => ({
+  id: key.id,
+  ownerId: key.ownerId,
+  name: key.name,
+  prefix: key.prefix,
+  scopes: key.scopes,
+  createdAt: key.createdAt.toISOString(),
+  lastUsedAt: key.lastUsedAt ? key.lastUsedAt.toISOString() : null,
+  revokedAt: key.revokedAt ? key.revokedAt.toISOString() : null,
+});
+
+const keyWithUsageView = (key: KeyWithUsage) => ({ ...keyView(key), usage: key.usage });
+
+function scopesField(body: unknown): Scope[] {
+  const value = typeof body === 'object' && body !== null ? (body as Record<string, unknown>)['scopes'] : undefined;
+  if (!Array.isArray(value) || !value.every(isScope)) {
+    throw problems.invalidInput('scopes must be a list of lookup and identify.', [{ name: '/scopes', reason: 'unknown scope' }]);
+  }
+  return value;
+}
+
+/** A signed-in user's partner keys (mounted at /api/v1/keys). */
+export function keyRoutes(keys: KeyService): Router {
+  const router = Router();
+  router.use(requireUser(), (_req, res, next) => {
+    res.set('Cache-Control', 'no-store');
+    next();
+  });
+
+  router.post('/', async (req, res) => {
+    const { key, record } = await keys.create(currentUser(req.principal).userId, { name: stringField(req.body, 'name', { max: 120 }), scopes: scopesField(req.body) });
+    res.status(201).location(`/api/v1/keys/${record.id}`).json({ ...keyView(record), key });
+  });
+
+  router.get('/', async (req, res) => {
+    const list = await keys.listOwn(currentUser(req.principal).userId);
+    res.json({ keys: list.map(keyWithUsageView) });
+  });
+
+  router.delete('/:id', async (req, res) => {
+    await keys.revoke(currentUser(req.principal), idParam(req.params['id']));
+    res.status(204).end();
+  });
+
+  return router;
+}
+
+/** Every partner key, for admins (mounted at /api/v1/admin/keys). */
+export function adminKeyRoutes(keys: KeyService): Router {
+  const router = Router();
+  router.use(requireUser('admin'), (_req, res, next) => {
+    res.set('Cache-Control', 'no-store');
+    next();
+  });
+  router.get('/', async (_req, res) => {
+    res.json({ keys: (await keys.listAll()).map(keyWithUsageView) });
+  });
+  router.delete('/:id', async (req, res) => {
+    await keys.revoke(currentUser(req.principal), idParam(req.params['id']));
+    res.status(204).end();
+  });
+  return router;
+}

@@ -1,0 +1,63 @@
+import type { Models } from '../db/models';
+import type { Principal, Scope } from '../auth/principal';
+import { hashToken, KEY_PREFIX, newPartnerKey } from '../auth/tokens';
+import { problems } from '../http/problem';
+import { findKey, insertKey, listKeys, markRevoked, usageSince, countUse, type DailyUsage, type PartnerKey } from './key-store';
+
+/** How many days of usage a key listing shows, today included. */
+export const USAGE_DAYS = 7;
+
+export interface KeyWithUsage extends PartnerKey {
+  usage: { today: number; days: DailyUsage[] };
+}
+
+const utcDay = (date: Date) => date.toISOString().slice(0, 10);
+
+export function keyService(models: Models) {
+  async function withUsage(keys: PartnerKey[]): Promise<KeyWithUsage[]> {
+    const now = new Date();
+    const today = utcDay(now);
+    const since = utcDay(new Date(now.getTime() - (USAGE_DAYS - 1) * 86_400_000));
+    const usage = await usageSince(models, keys.map((k) => k.id), since);
+    return keys.map((key) => {
+      const days = usage.get(key.id) ?? [];
+      return { ...key, usage: { today: days.find((d) => d.day === today)?.count ?? 0, days } };
+    });
+  }
+
+  return {
+    /** Creates a key; the returned secret is shown this once and only its hash is kept. */
+    async create(ownerId: number, input: { name: string; scopes: Scope[] }): Promise<{ key: string; record: PartnerKey }> {
+      const name = input.name.trim();
+      if (name.length === 0) throw problems.invalidInput('Give the key a name.', [{ name: '/name', reason: 'must not be empty' }]);
+      const scopes = [...new Set(input.scopes)].sort();
+      if (scopes.length === 0) throw problems.invalidInput('Pick at least one scope.', [{ name: '/scopes', reason: 'must not be empty' }]);
+      const key = newPartnerKey();
+      const record = await insertKey(models, { ownerId, name, prefix: key.slice(0, KEY_PREFIX.length + 6), keyHash: hashToken(key), scopes });
+      return { key, record };
+    },
+
+    async listOwn(ownerId: number): Promise<KeyWithUsage[]> {
+      return withUsage(await listKeys(models, { ownerId }));
+    },
+
+    async listAll(): Promise<KeyWithUsage[]> {
+      return withUsage(await listKeys(models, {}));
+    },
+
+    /** Owners revoke their own keys; admins revoke any. Someone else's key looks the same as no key. */
+    async revoke(actor: Extract<Principal, { kind: 'user' }>, keyId: number): Promise<void> {
+      const key = await findKey(models, keyId);
+      if (!key || (key.ownerId !== actor.userId && actor.role !== 'admin')) throw problems.notFound(`There is no partner key ${keyId} of yours.`);
+      await markRevoked(models, key.id, actor.userId, new Date());
+    },
+
+    /** Counts one admitted request against the key's day. */
+    recordUse(keyId: number): Promise<void> {
+      const now = new Date();
+      return countUse(models, keyId, utcDay(now), now);
+    },
+  };
+}
+
+export type KeyService = ReturnType<typeof keyService>;

@@ -1,0 +1,89 @@
+import { Op } from 'sequelize';
+import type { Models } from '../db/models';
+import { isScope, type Scope } from '../auth/principal';
+
+export interface PartnerKey {
+  id: number;
+  ownerId: number;
+  name: string;
+  prefix: string;
+  scopes: Scope[];
+  createdAt: Date;
+  lastUsedAt: Date | null;
+  revokedAt: Date | null;
+}
+
+export interface DailyUsage {
+  day: string;
+  count: number;
+}
+
+interface KeyRow {
+  id: number;
+  ownerId: number;
+  name: string;
+  prefix: string;
+  scopes: string[];
+  createdAt: Date;
+  lastUsedAt: Date | null;
+  revokedAt: Date | null;
+}
+
+const toKey = (row: KeyRow): PartnerKey => ({
+  id: row.id,
+  ownerId: row.ownerId,
+  name: row.name,
+  prefix: row.prefix,
+  scopes: row.scopes.filter(isScope),
+  createdAt: row.createdAt,
+  lastUsedAt: row.lastUsedAt,
+  revokedAt: row.revokedAt,
+});
+
+export async function insertKey(models: Models, key: { ownerId: number; name: string; prefix: string; keyHash: string; scopes: Scope[] }): Promise<PartnerKey> {
+  const row = await models.PartnerKey.create({ ...key, revokedAt: null, revokedBy: null, lastUsedAt: null });
+  return toKey(row);
+}
+
+export async function findKey(models: Models, id: number): Promise<PartnerKey | undefined> {
+  const row = await models.PartnerKey.findByPk(id);
+  return row ? toKey(row) : undefined;
+}
+
+export async function listKeys(models: Models, filter: { ownerId?: number }): Promise<PartnerKey[]> {
+  const rows = await models.PartnerKey.findAll({ where: filter.ownerId === undefined ? {} : { ownerId: filter.ownerId }, order: [['id', 'ASC']] });
+  return rows.map(toKey);
+}
+
+export async function markRevoked(models: Models, id: number, revokedBy: number, now: Date): Promise<void> {
+  await models.PartnerKey.update({ revokedAt: now, revokedBy }, { where: { id, revokedAt: null } });
+}
+
+/** Revokes every live key of one owner (the owner was deactivated). */
+export async function revokeKeysOf(models: Models, ownerId: number, revokedBy: number, now: Date): Promise<void> {
+  await models.PartnerKey.update({ revokedAt: now, revokedBy }, { where: { ownerId, revokedAt: null } });
+}
+
+/** Counts one request against a key's day in one statement, so concurrent requests never lose a count. */
+export async function countUse(models: Models, keyId: number, day: string, now: Date): Promise<void> {
+  const sequelize = models.KeyUsage.sequelize;
+  if (!sequelize) throw new Error('KeyUsage model is not bound to a database');
+  await sequelize.query(
+    `INSERT INTO key_usage (key_id, day, count, created_at, updated_at) VALUES (:keyId, :day, 1, :now, :now)
+     ON CONFLICT (key_id, day) DO UPDATE SET count = key_usage.count + 1, updated_at = :now`,
+    { replacements: { keyId, day, now: now.toISOString() } },
+  );
+  await models.PartnerKey.update({ lastUsedAt: now }, { where: { id: keyId } });
+}
+
+/** Usage per key for the days from `sinceDay` on (YYYY-MM-DD, UTC), oldest first. */
+export async function usageSince(models: Models, keyIds: number[], sinceDay: string): Promise<Map<number, DailyUsage[]>> {
+  const rows = await models.KeyUsage.findAll({ where: { keyId: { [Op.in]: keyIds }, day: { [Op.gte]: sinceDay } }, order: [['day', 'ASC']] });
+  const byKey = new Map<number, DailyUsage[]>();
+  for (const row of rows) {
+    const list = byKey.get(row.keyId) ?? [];
+    list.push({ day: row.day, count: row.count });
+    byKey.set(row.keyId, list);
+  }
+  return byKey;
+}
