@@ -20,6 +20,7 @@ import { editionRoutes } from './editions/edition-routes';
 import { identifyRoutes } from './identify/identify-routes';
 import { taxaRoutes } from './taxa/taxa-routes';
 import { traitsRoutes } from './traits/traits-routes';
+import { curationRoutes } from './curation/curation-routes';
 
 /** Everything a route's domain service may need, built once per app. */
 export interface AppContext {
@@ -98,6 +99,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   app.use('/api/v1/taxa', lookup, taxaRoutes(context));
   app.use('/api/v1/traits', lookup, traitsRoutes(context.editions));
   app.use('/api/v1/editions', editionRoutes(context));
+  app.use('/api/v1/curation', curationRoutes(context));
   app.use('/api/v1', people.routes);
   if (people.devRoutes) app.use('/api/dev', people.devRoutes);
   app.use('/api', apiNotFound);

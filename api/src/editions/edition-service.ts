@@ -2,6 +2,7 @@ import type { Sequelize, Transaction } from 'sequelize';
 import type { MatrixDocument } from '@shared/engine/types';
 import type { EditionSummary, Models } from '../db/models';
 import { readWorkingMatrix } from '../taxa/matrix-store';
+import { writeTransaction } from '../curation/write-transaction';
 
 export interface PublishRequest {
   title: string;
@@ -51,7 +52,7 @@ export interface PublishHooks {
 
 /** Publishes the working matrix as the next immutable, numbered edition, in one transaction. */
 export async function publishEdition(sequelize: Sequelize, models: Models, request: PublishRequest, hooks: PublishHooks = {}): Promise<PublishedEdition> {
-  return sequelize.transaction(async (transaction) => {
+  return writeTransaction(sequelize, async (transaction) => {
     const document = await readWorkingMatrix(models, { title: request.title, region: request.region }, transaction);
     hooks.check?.(document);
     const latest = await models.Edition.findOne({ order: [['number', 'DESC']], transaction });

@@ -1,0 +1,92 @@
+import { Router } from 'express';
+import { requireUser } from '../auth/guards';
+import type { EditionCatalog } from '../editions/edition-catalog';
+import { cachePolicy } from '../http/caching';
+import { actorOf } from './actor';
+import { listAudit, type AuditEntity } from './audit-store';
+import { getCell, setCell, type CellChange, type CurationDeps } from './cell-service';
+import { summariseDraft } from './draft-service';
+import { createTaxon, createTrait, createValue, updateTaxon, updateTrait, updateValue } from './entity-service';
+
+type Body = Record<string, unknown> & { reason: string };
+
+function withoutReason(body: Body): Record<string, unknown> {
+  const { reason: _reason, ...fields } = body;
+  return fields;
+}
+
+/** The Matrix desk: curators edit the working matrix; every change lands in the audit log. */
+export function curationRoutes(deps: CurationDeps & { editions: EditionCatalog }): Router {
+  const router = Router();
+  router.use(requireUser('curator'));
+
+  router.get('/cells/:taxonId/:traitCode', async (req, res) => {
+    const cell = await getCell(deps, req.params['taxonId'] as string, req.params['traitCode'] as string);
+    cachePolicy.privateRevalidate(res);
+    res.json(cell);
+  });
+
+  router.put('/cells/:taxonId/:traitCode', async (req, res) => {
+    const cell = await setCell(deps, actorOf(req.principal), req.params['taxonId'] as string, req.params['traitCode'] as string, req.body as CellChange);
+    cachePolicy.noStore(res);
+    res.json(cell);
+  });
+
+  router.post('/taxa', async (req, res) => {
+    const body = req.body as Body & { id: string };
+    const { id: _id, ...fields } = withoutReason(body);
+    const taxon = await createTaxon(deps, actorOf(req.principal), body.id, fields as Parameters<typeof createTaxon>[3], body.reason);
+    res.status(201).location(`/api/v1/curation/taxa/${body.id}`).json(taxon);
+  });
+
+  router.patch('/taxa/:id', async (req, res) => {
+    const body = req.body as Body;
+    res.json(await updateTaxon(deps, actorOf(req.principal), req.params['id'] as string, withoutReason(body), body.reason));
+  });
+
+  router.post('/traits', async (req, res) => {
+    const body = req.body as Body & { code: string; values?: Parameters<typeof createTrait>[4] };
+    const { code: _code, values: _values, ...fields } = withoutReason(body);
+    const trait = await createTrait(deps, actorOf(req.principal), body.code, fields as Parameters<typeof createTrait>[3], body.values ?? [], body.reason);
+    res.status(201).json(trait);
+  });
+
+  router.patch('/traits/:code', async (req, res) => {
+    const body = req.body as Body;
+    res.json(await updateTrait(deps, actorOf(req.principal), req.params['code'] as string, withoutReason(body), body.reason));
+  });
+
+  router.post('/traits/:code/values', async (req, res) => {
+    const body = req.body as Body & { code: string };
+    const { code: _code, ...fields } = withoutReason(body);
+    const value = await createValue(deps, actorOf(req.principal), req.params['code'] as string, body.code, fields as Parameters<typeof createValue>[4], body.reason);
+    res.status(201).json(value);
+  });
+
+  router.patch('/traits/:code/values/:value', async (req, res) => {
+    const body = req.body as Body;
+    res.json(await updateValue(deps, actorOf(req.principal), req.params['code'] as string, req.params['value'] as string, withoutReason(body), body.reason));
+  });
+
+  router.get('/audit', async (req, res) => {
+    const query = req.query as Record<string, string | undefined>;
+    const entries = await listAudit(deps.models, {
+      entity: query['entity'] as AuditEntity | undefined,
+      entityKey: query['key'],
+      userId: query['user'] === undefined ? undefined : Number(query['user']),
+      since: query['since'] === undefined ? undefined : new Date(query['since']),
+      before: query['before'] === undefined ? undefined : Number(query['before']),
+      limit: Number(query['limit'] ?? 50),
+    });
+    cachePolicy.privateRevalidate(res);
+    res.json({ entries, next: entries.length > 0 && entries.length === Number(query['limit'] ?? 50) ? entries[entries.length - 1]!.id : null });
+  });
+
+  router.get('/draft/summary', async (_req, res) => {
+    const summary = await summariseDraft(deps.models, deps.editions);
+    cachePolicy.privateRevalidate(res);
+    res.json(summary);
+  });
+
+  return router;
+}

@@ -1,0 +1,27 @@
+import { validateMatrix, type MatrixProblem } from '@shared/engine';
+import type { EditionSummary, Models } from '../db/models';
+import type { EditionCatalog } from '../editions/edition-catalog';
+import { summariseChanges } from '../editions/edition-service';
+import { readWorkingMatrix } from '../taxa/matrix-store';
+
+export interface DraftSummary {
+  /** the edition the draft is compared with (the current one), or null before the first */
+  basedOn: number | null;
+  summary: EditionSummary;
+  /** true when the draft has no errors and differs from the current edition */
+  publishable: boolean;
+  errors: MatrixProblem[];
+  warnings: number;
+}
+
+/** What publishing now would change, and whether the draft can be published. */
+export async function summariseDraft(models: Models, editions: EditionCatalog): Promise<DraftSummary> {
+  const draft = await readWorkingMatrix(models, { title: 'draft' });
+  const current = (await models.Edition.count()) > 0 ? await editions.current() : undefined;
+  const summary = summariseChanges(current?.document, draft);
+  const found = validateMatrix(draft);
+  const errors = found.filter((problem) => problem.severity === 'error');
+  const changed =
+    summary.cellsChanged + summary.taxaAdded.length + summary.taxaRemoved.length + summary.traitsAdded.length + summary.traitsRemoved.length > 0;
+  return { basedOn: current?.number ?? null, summary, publishable: errors.length === 0 && changed, errors: errors.slice(0, 100), warnings: found.length - errors.length };
+}

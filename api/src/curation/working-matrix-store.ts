@@ -1,0 +1,48 @@
+import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
+import type { Cell } from '@shared/engine';
+import type { Models } from '../db/models';
+
+export interface CellState {
+  taxonId: string;
+  traitCode: string;
+  value: Cell;
+  /** 0 when the cell has never been written (it reads as unknown) */
+  version: number;
+}
+
+export async function readCell(models: Models, taxonId: string, traitCode: string, transaction?: Transaction): Promise<CellState> {
+  const row = await models.Cell.findOne({ where: { taxonId, traitCode }, transaction });
+  return row ? { taxonId, traitCode, value: row.value, version: row.version } : { taxonId, traitCode, value: 'unknown', version: 0 };
+}
+
+/**
+ * Writes a cell only if it is still at `expectedVersion` — one conditional UPDATE (or an INSERT for a
+ * never-written cell, guarded by the unique index) — so two curators can never overwrite each other.
+ * Returns the new version, or undefined when the cell had moved on.
+ */
+export async function writeCellIfVersion(
+  sequelize: Sequelize,
+  models: Models,
+  cell: { taxonId: string; traitCode: string; value: Cell },
+  expectedVersion: number,
+  transaction: Transaction,
+): Promise<number | undefined> {
+  const now = new Date();
+  if (expectedVersion === 0) {
+    const [, inserted] = await models.Cell.findOrCreate({
+      where: { taxonId: cell.taxonId, traitCode: cell.traitCode },
+      defaults: { taxonId: cell.taxonId, traitCode: cell.traitCode, value: cell.value, version: 1 },
+      transaction,
+    });
+    return inserted ? 1 : undefined;
+  }
+  const [, affected] = await sequelize.query(
+    'UPDATE cells SET value = :value, version = version + 1, updated_at = :now WHERE taxon_id = :taxonId AND trait_code = :traitCode AND version = :expectedVersion',
+    {
+      replacements: { value: JSON.stringify(cell.value), now, taxonId: cell.taxonId, traitCode: cell.traitCode, expectedVersion },
+      type: QueryTypes.UPDATE,
+      transaction,
+    },
+  );
+  return affected === 1 ? expectedVersion + 1 : undefined;
+}
