@@ -1,7 +1,13 @@
 import { type Routes } from '@angular/router';
+import { authGuard } from './core/auth/auth-guard';
 
 export const routes: Routes = [
   { path: '', title: 'Sylvasift', loadComponent: () => import('./features/home/home-page') },
+  { path: 'sift', title: 'Sift a tree · Sylvasift', loadComponent: () => import('./features/sift/sift-page') },
+  { path: 'species/:id', title: 'Species · Sylvasift', loadComponent: () => import('./features/species/species-page') },
+  { path: 'sign-in', title: 'Sign in · Sylvasift', loadComponent: () => import('./features/account/sign-in-page') },
+  { path: 'sign-up', title: 'Create an account · Sylvasift', loadComponent: () => import('./features/account/sign-up-page') },
+  { path: 'account', title: 'Your account · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/account/account-page') },
   { path: 'about', title: 'About Sylvasift · Sylvasift', loadComponent: () => import('./features/home/about-page') },
   { path: '**', title: 'Page not found · Sylvasift', loadComponent: () => import('./core/layout/not-found-page') },
 ];

@@ -1,7 +1,8 @@
-import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { RouterOutlet } from '@angular/router';
 import { TopBar } from './core/layout/top-bar';
 import { SiteFooter } from './core/layout/site-footer';
+import { AppUpdates } from './core/offline/app-updates';
 
 @Component({
   selector: 'sv-root',
@@ -10,4 +11,8 @@ import { SiteFooter } from './core/layout/site-footer';
   styleUrl: './app.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
-export class App {}
+export class App {
+  constructor() {
+    inject(AppUpdates).start();
+  }
+}

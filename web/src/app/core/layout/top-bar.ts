@@ -1,8 +1,9 @@
-import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { RouterLink, RouterLinkActive } from '@angular/router';
 import { MatToolbar } from '@angular/material/toolbar';
 import { MatIcon } from '@angular/material/icon';
 import { MatAnchor } from '@angular/material/button';
+import { AuthService } from '../auth/auth-service';
 import { NAV_LINKS } from './nav-links';
 
 @Component({
@@ -13,5 +14,6 @@ import { NAV_LINKS } from './nav-links';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class TopBar {
+  protected readonly auth = inject(AuthService);
   protected readonly links = NAV_LINKS;
 }

@@ -1,0 +1,124 @@
+import { Injectable, computed, inject, signal } from '@angular/core';
+import { HttpClient } from '@angular/common/http';
+import { type Observable, map, switchMap, tap } from 'rxjs';
+
+/** Who is signed in, as `GET /api/v1/me` answers. */
+export interface Me {
+  id: string;
+  email: string;
+  displayName: string;
+  role: string;
+  createdAt?: string;
+}
+
+export interface SignUpRequest {
+  email: string;
+  password: string;
+  displayName: string;
+}
+
+export interface SignInRequest {
+  email: string;
+  password: string;
+}
+
+const TOKEN_KEY = 'sylvasift.session';
+
+function isRecord(value: unknown): value is Record<string, unknown> {
+  return typeof value === 'object' && value !== null;
+}
+
+function readMe(body: unknown): Me {
+  if (!isRecord(body) || typeof body['email'] !== 'string' || typeof body['role'] !== 'string') {
+    throw new Error('The server answered with an unexpected account.');
+  }
+  return {
+    id: String(body['id'] ?? ''),
+    email: body['email'],
+    displayName: typeof body['displayName'] === 'string' ? body['displayName'] : body['email'],
+    role: body['role'],
+    createdAt: typeof body['createdAt'] === 'string' ? body['createdAt'] : undefined,
+  };
+}
+
+function readToken(body: unknown): string {
+  if (!isRecord(body) || typeof body['token'] !== 'string' || body['token'] === '') {
+    throw new Error('The server did not return a session.');
+  }
+  return body['token'];
+}
+
+function storedToken(): string | null {
+  try {
+    return localStorage.getItem(TOKEN_KEY);
+  } catch {
+    return null;
+  }
+}
+
+/** The session: a bearer token kept in localStorage and the account it belongs to. */
+@Injectable({ providedIn: 'root' })
+export class AuthService {
+  readonly #http = inject(HttpClient);
+  readonly #token = signal<string | null>(storedToken());
+  readonly #me = signal<Me | null>(null);
+
+  readonly token = this.#token.asReadonly();
+  readonly me = this.#me.asReadonly();
+  readonly signedIn = computed(() => this.#token() !== null);
+
+  constructor() {
+    if (this.#token()) this.refreshMe().subscribe({ error: () => this.#forget() });
+  }
+
+  signUp(request: SignUpRequest): Observable<Me> {
+    return this.#http.post<unknown>('/api/v1/accounts', request).pipe(map(readMe));
+  }
+
+  signIn(request: SignInRequest): Observable<Me> {
+    return this.#http.post<unknown>('/api/v1/sessions', request).pipe(
+      map(readToken),
+      tap((token) => this.#remember(token)),
+      switchMap(() => this.refreshMe()),
+      tap({ error: () => this.#forget() }),
+    );
+  }
+
+  signOut(): Observable<void> {
+    return this.#http.delete<unknown>('/api/v1/sessions/current').pipe(
+      map(() => undefined),
+      tap({ finalize: () => this.#forget() }),
+    );
+  }
+
+  /** Reads the signed-in account again; a 401 means the session has ended. */
+  refreshMe(): Observable<Me> {
+    return this.#http.get<unknown>('/api/v1/me').pipe(
+      map(readMe),
+      tap({ next: (me) => this.#me.set(me), error: (error: unknown) => this.#forgetIfUnauthorised(error) }),
+    );
+  }
+
+  #forgetIfUnauthorised(error: unknown): void {
+    if (isRecord(error) && error['status'] === 401) this.#forget();
+  }
+
+  #remember(token: string): void {
+    this.#token.set(token);
+    try {
+      localStorage.setItem(TOKEN_KEY, token);
+    } catch {
+      // private browsing: the session lasts as long as the page
+    }
+  }
+
+  #forget(): void {
+    this.#token.set(null);
+    this.#me.set(null);
+    try {
+      localStorage.removeItem(TOKEN_KEY);
+    } catch {
+      // nothing stored
+    }
+  }
+}

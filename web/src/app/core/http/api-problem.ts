@@ -1,0 +1,71 @@
+/**
+ * The one shape the app shows for a failed request: a problem+json body from the API, or a
+ * network failure, normalised into a sentence a person can read.
+ */
+export interface InvalidParam {
+  name: string;
+  reason: string;
+}
+
+export class ApiProblem extends Error {
+  constructor(
+    readonly status: number,
+    readonly title: string,
+    readonly detail: string,
+    readonly invalidParams: readonly InvalidParam[] = [],
+    readonly type = 'about:blank',
+  ) {
+    super(detail || title);
+    this.name = 'ApiProblem';
+  }
+
+  /** The sentence to show: the server's detail, followed by what was wrong with each field. */
+  get readable(): string {
+    const fields = this.invalidParams.map((param) => `${fieldName(param.name)}: ${param.reason}`);
+    return [this.detail || this.title, ...fields].join(' ');
+  }
+
+  /** The reason given for one field (matched on the last segment of its JSON pointer), if any. */
+  reasonFor(field: string): string | undefined {
+    return this.invalidParams.find((param) => fieldName(param.name) === field)?.reason;
+  }
+}
+
+function fieldName(pointer: string): string {
+  const parts = pointer.split(/[/.]/).filter((part) => part !== '');
+  return parts.at(-1) ?? pointer;
+}
+
+function isRecord(value: unknown): value is Record<string, unknown> {
+  return typeof value === 'object' && value !== null && !Array.isArray(value);
+}
+
+function readInvalidParams(value: unknown): InvalidParam[] {
+  if (!Array.isArray(value)) return [];
+  return value.filter(isRecord).map((param) => ({ name: String(param['name'] ?? ''), reason: String(param['reason'] ?? '') }));
+}
+
+/** Builds an ApiProblem from an HTTP status and whatever body came back. */
+export function problemFromResponse(status: number, body: unknown): ApiProblem {
+  if (status === 0) {
+    return new ApiProblem(0, 'No connection', 'The server cannot be reached. Check the connection and try again.');
+  }
+  if (isRecord(body) && typeof body['title'] === 'string') {
+    return new ApiProblem(
+      typeof body['status'] === 'number' ? body['status'] : status,
+      body['title'],
+      typeof body['detail'] === 'string' ? body['detail'] : '',
+      readInvalidParams(body['invalid-params']),
+      typeof body['type'] === 'string' ? body['type'] : 'about:blank',
+    );
+  }
+  if (status >= 500) return new ApiProblem(status, 'Server error', 'The server ran into a problem. Try again in a moment.');
+  return new ApiProblem(status, 'Request failed', `The request failed (HTTP ${status}).`);
+}
+
+/** A readable message for any error a request or the engine may throw. */
+export function readableError(error: unknown): string {
+  if (error instanceof ApiProblem) return error.readable;
+  if (error instanceof Error) return error.message;
+  return 'Something went wrong.';
+}

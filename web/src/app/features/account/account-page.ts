@@ -1,0 +1,72 @@
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { DatePipe } from '@angular/common';
+import { Router } from '@angular/router';
+import { MatButton } from '@angular/material/button';
+import { MatProgressBar } from '@angular/material/progress-bar';
+import { AuthService } from '../../core/auth/auth-service';
+import { readableError } from '../../core/http/api-problem';
+
+@Component({
+  selector: 'sv-account-page',
+  imports: [DatePipe, MatButton, MatProgressBar],
+  template: `
+    <h1>Your account</h1>
+    @if (auth.me(); as me) {
+      <dl class="facts">
+        <div><dt>Name</dt><dd>{{ me.displayName }}</dd></div>
+        <div><dt>E-mail</dt><dd>{{ me.email }}</dd></div>
+        <div><dt>Role</dt><dd class="role">{{ me.role }}</dd></div>
+        @if (me.createdAt) {
+          <div><dt>Member since</dt><dd>{{ me.createdAt | date: 'longDate' }}</dd></div>
+        }
+      </dl>
+      <p>The study sets, drills and console pages for your role arrive here as they are built.</p>
+    } @else if (problem(); as message) {
+      <p class="problem" role="alert">{{ message }}</p>
+    } @else {
+      <mat-progress-bar mode="indeterminate" aria-label="Loading your account" />
+    }
+    <button mat-stroked-button type="button" (click)="signOut()">Sign out</button>
+  `,
+  styles: `
+    .facts div {
+      display: grid;
+      grid-template-columns: 140px 1fr;
+      gap: 8px;
+      padding: 6px 0;
+      border-bottom: 1px solid var(--mat-sys-outline-variant);
+    }
+    dt {
+      font-weight: 700;
+    }
+    dd {
+      margin: 0;
+    }
+    .role {
+      text-transform: capitalize;
+    }
+    .problem {
+      padding: 12px;
+      border-radius: 8px;
+      background: var(--mat-sys-error-container);
+      color: var(--mat-sys-on-error-container);
+    }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class AccountPage {
+  protected readonly auth = inject(AuthService);
+  readonly #router = inject(Router);
+  protected readonly problem = signal<string | null>(null);
+
+  constructor() {
+    this.auth.refreshMe().subscribe({ error: (error: unknown) => this.problem.set(readableError(error)) });
+  }
+
+  protected signOut(): void {
+    this.auth.signOut().subscribe({
+      complete: () => void this.#router.navigateByUrl('/'),
+      error: () => void this.#router.navigateByUrl('/'),
+    });
+  }
+}

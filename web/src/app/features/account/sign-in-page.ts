@@ -1,0 +1,80 @@
+import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
+import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { Router, RouterLink } from '@angular/router';
+import { MatFormField, MatLabel, MatError } from '@angular/material/form-field';
+import { MatInput } from '@angular/material/input';
+import { MatButton } from '@angular/material/button';
+import { AuthService } from '../../core/auth/auth-service';
+import { readableError } from '../../core/http/api-problem';
+
+/** Only same-app paths are followed after sign-in, never another site. */
+export function safeNext(next: string | undefined): string {
+  return next && next.startsWith('/') && !next.startsWith('//') ? next : '/account';
+}
+
+@Component({
+  selector: 'sv-sign-in-page',
+  imports: [ReactiveFormsModule, RouterLink, MatFormField, MatLabel, MatError, MatInput, MatButton],
+  template: `
+    <h1>Sign in</h1>
+    <p>Anyone can sift without an account. Sign in to keep study sets, drills and curator work.</p>
+    <form [formGroup]="form" (ngSubmit)="signIn()" novalidate>
+      <mat-form-field appearance="outline">
+        <mat-label>E-mail</mat-label>
+        <input matInput type="email" formControlName="email" autocomplete="email" required />
+        @if (form.controls.email.hasError('required')) {
+          <mat-error>Enter your e-mail address.</mat-error>
+        } @else if (form.controls.email.hasError('email')) {
+          <mat-error>That does not look like an e-mail address.</mat-error>
+        }
+      </mat-form-field>
+      <mat-form-field appearance="outline">
+        <mat-label>Password</mat-label>
+        <input matInput type="password" formControlName="password" autocomplete="current-password" required />
+        @if (form.controls.password.hasError('required')) {
+          <mat-error>Enter your password.</mat-error>
+        }
+      </mat-form-field>
+      @if (problem(); as message) {
+        <p class="problem" role="alert">{{ message }}</p>
+      }
+      <div class="actions">
+        <button mat-flat-button type="submit" [disabled]="busy()">Sign in</button>
+        <a routerLink="/sign-up">Create an account</a>
+      </div>
+    </form>
+  `,
+  styleUrl: './account-form.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class SignInPage {
+  readonly #auth = inject(AuthService);
+  readonly #router = inject(Router);
+  readonly #fb = inject(NonNullableFormBuilder);
+
+  /** where to go after signing in (`?next=`) */
+  readonly next = input<string>();
+
+  protected readonly form = this.#fb.group({
+    email: ['', [Validators.required, Validators.email]],
+    password: ['', Validators.required],
+  });
+  protected readonly problem = signal<string | null>(null);
+  protected readonly busy = signal(false);
+
+  protected signIn(): void {
+    if (this.form.invalid) {
+      this.form.markAllAsTouched();
+      return;
+    }
+    this.busy.set(true);
+    this.problem.set(null);
+    this.#auth.signIn(this.form.getRawValue()).subscribe({
+      next: () => void this.#router.navigateByUrl(safeNext(this.next())),
+      error: (error: unknown) => {
+        this.problem.set(readableError(error));
+        this.busy.set(false);
+      },
+    });
+  }
+}

@@ -1,0 +1,89 @@
+import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { Router, RouterLink } from '@angular/router';
+import { switchMap } from 'rxjs';
+import { MatFormField, MatLabel, MatError, MatHint } from '@angular/material/form-field';
+import { MatInput } from '@angular/material/input';
+import { MatButton } from '@angular/material/button';
+import { AuthService } from '../../core/auth/auth-service';
+import { ApiProblem, readableError } from '../../core/http/api-problem';
+
+@Component({
+  selector: 'sv-sign-up-page',
+  imports: [ReactiveFormsModule, RouterLink, MatFormField, MatLabel, MatError, MatHint, MatInput, MatButton],
+  template: `
+    <h1>Create an account</h1>
+    <p>New accounts are learners. A coach or admin can give you another role later.</p>
+    <form [formGroup]="form" (ngSubmit)="signUp()" novalidate>
+      <mat-form-field appearance="outline">
+        <mat-label>Name shown to others</mat-label>
+        <input matInput formControlName="displayName" autocomplete="name" required maxlength="120" />
+        @if (form.controls.displayName.hasError('required')) {
+          <mat-error>Enter a name.</mat-error>
+        }
+      </mat-form-field>
+      <mat-form-field appearance="outline">
+        <mat-label>E-mail</mat-label>
+        <input matInput type="email" formControlName="email" autocomplete="email" required />
+        @if (form.controls.email.hasError('required')) {
+          <mat-error>Enter your e-mail address.</mat-error>
+        } @else if (form.controls.email.hasError('email')) {
+          <mat-error>That does not look like an e-mail address.</mat-error>
+        }
+      </mat-form-field>
+      <mat-form-field appearance="outline">
+        <mat-label>Password</mat-label>
+        <input matInput type="password" formControlName="password" autocomplete="new-password" required />
+        <mat-hint>At least {{ minPassword }} characters; a few unrelated words work well.</mat-hint>
+        @if (form.controls.password.hasError('required')) {
+          <mat-error>Choose a password.</mat-error>
+        } @else if (form.controls.password.hasError('minlength')) {
+          <mat-error>Use at least {{ minPassword }} characters.</mat-error>
+        }
+      </mat-form-field>
+      @if (problem(); as message) {
+        <p class="problem" role="alert">{{ message }}</p>
+      }
+      <div class="actions">
+        <button mat-flat-button type="submit" [disabled]="busy()">Create account</button>
+        <a routerLink="/sign-in">I already have an account</a>
+      </div>
+    </form>
+  `,
+  styleUrl: './account-form.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class SignUpPage {
+  readonly #auth = inject(AuthService);
+  readonly #router = inject(Router);
+  readonly #fb = inject(NonNullableFormBuilder);
+
+  protected readonly minPassword = 10;
+  protected readonly form = this.#fb.group({
+    displayName: ['', Validators.required],
+    email: ['', [Validators.required, Validators.email]],
+    password: ['', [Validators.required, Validators.minLength(this.minPassword)]],
+  });
+  protected readonly problem = signal<string | null>(null);
+  protected readonly busy = signal(false);
+
+  protected signUp(): void {
+    if (this.form.invalid) {
+      this.form.markAllAsTouched();
+      return;
+    }
+    this.busy.set(true);
+    this.problem.set(null);
+    const request = this.form.getRawValue();
+    this.#auth
+      .signUp(request)
+      .pipe(switchMap(() => this.#auth.signIn({ email: request.email, password: request.password })))
+      .subscribe({
+        next: () => void this.#router.navigateByUrl('/account'),
+        error: (error: unknown) => {
+          this.problem.set(error instanceof ApiProblem ? error.readable : readableError(error));
+          this.busy.set(false);
+        },
+      });
+  }
+}

@@ -1,0 +1,156 @@
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, linkedSignal, signal, untracked, viewChild } from '@angular/core';
+import { ActivatedRoute, Router } from '@angular/router';
+import { MatButtonToggle, MatButtonToggleGroup } from '@angular/material/button-toggle';
+import { MatSnackBar } from '@angular/material/snack-bar';
+import { MatProgressBar } from '@angular/material/progress-bar';
+import { MatIcon } from '@angular/material/icon';
+import { MatButton } from '@angular/material/button';
+import { rank } from '@shared/engine';
+import type { Observation, ObservingSeason } from '@shared/engine/types';
+import { EditionService } from '../../core/edition/edition-service';
+import { IDENTIFICATION_CAUTION } from '../../core/layout/cautions';
+import { EditionStatus } from '../../shared/edition-status';
+import { SeenSoFar } from './seen-so-far';
+import { Shortlist } from './shortlist';
+import { type ObservationChange, TraitPicker } from './trait-picker';
+import { type SearchPick, TraitSearch } from './trait-search';
+import {
+  type SiftQuery,
+  loadLastSift,
+  parseLeeway,
+  parseObservations,
+  parseSeason,
+  saveLastSift,
+  siftQueryParams,
+} from './sift-query';
+
+/** How many shortlist and ruled-out entries the engine returns; probabilities still cover every taxon. */
+const SHORTLIST_LIMIT = 25;
+/** The User Timing name of one engine run, read by the performance test. */
+export const ENGINE_MEASURE = 'sylvasift:engine';
+
+function sameQuery(a: SiftQuery, b: SiftQuery): boolean {
+  return (a.o ?? '') === (b.o ?? '') && (a.season ?? '') === (b.season ?? '') && (a.leeway ?? '') === (b.leeway ?? '');
+}
+
+@Component({
+  selector: 'sv-sift-page',
+  imports: [
+    MatButtonToggleGroup,
+    MatButtonToggle,
+    MatProgressBar,
+    MatIcon,
+    MatButton,
+    EditionStatus,
+    TraitSearch,
+    TraitPicker,
+    SeenSoFar,
+    Shortlist,
+  ],
+  templateUrl: './sift-page.html',
+  styleUrl: './sift-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class SiftPage {
+  readonly #router = inject(Router);
+  readonly #route = inject(ActivatedRoute);
+  readonly #snackBar = inject(MatSnackBar);
+  protected readonly editions = inject(EditionService);
+
+  /** `?o=` observations, `?season=`, `?leeway=` — the sift as a link */
+  readonly o = input<string>();
+  readonly season = input<string>();
+  readonly leeway = input<string>();
+
+  protected readonly caution = IDENTIFICATION_CAUTION;
+  protected readonly picker = viewChild(TraitPicker);
+  protected readonly compiled = this.editions.compiled;
+
+  /** The URL's sift, or the last one saved on this device when the URL carries none. */
+  readonly #source = computed<SiftQuery>(() => {
+    const fromUrl: SiftQuery = { o: this.o(), season: this.season(), leeway: this.leeway() };
+    if (fromUrl.o !== undefined || fromUrl.season !== undefined || fromUrl.leeway !== undefined) return fromUrl;
+    return untracked(() => loadLastSift()) ?? fromUrl;
+  });
+
+  protected readonly observations = linkedSignal<Observation[]>(() => {
+    const compiled = this.compiled();
+    return compiled ? parseObservations(this.#source().o, compiled) : [];
+  });
+  protected readonly siftSeason = linkedSignal<ObservingSeason>(() => parseSeason(this.#source().season));
+  protected readonly siftLeeway = linkedSignal<number>(() => parseLeeway(this.#source().leeway));
+  protected readonly sideBySide = signal<string[]>([]);
+
+  protected readonly outcome = computed(() => {
+    const compiled = this.compiled();
+    if (!compiled) return null;
+    const observations = this.observations();
+    const season = this.siftSeason();
+    const leeway = this.siftLeeway();
+    const started = performance.now();
+    const ranked = rank(compiled, observations, { season, leeway, limit: SHORTLIST_LIMIT });
+    performance.measure(ENGINE_MEASURE, { start: started, end: performance.now() });
+    return { ranked };
+  });
+
+  protected readonly skipped = computed(() => this.outcome()?.ranked.skipped ?? []);
+
+  constructor() {
+    // The sift lives in the URL (shareable, and the back button steps through it) and on the device.
+    effect(() => {
+      if (!this.compiled()) return;
+      const query = siftQueryParams(this.observations(), this.siftSeason(), this.siftLeeway());
+      saveLastSift(query);
+      untracked(() => {
+        const current = this.#route.snapshot.queryParams as SiftQuery;
+        if (sameQuery(query, current)) return;
+        const hadSift = current.o !== undefined || current.season !== undefined || current.leeway !== undefined;
+        void this.#router.navigate([], {
+          relativeTo: this.#route,
+          queryParams: { o: query.o ?? null, season: query.season, leeway: query.leeway },
+          replaceUrl: !hadSift,
+        });
+      });
+    });
+  }
+
+  protected applyChange(change: ObservationChange): void {
+    this.observations.update((observations) => {
+      const index = observations.findIndex((observation) => observation.trait === change.trait);
+      if (!change.observation) return observations.filter((observation) => observation.trait !== change.trait);
+      if (index < 0) return [...observations, change.observation];
+      return observations.map((observation, i) => (i === index ? (change.observation as Observation) : observation));
+    });
+  }
+
+  protected removeObservation(trait: string): void {
+    this.applyChange({ trait, observation: null });
+  }
+
+  protected clearAll(): void {
+    const previous = this.observations();
+    if (previous.length === 0) return;
+    this.observations.set([]);
+    this.#snackBar
+      .open(`Cleared ${previous.length} ${previous.length === 1 ? 'observation' : 'observations'}.`, 'Undo', { duration: 8000 })
+      .onAction()
+      .subscribe(() => this.observations.set(previous));
+  }
+
+  protected setSeason(value: unknown): void {
+    if (value === 'leaf-on' || value === 'leaf-off') this.siftSeason.set(value);
+  }
+
+  protected jumpTo(pick: SearchPick): void {
+    this.picker()?.reveal(pick.trait, pick.answer);
+  }
+
+  protected lookAt(trait: string): void {
+    this.picker()?.reveal(trait);
+  }
+
+  protected startOver(): void {
+    this.observations.set([]);
+    this.sideBySide.set([]);
+  }
+}

@@ -1,0 +1,84 @@
+import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
+import { RouterLink } from '@angular/router';
+import { Location } from '@angular/common';
+import { MatIcon } from '@angular/material/icon';
+import { MatAnchor, MatButton } from '@angular/material/button';
+import { MatProgressBar } from '@angular/material/progress-bar';
+import { cellOf } from '@shared/engine';
+import type { CompiledTrait } from '@shared/engine/compiled';
+import type { Cell } from '@shared/engine/types';
+import { EditionService } from '../../core/edition/edition-service';
+import { USE_CAUTION, IDENTIFICATION_CAUTION } from '../../core/layout/cautions';
+import { EditionStatus } from '../../shared/edition-status';
+import { PART_LABELS, PART_ORDER, commonName, describeCell, illustrationUrl, isDiscreteCell } from '../../shared/matrix-words';
+
+interface CodedRow {
+  trait: CompiledTrait;
+  words: string;
+  drawings: Array<{ url: string; label: string }>;
+}
+
+function drawingsOf(trait: CompiledTrait, cell: Cell): Array<{ url: string; label: string }> {
+  if (!isDiscreteCell(cell)) return [];
+  const coded = [...(cell.usual ?? []), ...(cell.occasional ?? [])].map(String);
+  return trait.values
+    .filter((value) => coded.includes(value.code) && value.illustration)
+    .map((value) => ({ url: illustrationUrl(value.illustration) ?? '', label: value.label }));
+}
+
+@Component({
+  selector: 'sv-species-page',
+  imports: [RouterLink, MatIcon, MatAnchor, MatButton, MatProgressBar, EditionStatus],
+  templateUrl: './species-page.html',
+  styleUrl: './species-page.scss',
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export default class SpeciesPage {
+  protected readonly editions = inject(EditionService);
+  readonly #location = inject(Location);
+
+  /** the taxon id from `/species/:id` */
+  readonly id = input.required<string>();
+
+  protected readonly useCaution = USE_CAUTION;
+  protected readonly identificationCaution = IDENTIFICATION_CAUTION;
+
+  protected readonly taxon = computed(() => {
+    const compiled = this.editions.compiled();
+    const index = compiled?.taxonIndexById.get(this.id());
+    return compiled && index !== undefined ? compiled.taxa[index] : null;
+  });
+
+  protected readonly name = computed(() => {
+    const taxon = this.taxon();
+    return taxon ? commonName(taxon) : '';
+  });
+
+  protected readonly parts = computed(() => {
+    const compiled = this.editions.compiled();
+    const taxon = this.taxon();
+    if (!compiled || !taxon) return [];
+    const rows = compiled.traits
+      .map((trait) => ({ trait, cell: cellOf(compiled, taxon.id, trait.code) }))
+      .filter(({ cell }) => cell !== 'unknown' && cell !== 'inapplicable')
+      .map(({ trait, cell }): CodedRow => ({ trait, words: describeCell(trait, cell), drawings: drawingsOf(trait, cell) }));
+    return PART_ORDER.map((part) => ({ part, label: PART_LABELS[part], rows: rows.filter((row) => row.trait.part === part) })).filter(
+      (group) => group.rows.length > 0,
+    );
+  });
+
+  protected readonly lookAlikeCautions = computed(() => {
+    const compiled = this.editions.compiled();
+    const taxon = this.taxon();
+    if (!compiled || !taxon) return [];
+    return (taxon.lookAlikes ?? []).flatMap((id) => {
+      const index = compiled.taxonIndexById.get(id);
+      const other = index === undefined ? undefined : compiled.taxa[index];
+      return other?.cautions?.length ? [{ id, name: commonName(other), cautions: other.cautions }] : [];
+    });
+  });
+
+  protected goBack(): void {
+    this.#location.back();
+  }
+}
