@@ -53,7 +53,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
     if (migrated.length > 0) logger.info({ migrated }, 'database migrated');
     if (seeded.length > 0) logger.info({ seeded }, 'database seeded');
   }
-  const people = await startPeople({ config, logger, sequelize, models });
+  const people = await startPeople({ config, logger, sequelize, models, afterRestore: () => context.editions.invalidate() });
   const context: AppContext = { config, logger, sequelize, models, editions: new EditionCatalog(models), people };
 
   const app = express();

@@ -1,3 +1,4 @@
+import os from 'node:os';
 import path from 'node:path';
 
 type Environment = 'development' | 'test' | 'production';
@@ -114,7 +115,8 @@ export function readPeopleConfig(env: NodeJS.ProcessEnv, nodeEnv: Environment, p
     smtpUrl,
     mailFrom: env['MAIL_FROM'] ?? 'Sylvasift <no-reply@sylvasift.invalid>',
     publicUrl,
-    backupDir: path.resolve(env['BACKUP_DIR'] ?? 'data/backups'),
+    // Test apps write snapshots to the temporary folder, never into the checkout.
+    backupDir: path.resolve(env['BACKUP_DIR'] ?? (isTest ? path.join(os.tmpdir(), `sylvasift-backups-${process.pid}`) : 'data/backups')),
     seedDemo: readBoolean(env, 'SEED_DEMO', false, problems),
     demoPartnerKey,
   };

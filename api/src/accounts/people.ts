@@ -13,6 +13,10 @@ import { accountService, type AccountService } from './account-service';
 import { accountRoutes } from './account-routes';
 import { userAdminService } from '../admin/user-admin-service';
 import { userAdminRoutes } from '../admin/user-admin-routes';
+import { backupService } from '../admin/backup-service';
+import { backupRoutes } from '../admin/backup-routes';
+import { queryService } from '../queries/query-service';
+import { queryRoutes } from '../queries/query-routes';
 
 /** The accounts, keys, mail and limits side of the app, built once per app. */
 export interface People {
@@ -31,7 +35,16 @@ export interface People {
   close(): Promise<void>;
 }
 
-export async function startPeople(deps: { config: AppConfig; logger: Logger; sequelize: Sequelize; models: Models }): Promise<People> {
+export interface PeopleDeps {
+  config: AppConfig;
+  logger: Logger;
+  sequelize: Sequelize;
+  models: Models;
+  /** called after a backup was restored, so caches of the old data are dropped */
+  afterRestore?: () => void;
+}
+
+export async function startPeople(deps: PeopleDeps): Promise<People> {
   const { config, logger, sequelize, models } = deps;
   const mailer = await startMailer(config.people, logger);
   const limiterStores = createLimiterStores(config.people, logger);
@@ -49,6 +62,8 @@ export async function startPeople(deps: { config: AppConfig; logger: Logger; seq
   routes.use('/keys', keyRoutes(keys));
   routes.use('/admin/keys', adminKeyRoutes(keys));
   routes.use('/admin/users', userAdminRoutes(userAdminService(sequelize, models)));
+  routes.use('/admin/backups', backupRoutes(backupService(sequelize, config.people.backupDir, () => deps.afterRestore?.())));
+  routes.use('/queries', queryRoutes(queryService({ sequelize, models, mailer, logger, publicUrl: config.people.publicUrl })));
 
   let devRoutes: Router | undefined;
   if (config.env !== 'production' && mailer.captured) {
