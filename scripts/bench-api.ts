@@ -1,0 +1,141 @@
+/**
+ * API throughput check: starts the app on an ephemeral loopback port with the reference edition,
+ * measures GET /api/health (the floor: Express plus one trivial query) and POST /api/v1/identify with
+ * a typical five-observation sift, and checks that the partner-key limiter answers 429 exactly past
+ * its quota under concurrency.
+ *
+ * Pass bar: identify reaches at least half the floor's requests/s, with p99 under 50 ms, at
+ * CONNECTIONS concurrent connections. Load generator and server share the machine's cores, so the
+ * ratio matters more than the absolute numbers.
+ */
+import { createRequire } from 'node:module';
+import type { AddressInfo } from 'node:net';
+import type { Server } from 'node:http';
+import { createApp, type CreatedApp } from '../api/src/app';
+import { loadConfig } from '../api/src/config';
+
+const CONNECTIONS = 16;
+const DURATION_S = Number(process.env['BENCH_SECONDS'] ?? 8);
+const LIMITER_QUOTA = 50;
+const LIMITER_REQUESTS = 80;
+
+interface AutocannonResult {
+  requests: { average: number; total: number };
+  latency: { p50: number; p99: number; average: number };
+  errors: number;
+  non2xx: number;
+  statusCodeStats?: Record<string, { count: number }>;
+}
+interface AutocannonOptions {
+  url: string;
+  connections: number;
+  duration?: number;
+  amount?: number;
+  method?: string;
+  headers?: Record<string, string>;
+  body?: string;
+}
+type Autocannon = (options: AutocannonOptions) => Promise<AutocannonResult>;
+const autocannon = createRequire(import.meta.url)('autocannon') as Autocannon;
+
+// Loblolly pine seen in summer: needle foliage, 3 needles per bundle, 6-inch needles, alternate, furrowed bark.
+const TYPICAL_SIFT = JSON.stringify({
+  observations: [
+    { trait: 'foliage', values: ['needle'] },
+    { trait: 'needles-per-fascicle', values: [3] },
+    { trait: 'needle-length', value: 6, unit: 'in' },
+    { trait: 'leaf-arrangement', values: ['alternate'] },
+    { trait: 'bark-texture', values: ['furrowed', 'plated'] },
+  ],
+  season: 'leaf-on',
+  leeway: 2,
+  limit: 10,
+});
+
+async function listen(created: CreatedApp): Promise<{ server: Server; base: string }> {
+  return new Promise((resolve) => {
+    const server = created.app.listen(0, '127.0.0.1', () => {
+      const { port } = server.address() as AddressInfo;
+      resolve({ server, base: `http://127.0.0.1:${port}` });
+    });
+  });
+}
+
+async function postJson(url: string, body: unknown, token?: string): Promise<Record<string, unknown>> {
+  const response = await fetch(url, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json', ...(token ? { authorization: `Bearer ${token}` } : {}) },
+    body: JSON.stringify(body),
+  });
+  const answer = (await response.json()) as Record<string, unknown>;
+  if (!response.ok) throw new Error(`${url}: ${response.status} ${JSON.stringify(answer)}`);
+  return answer;
+}
+
+/** Signs a bench user up and in, and gives them a partner key with the identify scope. */
+async function partnerKey(base: string, label: string): Promise<string> {
+  const email = `bench-${label}-${process.pid}@example.invalid`;
+  const password = 'bench password long enough';
+  await postJson(`${base}/api/v1/accounts`, { email, password, displayName: `Bench ${label}` });
+  const session = await postJson(`${base}/api/v1/sessions`, { email, password });
+  const key = await postJson(`${base}/api/v1/keys`, { name: `bench ${label}`, scopes: ['identify', 'lookup'] }, session['token'] as string);
+  return key['key'] as string;
+}
+
+function describe(name: string, result: AutocannonResult): string {
+  return `${name.padEnd(24)} ${result.requests.average.toFixed(0).padStart(6)} req/s   p50 ${String(result.latency.p50).padStart(3)} ms   p99 ${String(result.latency.p99).padStart(3)} ms   non-2xx ${result.non2xx}   errors ${result.errors}`;
+}
+
+async function throughput(): Promise<boolean> {
+  const created = await createApp(
+    loadConfig({ NODE_ENV: 'test', LOG_LEVEL: 'silent', VALIDATE_RESPONSES: 'false', KEY_PER_MINUTE: '1000000', KEY_DAILY_QUOTA: '100000000' }),
+  );
+  const { server, base } = await listen(created);
+  try {
+    const key = await partnerKey(base, 'throughput');
+    const headers = { 'content-type': 'application/json', authorization: `Bearer ${key}` };
+    // Warm up: compiles the edition once and lets the JIT settle.
+    await autocannon({ url: `${base}/api/v1/identify`, connections: 4, amount: 400, method: 'POST', headers, body: TYPICAL_SIFT });
+    await autocannon({ url: `${base}/api/health`, connections: 4, amount: 400 });
+
+    const floor = await autocannon({ url: `${base}/api/health`, connections: CONNECTIONS, duration: DURATION_S });
+    const identify = await autocannon({ url: `${base}/api/v1/identify`, connections: CONNECTIONS, duration: DURATION_S, method: 'POST', headers, body: TYPICAL_SIFT });
+    const ratio = identify.requests.average / floor.requests.average;
+    console.log(`\nconcurrency ${CONNECTIONS} connections, ${DURATION_S} s each, one process on loopback\n`);
+    console.log(describe('GET /api/health (floor)', floor));
+    console.log(describe('POST /api/v1/identify', identify));
+    console.log(`\nidentify / floor throughput: ${ratio.toFixed(2)} (needs ≥ 0.50); identify p99 ${identify.latency.p99} ms (needs < 50)`);
+    const clean = identify.non2xx === 0 && identify.errors === 0 && floor.non2xx === 0 && floor.errors === 0;
+    if (!clean) console.log('some requests failed; see non-2xx and errors above');
+    return clean && ratio >= 0.5 && identify.latency.p99 < 50;
+  } finally {
+    server.close();
+    await created.close();
+  }
+}
+
+/** Fires more requests than a key's per-minute limit allows, all at once, and counts the answers. */
+async function limiterHoldsUnderConcurrency(): Promise<boolean> {
+  const created = await createApp(loadConfig({ NODE_ENV: 'test', LOG_LEVEL: 'silent', VALIDATE_RESPONSES: 'false', KEY_PER_MINUTE: String(LIMITER_QUOTA) }));
+  const { server, base } = await listen(created);
+  try {
+    const key = await partnerKey(base, 'limiter');
+    const headers = { 'content-type': 'application/json', authorization: `Bearer ${key}` };
+    const result = await autocannon({ url: `${base}/api/v1/identify`, connections: CONNECTIONS, amount: LIMITER_REQUESTS, method: 'POST', headers, body: TYPICAL_SIFT });
+    const stats = result.statusCodeStats ?? {};
+    const ok = stats['200']?.count ?? 0;
+    const limited = stats['429']?.count ?? 0;
+    console.log(`\nrate limiter: ${LIMITER_REQUESTS} identify calls on one key limited to ${LIMITER_QUOTA}/minute, ${CONNECTIONS} at a time → ${ok} × 200, ${limited} × 429`);
+    const exact = ok === LIMITER_QUOTA && limited === LIMITER_REQUESTS - LIMITER_QUOTA;
+    console.log(exact ? 'the limiter answers 429 exactly past the quota' : 'the limiter did NOT stop exactly at the quota');
+    return exact;
+  } finally {
+    server.close();
+    await created.close();
+  }
+}
+
+const fast = await throughput();
+const limited = await limiterHoldsUnderConcurrency();
+console.log(`\n${fast ? 'PASS' : 'FAIL'} throughput and latency; ${limited ? 'PASS' : 'FAIL'} rate limit`);
+process.exit(fast && limited ? 0 : 1);
