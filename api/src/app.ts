@@ -21,6 +21,7 @@ import { identifyRoutes } from './identify/identify-routes';
 import { taxaRoutes } from './taxa/taxa-routes';
 import { traitsRoutes } from './traits/traits-routes';
 import { curationRoutes } from './curation/curation-routes';
+import { photoRoutes } from './uploads/photo-routes';
 
 /** Everything a route's domain service may need, built once per app. */
 export interface AppContext {
@@ -96,7 +97,10 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   app.use('/api', docsRoutes());
   const lookup = openToAnonymousButKeysNeed('lookup');
   app.use('/api/v1/identify', identifyRoutes(context.editions));
+  const photos = photoRoutes({ models, uploadsDir: config.uploadsDir });
+  app.use('/api/v1/taxa', photos.upload);
   app.use('/api/v1/taxa', lookup, taxaRoutes(context));
+  app.use('/api/v1/photos', lookup, photos.serve);
   app.use('/api/v1/traits', lookup, traitsRoutes(context.editions));
   app.use('/api/v1/editions', editionRoutes(context));
   app.use('/api/v1/curation', curationRoutes(context));
