@@ -78,9 +78,12 @@ export function backupService(sequelize: Sequelize, backupDir: string, afterRest
       if (!other) throw notOurs(`The file has no table ${table}.`);
       if (other.join(',') !== columns.join(',')) throw notOurs(`The table ${table} in the file has other columns than this version expects.`);
     }
-    const applied = (await all(db, 'SELECT name FROM snapshot.schema_migrations ORDER BY name')).map((r) => String(r['name']));
-    const expected = migrations.map((m) => m.name).sort();
-    if (applied.join(',') !== expected.join(',')) throw notOurs('The file was made at another schema version than this code runs.');
+    const names = async (schema: 'main' | 'snapshot') => (await all(db, `SELECT name FROM ${schema}.schema_migrations ORDER BY name`)).map((r) => String(r['name']));
+    const [applied, live] = await Promise.all([names('snapshot'), names('main')]);
+    const expected = migrations.map((m) => m.name);
+    if (applied.join(',') !== live.join(',') || !expected.every((name) => applied.includes(name))) {
+      throw notOurs('The file was made at another schema version than this code runs.');
+    }
     return ours;
   }
 
