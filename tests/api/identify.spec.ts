@@ -80,6 +80,20 @@ describe('api: POST /api/v1/identify', () => {
     });
 
     // Longleaf pine: needles 20–45 cm (Flora of North America vol. 2, from memory), far beyond 15 cm.
+    it('suggests what to Look at next, leaving out traits already seen and leaf traits in leaf-off', async () => {
+      const res = await post(LOBLOLLY_SIGHTING).expect(200);
+      const suggested = (res.body.suggestions as Array<{ trait: string; expectedGain: number; preview: unknown[] }>);
+      expect(suggested.length).to.be.greaterThan(0);
+      for (const s of suggested) {
+        expect(['foliage', 'needles-per-fascicle', 'needle-length']).to.not.include(s.trait);
+        expect(s.expectedGain).to.be.at.least(0);
+        expect(s.preview.length).to.be.greaterThan(0);
+      }
+      const winter = await post({ observations: [{ trait: 'foliage', values: ['broad'] }], season: 'leaf-off' }).expect(200);
+      const leafOn = new Set(['leaf-type', 'leaf-shape', 'leaf-lobing', 'leaf-margin', 'fall-color']);
+      for (const s of winter.body.suggestions as Array<{ trait: string }>) expect(leafOn.has(s.trait), s.trait).to.be.false;
+    });
+
     it('ranks a taxon whose needles are far longer below the loblolly', async () => {
       const res = await post(LOBLOLLY_SIGHTING).expect(200);
       const ids = [...res.body.candidates, ...res.body.ruledOut].map((c: CandidateBody) => c.taxon.id);

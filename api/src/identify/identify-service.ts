@@ -1,4 +1,4 @@
-import { rank, validateObservations, type Candidate, type Observation, type ObservationProblem, type ObservingSeason, type Reason } from '@shared/engine';
+import { rank, suggest, validateObservations, type Candidate, type Observation, type ObservationProblem, type ObservingSeason, type Reason, type Suggestion } from '@shared/engine';
 import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog';
 import { problems, type InvalidParam } from '../http/problem';
 import { taxonReference } from '../taxa/taxon-views';
@@ -26,9 +26,11 @@ export interface IdentifyAnswer {
   totalCandidates: number;
   totalRuledOut: number;
   skipped: Array<{ trait: string; reason: string }>;
+  /** Look at next: the unobserved traits that would narrow the Shortlist most per unit of effort */
+  suggestions: Suggestion[];
 }
 
-export const IDENTIFY_DEFAULTS = Object.freeze({ season: 'leaf-on' as ObservingSeason, leeway: 2, limit: 10 });
+export const IDENTIFY_DEFAULTS = Object.freeze({ season: 'leaf-on' as ObservingSeason, leeway: 2, limit: 10, suggestions: 5 });
 
 /** Where an observation problem sits, as a JSON pointer into the request (the validator's own form: `/body/...`). */
 function pointerOf(problem: ObservationProblem): string {
@@ -52,7 +54,7 @@ function candidateView(edition: LoadedEdition, candidate: Candidate): CandidateV
   };
 }
 
-/** A sift against the current edition: the Shortlist, what was Ruled out, and why. */
+/** A sift against the current edition: the Shortlist, what was Ruled out and why, and what to Look at next. */
 export async function identify(editions: EditionCatalog, request: IdentifyRequest): Promise<IdentifyAnswer> {
   const edition = await editions.current();
   const compiled = edition.compiled;
@@ -63,6 +65,7 @@ export async function identify(editions: EditionCatalog, request: IdentifyReques
   const leeway = request.leeway ?? IDENTIFY_DEFAULTS.leeway;
   const limit = request.limit ?? IDENTIFY_DEFAULTS.limit;
   const ranked = rank(compiled, request.observations, { season, leeway, limit });
+  const suggestions = suggest(compiled, request.observations, { season, leeway, limit: IDENTIFY_DEFAULTS.suggestions });
   return {
     edition: edition.reference,
     season,
@@ -72,5 +75,6 @@ export async function identify(editions: EditionCatalog, request: IdentifyReques
     totalCandidates: ranked.totalCandidates ?? ranked.candidates.length,
     totalRuledOut: ranked.totalRuledOut ?? ranked.ruledOut.length,
     skipped: ranked.skipped ?? [],
+    suggestions,
   };
 }
