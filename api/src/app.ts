@@ -12,6 +12,7 @@ import { healthRoutes } from './health/health-routes';
 import { docsRoutes } from './docs/docs-routes';
 import { webRoutes } from './web/web-routes';
 import { startPeople, type People } from './accounts/people';
+import { registerSeedConfig } from './db/seeders/0002-demo-scenario';
 import { loadOpenApiDocument } from './docs/openapi-document';
 import { contractValidation, type ContractViolation } from './http/openapi-validation';
 import { openToAnonymousButKeysNeed } from './http/lookup-access';
@@ -49,6 +50,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   const logger = pino({ level: config.logLevel, base: { app: 'sylvasift' } });
   const sequelize = await openDatabase(config.databaseUrl, logger);
   const models = defineModels(sequelize);
+  registerSeedConfig(sequelize, config);
   if (config.migrateOnStart) {
     const { migrated, seeded } = await prepareDatabase(sequelize, models, logger);
     if (migrated.length > 0) logger.info({ migrated }, 'database migrated');

@@ -1,6 +1,7 @@
 import type { AddressInfo } from 'node:net';
 import { ConfigError, loadConfig } from './config';
 import { createApp } from './app';
+import { demoSignInLines } from './db/seeders/0002-demo-scenario';
 
 /** How long in-flight requests get to finish after SIGTERM before the process exits anyway. */
 const SHUTDOWN_GRACE_MS = 10_000;
@@ -13,6 +14,8 @@ async function main(): Promise<void> {
     const url = `http://localhost:${port}`;
     context.logger.info({ url }, 'Sylvasift is listening');
     console.log(`\nSylvasift is running at ${url}  (API docs: ${url}/api/docs)\n`);
+    const demo = demoSignInLines(config);
+    if (demo.length > 0) console.log(`${demo.join('\n')}\n`);
   });
 
   let stopping = false;

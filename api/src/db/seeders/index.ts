@@ -1,5 +1,6 @@
 import type { Step } from '../migrator';
 import { referenceMatrix } from './0001-reference-matrix';
+import { demoScenario } from './0002-demo-scenario';
 
 /** Every seeder, in the order they run. */
-export const seeders: readonly Step[] = [referenceMatrix];
+export const seeders: readonly Step[] = [referenceMatrix, demoScenario];
