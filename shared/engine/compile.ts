@@ -86,9 +86,12 @@ function answerIndex(trait: CompiledTrait, value: string | number, codeIndex: Ma
 }
 
 interface PatternBuild {
+  trait: CompiledTrait;
   keys: Map<string | number, number>;
   /** masks of patterns 0, 1, 2… (3 × words each); 0 and 1 stay empty */
   masks: number[];
+  codeIndex: Map<string, number>;
+  scratch: Uint32Array;
 }
 
 function cellKey(scratch: Uint32Array, trait: CompiledTrait): string | number {
@@ -96,54 +99,89 @@ function cellKey(scratch: Uint32Array, trait: CompiledTrait): string | number {
   return scratch.join(',');
 }
 
-function compileDiscreteColumn(
-  trait: CompiledTrait,
-  taxa: readonly Taxon[],
-  column: Uint16Array,
-  columnBase: number,
-): PatternBuild {
+function newPatternBuild(trait: CompiledTrait): PatternBuild {
+  return {
+    trait,
+    keys: new Map(),
+    masks: new Array<number>(6 * trait.words).fill(0),
+    codeIndex: new Map(trait.answerCodes.map((code, index) => [String(code), index])),
+    scratch: new Uint32Array(3 * trait.words),
+  };
+}
+
+/** The pattern id of one coded discrete cell, adding the pattern when it is new. */
+function discretePattern(build: PatternBuild, cell: DiscreteCell): number {
+  const { trait, scratch } = build;
   const words = trait.words;
-  const build: PatternBuild = { keys: new Map(), masks: new Array<number>(6 * words).fill(0) };
-  const codeIndex = new Map(trait.answerCodes.map((code, index) => [String(code), index]));
-  const scratch = new Uint32Array(3 * words);
-  for (let t = 0; t < taxa.length; t++) {
-    const cell = taxa[t].cells[trait.code];
-    if (cell === undefined || cell === 'unknown') {
-      column[columnBase + t] = UNKNOWN_PATTERN;
-      continue;
+  scratch.fill(0);
+  const lists = [cell.usual, cell.occasional, cell.rare];
+  let listed = 0;
+  for (let f = 0; f < 3; f++) {
+    const values = lists[f];
+    if (!values) continue;
+    for (const value of values) {
+      const index = answerIndex(trait, value, build.codeIndex);
+      if (index < 0) continue;
+      scratch[f * words + (index >>> 5)] |= 1 << (index & 31);
+      listed++;
     }
-    if (cell === 'inapplicable') {
-      column[columnBase + t] = INAPPLICABLE_PATTERN;
-      continue;
-    }
-    scratch.fill(0);
-    const discrete = cell as DiscreteCell;
-    const lists = [discrete.usual, discrete.occasional, discrete.rare];
-    let listed = 0;
-    for (let f = 0; f < 3; f++) {
-      for (const value of lists[f] ?? []) {
-        const index = answerIndex(trait, value, codeIndex);
-        if (index < 0) continue;
-        scratch[f * words + (index >>> 5)] |= 1 << (index & 31);
-        listed++;
-      }
-    }
-    if (listed === 0) {
-      column[columnBase + t] = UNKNOWN_PATTERN;
-      continue;
-    }
-    const key = cellKey(scratch, trait);
-    let id = build.keys.get(key);
-    if (id === undefined) {
-      id = build.keys.size + 2;
-      if (id > MAX_PATTERNS) throw new MatrixValidationError([{ severity: 'error', code: 'too-many-patterns', path: `traits.${trait.code}`, trait: trait.code, message: matrixMessages.tooManyPatterns(trait.code) }]);
-      build.keys.set(key, id);
-      for (const word of scratch) build.masks.push(word);
-    }
-    column[columnBase + t] = id;
   }
-  trait.patternCount = build.keys.size + 2;
-  return build;
+  if (listed === 0) return UNKNOWN_PATTERN;
+  const key = cellKey(scratch, trait);
+  let id = build.keys.get(key);
+  if (id === undefined) {
+    id = build.keys.size + 2;
+    if (id > MAX_PATTERNS) {
+      throw new MatrixValidationError([{ severity: 'error', code: 'too-many-patterns', path: `traits.${trait.code}`, trait: trait.code, message: matrixMessages.tooManyPatterns(trait.code) }]);
+    }
+    build.keys.set(key, id);
+    for (const word of scratch) build.masks.push(word);
+  }
+  return id;
+}
+
+function storeRange(compiled: CompiledMatrix, trait: CompiledTrait, taxonId: string, t: number, range: NumericCell): void {
+  const n = compiled.taxonCount;
+  const block = trait.numericIndex * 4 * n;
+  let { min, low, high, max } = range;
+  if (!(min <= low && low <= high && high <= max)) {
+    [min, low, high, max] = [min, low, high, max].sort((a, b) => a - b);
+    compiled.rangesOutOfOrder.push({ taxon: taxonId, trait: trait.code, cell: { min: range.min, low: range.low, high: range.high, max: range.max } });
+  }
+  compiled.ranges[block + RangeField.Min * n + t] = min;
+  compiled.ranges[block + RangeField.Low * n + t] = low;
+  compiled.ranges[block + RangeField.High * n + t] = high;
+  compiled.ranges[block + RangeField.Max * n + t] = max;
+}
+
+/**
+ * Fills `cellPattern` and `ranges` taxon by taxon (walking each taxon's own cells is much faster than
+ * looking every trait up in every taxon); cells left out stay 0, which is UNKNOWN_PATTERN.
+ */
+function compileCells(compiled: CompiledMatrix, taxa: readonly Taxon[]): PatternBuild[] {
+  const n = compiled.taxonCount;
+  const builds = compiled.traits.map((trait) => (trait.kind === 'numeric' ? undefined : newPatternBuild(trait)));
+  for (let t = 0; t < n; t++) {
+    const cells = taxa[t].cells;
+    for (const code in cells) {
+      const j = compiled.traitIndexByCode.get(code) as number;
+      const cell = cells[code];
+      let pattern: number;
+      if (cell === 'unknown') pattern = UNKNOWN_PATTERN;
+      else if (cell === 'inapplicable') pattern = INAPPLICABLE_PATTERN;
+      else {
+        const build = builds[j];
+        if (build) pattern = discretePattern(build, cell as DiscreteCell);
+        else {
+          storeRange(compiled, compiled.traits[j], taxa[t].id, t, cell as NumericCell);
+          pattern = CODED_RANGE_PATTERN;
+        }
+      }
+      compiled.cellPattern[j * n + t] = pattern;
+    }
+  }
+  for (const build of builds) if (build) build.trait.patternCount = build.keys.size + 2;
+  return builds.filter((build): build is PatternBuild => build !== undefined);
 }
 
 function popcount(word: number): number {
@@ -192,33 +230,6 @@ function fillLikelihoods(trait: CompiledTrait, masks: Uint32Array, likelihood: F
       logLikelihood[base + v] = Math.log(value);
       status[base + v] = valueStatus;
     }
-  }
-}
-
-function compileNumericColumn(trait: CompiledTrait, taxa: readonly Taxon[], column: Uint16Array, columnBase: number, ranges: Float64Array, compiled: Pick<CompiledMatrix, 'rangesOutOfOrder'>): void {
-  const n = taxa.length;
-  const block = trait.numericIndex * 4 * n;
-  for (let t = 0; t < n; t++) {
-    const cell = taxa[t].cells[trait.code];
-    if (cell === undefined || cell === 'unknown') {
-      column[columnBase + t] = UNKNOWN_PATTERN;
-      continue;
-    }
-    if (cell === 'inapplicable') {
-      column[columnBase + t] = INAPPLICABLE_PATTERN;
-      continue;
-    }
-    const range = cell as NumericCell;
-    const sorted = [range.min, range.low, range.high, range.max];
-    if (!(range.min <= range.low && range.low <= range.high && range.high <= range.max)) {
-      sorted.sort((a, b) => a - b);
-      compiled.rangesOutOfOrder.push({ taxon: taxa[t].id, trait: trait.code, cell: { min: range.min, low: range.low, high: range.high, max: range.max } });
-    }
-    ranges[block + RangeField.Min * n + t] = sorted[0];
-    ranges[block + RangeField.Low * n + t] = sorted[1];
-    ranges[block + RangeField.High * n + t] = sorted[2];
-    ranges[block + RangeField.Max * n + t] = sorted[3];
-    column[columnBase + t] = CODED_RANGE_PATTERN;
   }
 }
 
@@ -355,28 +366,20 @@ export function compileMatrix(doc: MatrixDocument): CompiledMatrix {
     traitIndexByCode,
   };
 
-  const maskParts: number[][] = [];
+  const builds = compileCells(compiled, taxa);
   let maskTotal = 0;
   let likTotal = 0;
-  for (const trait of traits) {
-    if (trait.kind === 'numeric') {
-      compileNumericColumn(trait, taxa, cellPattern, trait.index * n, ranges, compiled);
-      trait.bandCuts = numericBandCuts(trait, cellPattern, trait.index * n, ranges, n);
-      continue;
-    }
-    const build = compileDiscreteColumn(trait, taxa, cellPattern, trait.index * n);
-    trait.maskBase = maskTotal;
+  for (const build of builds) {
+    build.trait.maskBase = maskTotal;
     maskTotal += build.masks.length;
-    maskParts.push(build.masks);
-    trait.likBase = likTotal;
-    likTotal += trait.patternCount * trait.answerCount;
+    build.trait.likBase = likTotal;
+    likTotal += build.trait.patternCount * build.trait.answerCount;
+  }
+  for (const trait of traits) {
+    if (trait.kind === 'numeric') trait.bandCuts = numericBandCuts(trait, cellPattern, trait.index * n, ranges, n);
   }
   const masks = new Uint32Array(maskTotal);
-  let offset = 0;
-  for (const part of maskParts) {
-    masks.set(part, offset);
-    offset += part.length;
-  }
+  for (const build of builds) masks.set(build.masks, build.trait.maskBase);
   compiled.masks = masks;
   compiled.likelihood = new Float64Array(likTotal);
   compiled.logLikelihood = new Float64Array(likTotal);

@@ -16,4 +16,7 @@ export { compileMatrix } from './compile';
 export { decodeBundle, encodeBundle } from './bundle';
 export { cellOf, taxonIndex, traitByCode } from './lookup';
 export { rank } from './rank';
+export { suggest } from './suggest';
+export { entropy } from './entropy';
+export { generateSyntheticMatrix, type SyntheticOptions } from './synthetic';
 export { CENTIMETRES_PER_INCH, convertLength, fromCentimetres, isLengthUnit, LENGTH_UNITS, MILLIMETRES_PER_CENTIMETRE, toCentimetres } from './units';

@@ -9,7 +9,7 @@ import { RANK_DEFAULTS, type RankOptions } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
 import { effectiveCellOf } from './lookup';
 import { prepareObservations, type PreparedObservation } from './observations';
-import { measureRegion, regionLikelihood, scoreObservations, type Scored, type SkipCause } from './scoring';
+import { exactProbability, measureRegion, regionLikelihood, scoreObservations, type Scored, type SkipCause } from './scoring';
 import { codedText, observedText, reasonTexts } from './texts';
 import type { Candidate, Observation, RankResult, Reason, ReasonStatus } from './types';
 
@@ -91,19 +91,34 @@ function measureReason(compiled: CompiledMatrix, observation: PreparedObservatio
   }
 }
 
+/** Reasons of set observations depend only on the cell's pattern, so one ranking builds each once. */
+export type ReasonCache = Map<number, Map<number, Reason>>;
+
 /** Per-observation reasons for one taxon, in the order the observations were given. */
-export function reasonsFor(compiled: CompiledMatrix, prepared: readonly PreparedObservation[], skipped: ReadonlyMap<number, SkipCause>, t: number): Reason[] {
+export function reasonsFor(compiled: CompiledMatrix, prepared: readonly PreparedObservation[], skipped: ReadonlyMap<number, SkipCause>, t: number, cache: ReasonCache = new Map()): Reason[] {
   return prepared.map((observation) => {
     const cause = skipped.get(observation.index);
     if (cause) return { trait: observation.trait.code, status: 'not-applicable', likelihood: 1, text: reasonTexts.skipped(compiled, observation.trait, cause) };
-    return observation.kind === 'set' ? setReason(compiled, observation, t) : measureReason(compiled, observation, t);
+    if (observation.kind === 'measure') return measureReason(compiled, observation, t);
+    let byPattern = cache.get(observation.index);
+    if (!byPattern) {
+      byPattern = new Map();
+      cache.set(observation.index, byPattern);
+    }
+    const pattern = compiled.cellPattern[observation.trait.index * compiled.taxonCount + t];
+    let reason = byPattern.get(pattern);
+    if (!reason) {
+      reason = setReason(compiled, observation, t);
+      byPattern.set(pattern, reason);
+    }
+    return { ...reason };
   });
 }
 
 /** True when taxon a ranks before taxon b. */
 function before(scored: Scored, a: number, b: number): boolean {
-  const pa = scored.probability[a];
-  const pb = scored.probability[b];
+  const pa = scored.logPosterior[a];
+  const pb = scored.logPosterior[b];
   if (pa !== pb) return pa > pb;
   const ca = scored.conflicts[a];
   const cb = scored.conflicts[b];
@@ -115,7 +130,7 @@ function before(scored: Scored, a: number, b: number): boolean {
 export function selectBest(scored: Scored, limit: number, accept: (t: number) => boolean): { best: number[]; total: number } {
   const best: number[] = [];
   let total = 0;
-  const n = scored.probability.length;
+  const n = scored.logPosterior.length;
   for (let t = 0; t < n; t++) {
     if (!accept(t)) continue;
     total++;
@@ -128,12 +143,12 @@ export function selectBest(scored: Scored, limit: number, accept: (t: number) =>
   return { best, total };
 }
 
-function toCandidate(compiled: CompiledMatrix, scored: Scored, prepared: readonly PreparedObservation[], t: number): Candidate {
+function toCandidate(compiled: CompiledMatrix, scored: Scored, prepared: readonly PreparedObservation[], t: number, cache: ReasonCache): Candidate {
   return {
     taxonId: compiled.taxa[t].id,
-    probability: scored.probability[t],
+    probability: exactProbability(scored, t),
     conflicts: scored.conflicts[t],
-    reasons: reasonsFor(compiled, prepared, scored.skipped, t),
+    reasons: reasonsFor(compiled, prepared, scored.skipped, t, cache),
   };
 }
 
@@ -153,9 +168,10 @@ export function rank(compiled: CompiledMatrix, observations: readonly Observatio
     const observation = prepared.find((item) => item.index === index)!;
     return { trait: observation.trait.code, reason: reasonTexts.skipped(compiled, observation.trait, cause) };
   });
+  const cache: ReasonCache = new Map();
   return {
-    candidates: kept.best.map((t) => toCandidate(compiled, scored, prepared, t)),
-    ruledOut: dropped.best.map((t) => toCandidate(compiled, scored, prepared, t)),
+    candidates: kept.best.map((t) => toCandidate(compiled, scored, prepared, t, cache)),
+    ruledOut: dropped.best.map((t) => toCandidate(compiled, scored, prepared, t, cache)),
     skipped,
     totalCandidates: kept.total,
     totalRuledOut: dropped.total,

@@ -18,8 +18,10 @@ export interface SkipCause {
 export interface Scored {
   /** unnormalised log posterior per taxon */
   logPosterior: Float64Array;
-  /** normalised posterior per taxon */
+  /** normalised posterior per taxon (0 where negligible; see exactProbability) */
   probability: Float64Array;
+  maxLog: number;
+  logTotal: number;
   /** observed traits conflicting with each taxon's coding */
   conflicts: Uint16Array;
   /** observations that were scored */
@@ -150,10 +152,10 @@ export function regionLikelihood(region: MeasureRegion, errorRate: number): numb
 function addMeasure(compiled: CompiledMatrix, observation: PreparedMeasure, logPosterior: Float64Array, conflicts: Uint16Array): void {
   const n = compiled.taxonCount;
   const e = observation.trait.errorRate;
-  const logTypical = Math.log(MODEL.typicalScore);
-  const logExtreme = Math.log(MODEL.extremeScore);
+  // indexed by region: 0 typical, 1 extreme, 2 outside
+  const regionLogs = new Float64Array([Math.log(MODEL.typicalScore), Math.log(MODEL.extremeScore), Math.log(e)]);
   const logUnknown = Math.log(MODEL.unknownNumericScore);
-  const logOutside = Math.log(e);
+  const logOutside = regionLogs[2];
   const columnBase = observation.trait.index * n;
   const block = observation.trait.numericIndex * 4 * n;
   const minBase = block + RangeField.Min * n;
@@ -166,14 +168,12 @@ function addMeasure(compiled: CompiledMatrix, observation: PreparedMeasure, logP
   for (let t = 0; t < n; t++) {
     const pattern = patterns[columnBase + t];
     if (pattern === CODED_RANGE_PATTERN) {
-      if (x >= ranges[lowBase + t] && x <= ranges[highBase + t]) {
-        logPosterior[t] += logTypical;
-      } else if (x >= ranges[minBase + t] && x <= ranges[maxBase + t]) {
-        logPosterior[t] += logExtreme;
-      } else {
-        logPosterior[t] += logOutside;
-        conflicts[t]++;
-      }
+      // branch-free on purpose: where a measurement falls is unpredictable from taxon to taxon
+      const typical = +(x >= ranges[lowBase + t]) & +(x <= ranges[highBase + t]);
+      const extreme = +(x >= ranges[minBase + t]) & +(x <= ranges[maxBase + t]);
+      const region = 2 - extreme - typical;
+      logPosterior[t] += regionLogs[region];
+      conflicts[t] += region >>> 1;
     } else if (pattern === UNKNOWN_PATTERN) {
       logPosterior[t] += logUnknown;
     } else {
@@ -183,48 +183,93 @@ function addMeasure(compiled: CompiledMatrix, observation: PreparedMeasure, logP
   }
 }
 
-function addSet(compiled: CompiledMatrix, observation: PreparedSet, logPosterior: Float64Array, conflicts: Uint16Array): void {
+/**
+ * Adds every set observation in one pass over the taxa, two columns at a time: each taxon's running
+ * sum is read and written once per pair instead of once per observation.
+ */
+function addSets(compiled: CompiledMatrix, observations: readonly PreparedSet[], logPosterior: Float64Array, conflicts: Uint16Array): void {
   const n = compiled.taxonCount;
-  const { logs, conflict } = setTables(compiled, observation);
-  const columnBase = observation.trait.index * n;
-  const patterns = compiled.cellPattern;
-  for (let t = 0; t < n; t++) {
-    const pattern = patterns[columnBase + t];
-    logPosterior[t] += logs[pattern];
-    conflicts[t] += conflict[pattern];
+  const columns = observations.map((observation) => compiled.cellPattern.subarray(observation.trait.index * n, (observation.trait.index + 1) * n));
+  const tables = observations.map((observation) => setTables(compiled, observation));
+  let o = 0;
+  for (; o + 1 < observations.length; o += 2) {
+    const columnA = columns[o];
+    const columnB = columns[o + 1];
+    const logsA = tables[o].logs;
+    const logsB = tables[o + 1].logs;
+    const conflictA = tables[o].conflict;
+    const conflictB = tables[o + 1].conflict;
+    for (let t = 0; t < n; t++) {
+      const a = columnA[t];
+      const b = columnB[t];
+      logPosterior[t] += logsA[a] + logsB[b];
+      conflicts[t] += conflictA[a] + conflictB[b];
+    }
+  }
+  if (o < observations.length) {
+    const column = columns[o];
+    const { logs, conflict } = tables[o];
+    for (let t = 0; t < n; t++) {
+      const pattern = column[t];
+      logPosterior[t] += logs[pattern];
+      conflicts[t] += conflict[pattern];
+    }
   }
 }
 
-/** Normalises log weights into probabilities that sum to 1 (max-shifted, so nothing overflows). */
-export function normalise(logWeights: Float64Array, into: Float64Array = new Float64Array(logWeights.length)): Float64Array {
+/** Log weights more than this far below the best contribute less than 1e-21 each and are not exponentiated. */
+const NEGLIGIBLE_LOG_GAP = 50;
+
+export interface Normalised {
+  /** probability per taxon; exactly 0 where the log weight is negligible */
+  probability: Float64Array;
+  /** the largest log weight */
+  maxLog: number;
+  /** log of the normalising sum, relative to maxLog */
+  logTotal: number;
+}
+
+/**
+ * Normalises log weights into probabilities that sum to 1 (max-shifted, so nothing overflows).
+ * Math.exp is the dearest step of a ranking, so negligible weights are skipped; `exactProbability`
+ * recovers their tiny values when a caller shows them.
+ */
+export function normalise(logWeights: Float64Array): Normalised {
   const n = logWeights.length;
-  if (n === 0) return into;
+  const probability = new Float64Array(n);
+  if (n === 0) return { probability, maxLog: 0, logTotal: 0 };
   let max = -Infinity;
   for (let t = 0; t < n; t++) if (logWeights[t] > max) max = logWeights[t];
-  if (!Number.isFinite(max)) return into.fill(1 / n);
+  if (!Number.isFinite(max)) return { probability: probability.fill(1 / n), maxLog: 0, logTotal: Math.log(n) };
+  const floor = max - NEGLIGIBLE_LOG_GAP;
   let total = 0;
   for (let t = 0; t < n; t++) {
-    const weight = Math.exp(logWeights[t] - max);
-    into[t] = weight;
+    const log = logWeights[t];
+    if (log < floor) continue;
+    const weight = Math.exp(log - max);
+    probability[t] = weight;
     total += weight;
   }
   const scale = 1 / total;
-  for (let t = 0; t < n; t++) into[t] *= scale;
-  return into;
+  for (let t = 0; t < n; t++) probability[t] *= scale;
+  return { probability, maxLog: max, logTotal: Math.log(total) };
+}
+
+/** The probability of one taxon, exact even where `normalise` left a negligible weight at 0. */
+export function exactProbability(scored: Scored, t: number): number {
+  if (!Number.isFinite(scored.maxLog)) return scored.probability[t];
+  return Math.exp(scored.logPosterior[t] - scored.maxLog - scored.logTotal);
 }
 
 /** Scores prepared observations against every taxon. */
 export function scoreObservations(compiled: CompiledMatrix, prepared: readonly PreparedObservation[], priors?: Readonly<Record<string, number>>): Scored {
   const n = compiled.taxonCount;
-  const logPosterior = Float64Array.from(logPriors(compiled, priors));
+  const logPosterior = logPriors(compiled, priors).slice();
   const conflicts = new Uint16Array(n);
   const skipped = findSkipped(prepared);
-  const active: PreparedObservation[] = [];
-  for (const observation of prepared) {
-    if (skipped.has(observation.index)) continue;
-    active.push(observation);
-    if (observation.kind === 'set') addSet(compiled, observation, logPosterior, conflicts);
-    else addMeasure(compiled, observation, logPosterior, conflicts);
-  }
-  return { logPosterior, probability: normalise(logPosterior), conflicts, active, skipped };
+  const active = prepared.filter((observation) => !skipped.has(observation.index));
+  addSets(compiled, active.filter((observation): observation is PreparedSet => observation.kind === 'set'), logPosterior, conflicts);
+  for (const observation of active) if (observation.kind === 'measure') addMeasure(compiled, observation, logPosterior, conflicts);
+  const { probability, maxLog, logTotal } = normalise(logPosterior);
+  return { logPosterior, probability, maxLog, logTotal, conflicts, active, skipped };
 }

@@ -318,8 +318,9 @@ export interface RankResult {
 
 export interface Suggestion {
   /**
-   * expected number of further questions to reach a confident leader when this trait is asked first
-   * and the best-scoring trait after it; present only when the shortlist was small enough to look ahead
+   * expected effort (sum of the traits' ease) to reach a confident leader when this trait is asked
+   * first and the best-scoring trait after each answer; the number of questions when every ease is 1.
+   * Present only when the shortlist was small enough to look ahead, and then the list is sorted by it.
    */
-  expectedQuestions?: number;
+  expectedEffort?: number;
 }

@@ -205,14 +205,25 @@ function findCycle(facts: Map<string, TraitFacts>): string[] | undefined {
   return undefined;
 }
 
-function checkDiscreteCell(cell: unknown, facts: TraitFacts, taxon: string, path: string, problems: ProblemList): void {
+/** The cell's path, built only when a problem is reported (validation walks millions of cells). */
+function cellPath(position: number, trait: string): string {
+  return `taxa[${position}].cells.${trait}`;
+}
+
+function hasOnlyKeys(value: Record_, allowed: readonly string[]): boolean {
+  for (const key in value) if (!allowed.includes(key)) return false;
+  return true;
+}
+
+function checkDiscreteCell(cell: unknown, facts: TraitFacts, taxon: string, position: number, problems: ProblemList): void {
   const code = facts.trait.code;
+  const path = cellPath(position, code);
   const expected = 'an object with usual/occasional/rare lists';
-  if (!isObject(cell) || Object.keys(cell).some((key) => !(FREQUENCIES as readonly string[]).includes(key))) {
+  if (!isObject(cell) || !hasOnlyKeys(cell, FREQUENCIES)) {
     problems.error(path, 'bad-cell', m.badCell(taxon, code, expected), taxon, code);
     return;
   }
-  const seen = new Set<string | number>();
+  const seen: Array<string | number> = [];
   let listed = 0;
   for (const frequency of FREQUENCIES) {
     const values = cell[frequency];
@@ -243,16 +254,17 @@ function checkDiscreteCell(cell: unknown, facts: TraitFacts, taxon: string, path
         }
         key = value;
       }
-      if (seen.has(key)) problems.error(`${path}.${frequency}`, 'value-in-two-frequencies', m.valueTwice(taxon, code, value), taxon, code);
-      seen.add(key);
+      if (seen.includes(key)) problems.error(`${path}.${frequency}`, 'value-in-two-frequencies', m.valueTwice(taxon, code, value), taxon, code);
+      seen.push(key);
     }
   }
   if (listed === 0) problems.warning(path, 'empty-cell', m.emptyCell(taxon, code), taxon, code);
 }
 
-function checkNumericCell(cell: unknown, facts: TraitFacts, taxon: string, path: string, problems: ProblemList): void {
+function checkNumericCell(cell: unknown, facts: TraitFacts, taxon: string, position: number, problems: ProblemList): void {
   const code = facts.trait.code;
-  if (!isObject(cell) || Object.keys(cell).some((key) => !(RANGE_FIELDS as readonly string[]).includes(key))) {
+  const path = cellPath(position, code);
+  if (!isObject(cell) || !hasOnlyKeys(cell, RANGE_FIELDS)) {
     problems.error(path, 'bad-cell', m.badCell(taxon, code, 'an object with min, low, high and max'), taxon, code);
     return;
   }
@@ -294,7 +306,7 @@ function isOutsideCondition(cell: unknown, allowed: readonly string[], kind: Tra
   return !listed.some((value) => wanted.has(normalise(value)));
 }
 
-function checkTaxon(raw: unknown, index: number, facts: Map<string, TraitFacts>, problems: ProblemList, seen: Set<string>): string | undefined {
+function checkTaxon(raw: unknown, index: number, facts: Map<string, TraitFacts>, conditional: readonly TraitFacts[], problems: ProblemList, seen: Set<string>): string | undefined {
   const path = `taxa[${index}]`;
   if (!isObject(raw)) {
     problems.error(path, 'not-an-object', m.notAnObject(path));
@@ -330,27 +342,27 @@ function checkTaxon(raw: unknown, index: number, facts: Map<string, TraitFacts>,
     problems.error(`${path}.cells`, 'not-an-object', m.notAnObject(`${path}.cells`), id);
     return id;
   }
-  for (const [traitCode, cell] of Object.entries(cells)) {
-    const cellPath = `${path}.cells.${traitCode}`;
+  for (const traitCode in cells) {
+    const cell = cells[traitCode];
     const traitFacts = facts.get(traitCode);
     if (!traitFacts) {
-      problems.error(cellPath, 'unknown-trait-in-cell', m.unknownTraitInCell(id, traitCode), id, traitCode);
+      problems.error(cellPath(index, traitCode), 'unknown-trait-in-cell', m.unknownTraitInCell(id, traitCode), id, traitCode);
       continue;
     }
     if (cell === 'unknown' || cell === 'inapplicable') continue;
-    if (traitFacts.trait.kind === 'numeric') checkNumericCell(cell, traitFacts, id, cellPath, problems);
-    else checkDiscreteCell(cell, traitFacts, id, cellPath, problems);
+    if (traitFacts.trait.kind === 'numeric') checkNumericCell(cell, traitFacts, id, index, problems);
+    else checkDiscreteCell(cell, traitFacts, id, index, problems);
   }
-  for (const traitFacts of facts.values()) {
-    const conditions = traitFacts.trait.appliesWhen;
+  for (const traitFacts of conditional) {
+    const conditions = traitFacts.trait.appliesWhen ?? {};
     const own = cells[traitFacts.trait.code];
-    if (!conditions || own === undefined || own === 'unknown' || own === 'inapplicable') continue;
+    if (own === undefined || own === 'unknown' || own === 'inapplicable') continue;
     for (const [other, allowed] of Object.entries(conditions)) {
       const otherFacts = facts.get(other);
       if (!otherFacts || !Array.isArray(allowed)) continue;
       if (isOutsideCondition(cells[other], allowed, otherFacts.trait.kind)) {
         const condition = describeCondition(other, allowed);
-        problems.warning(`${path}.cells.${traitFacts.trait.code}`, 'applies-when-violation', m.appliesWhenViolation(id, traitFacts.trait.code, condition), id, traitFacts.trait.code);
+        problems.warning(cellPath(index, traitFacts.trait.code), 'applies-when-violation', m.appliesWhenViolation(id, traitFacts.trait.code, condition), id, traitFacts.trait.code);
       }
     }
   }
@@ -409,7 +421,8 @@ export function validateMatrix(doc: unknown): MatrixProblem[] {
   checkAppliesWhen(facts, traitIndex, problems);
 
   const seenTaxa = new Set<string>();
-  rawTaxa.forEach((raw: unknown, index: number) => checkTaxon(raw, index, facts, problems, seenTaxa));
+  const conditional = [...facts.values()].filter((entry) => entry.trait.appliesWhen !== undefined);
+  rawTaxa.forEach((raw: unknown, index: number) => checkTaxon(raw, index, facts, conditional, problems, seenTaxa));
 
   const inseparable = doc['inseparable'];
   if (inseparable !== undefined) {

@@ -1,0 +1,496 @@
+/**
+ * suggest: which trait to Look at next.
+ *
+ * Each unobserved trait is scored by the expected reduction of the entropy of the current posterior
+ * (Shannon 1948) per unit of ease. For a small shortlist the order is refined by one step of
+ * lookahead: the expected effort of asking the trait and then following the greedy choice.
+ * Invariant: a suggestion is never a trait already observed, excluded, out of season, ruled out by an
+ * observed appliesWhen condition, or one expected to gain less than SUGGEST_DEFAULTS.minGainBits.
+ */
+import { bandLabel, bandProbabilities, weightedCuts } from './bands';
+import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { MODEL, SUGGEST_DEFAULTS, type SuggestOptions } from './defaults';
+import { entropy } from './entropy';
+import { prepareObservations, type PreparedObservation } from './observations';
+import { resolveCount } from './rank';
+import { scoreObservations, type Scored } from './scoring';
+import { answerLabel } from './texts';
+import type { Observation, ObservingSeason, Suggestion, SuggestionPreview } from './types';
+
+const LN2 = Math.LN2;
+/** shortlists up to this size get numeric bands cut at their own midpoints; larger ones use the edition's */
+const ADAPTIVE_BAND_LIMIT = 300;
+/** first traits compared by lookahead */
+const LOOKAHEAD_TRAITS = 8;
+/** traits the greedy continuation chooses from inside a lookahead */
+const LOOKAHEAD_POOL = 12;
+/** most nodes one lookahead rollout expands before estimating the rest */
+const ROLLOUT_NODE_BUDGET = 1500;
+/** branches reached with less probability than this are estimated instead of expanded */
+const ROLLOUT_MIN_PATH = 0.01;
+/** deepest question a rollout expands */
+const ROLLOUT_MAX_DEPTH = 8;
+
+/** The taxa that carry real probability, with their renormalised weights. */
+interface WorkingSet {
+  members: Int32Array;
+  weight: Float64Array;
+  /** weight · ln(weight) */
+  weightLog: Float64Array;
+  /** entropy of `weight` in nats */
+  entropyNats: number;
+}
+
+function workingSet(scored: Scored, threshold: number): WorkingSet {
+  const n = scored.probability.length;
+  let count = 0;
+  let total = 0;
+  for (let t = 0; t < n; t++) {
+    if (scored.probability[t] >= threshold) {
+      count++;
+      total += scored.probability[t];
+    }
+  }
+  const members = new Int32Array(count);
+  const weight = new Float64Array(count);
+  const weightLog = new Float64Array(count);
+  let i = 0;
+  let entropyNats = 0;
+  for (let t = 0; t < n; t++) {
+    const p = scored.probability[t];
+    if (p < threshold) continue;
+    members[i] = t;
+    const w = p / total;
+    weight[i] = w;
+    weightLog[i] = w > 0 ? w * Math.log(w) : 0;
+    entropyNats -= weightLog[i];
+    i++;
+  }
+  return { members, weight, weightLog, entropyNats: Math.max(0, entropyNats) };
+}
+
+/** Whether a trait can be seen in the sift's season. */
+export function visibleIn(trait: CompiledTrait, season: ObservingSeason): boolean {
+  return season === 'leaf-on' || trait.season !== 'leaf-on';
+}
+
+/** True when an active observation contradicts the trait's appliesWhen condition. */
+function conditionContradicted(trait: CompiledTrait, active: readonly PreparedObservation[]): boolean {
+  return trait.conditions.some((condition) => {
+    const observed = active.find((observation) => observation.trait.index === condition.trait);
+    return observed !== undefined && observed.kind === 'set' && !observed.answers.some((answer) => condition.allowed.includes(answer));
+  });
+}
+
+/** Per answer: P(answer), and the answer-weighted sums needed for the posterior entropy. */
+interface AnswerSums {
+  /** S1[a] = Σ w·L */
+  mass: Float64Array;
+  /** Σ w·ln w·L + Σ w·L·ln L */
+  logMass: Float64Array;
+}
+
+/** Expected entropy reduction (bits) from answer sums; unanswerable mass keeps the entropy. */
+function gainFromSums(sums: AnswerSums, entropyNats: number): number {
+  let after = 0;
+  let answered = 0;
+  for (let a = 0; a < sums.mass.length; a++) {
+    const mass = sums.mass[a];
+    if (mass <= 0) continue;
+    answered += mass;
+    after += -sums.logMass[a] + mass * Math.log(mass);
+  }
+  after += Math.max(0, 1 - answered) * entropyNats;
+  return Math.max(0, (entropyNats - after) / LN2);
+}
+
+function discreteSums(compiled: CompiledMatrix, trait: CompiledTrait, set: WorkingSet): AnswerSums {
+  const n = compiled.taxonCount;
+  const k = trait.answerCount;
+  const patternWeight = new Float64Array(trait.patternCount);
+  const patternWeightLog = new Float64Array(trait.patternCount);
+  const patterns = compiled.cellPattern;
+  const base = trait.index * n;
+  const { members, weight, weightLog } = set;
+  for (let i = 0; i < members.length; i++) {
+    const pattern = patterns[base + members[i]];
+    patternWeight[pattern] += weight[i];
+    patternWeightLog[pattern] += weightLog[i];
+  }
+  const mass = new Float64Array(k);
+  const logMass = new Float64Array(k);
+  for (let p = 0; p < trait.patternCount; p++) {
+    const w = patternWeight[p];
+    if (w <= 0) continue;
+    const wl = patternWeightLog[p];
+    const row = trait.likBase + p * k;
+    for (let a = 0; a < k; a++) {
+      const likelihood = compiled.likelihood[row + a];
+      mass[a] += w * likelihood;
+      logMass[a] += wl * likelihood + w * likelihood * compiled.logLikelihood[row + a];
+    }
+  }
+  return { mass, logMass };
+}
+
+/** Band likelihoods of one numeric trait for every taxon, for the edition's own cuts; band-major (b · n + t). */
+interface BandTable {
+  cuts: number[];
+  likelihood: Float32Array;
+  likelihoodLog: Float32Array;
+}
+
+const bandTables = new WeakMap<CompiledMatrix, Map<number, BandTable>>();
+
+function bandRow(compiled: CompiledMatrix, trait: CompiledTrait, t: number, cuts: readonly number[], out: Float64Array): Float64Array {
+  const n = compiled.taxonCount;
+  const pattern = compiled.cellPattern[trait.index * n + t];
+  const bands = cuts.length + 1;
+  if (pattern === UNKNOWN_PATTERN) return out.fill(1 / bands);
+  if (pattern === INAPPLICABLE_PATTERN) return out.fill(trait.errorRate / bands);
+  const block = trait.numericIndex * 4 * n;
+  const r = compiled.ranges;
+  return bandProbabilities(r[block + RangeField.Min * n + t], r[block + RangeField.Low * n + t], r[block + RangeField.High * n + t], r[block + RangeField.Max * n + t], cuts, MODEL.typicalShare, trait.errorRate, out);
+}
+
+function editionBandTable(compiled: CompiledMatrix, trait: CompiledTrait): BandTable {
+  let perTrait = bandTables.get(compiled);
+  if (!perTrait) {
+    perTrait = new Map();
+    bandTables.set(compiled, perTrait);
+  }
+  const cached = perTrait.get(trait.index);
+  if (cached) return cached;
+  const n = compiled.taxonCount;
+  const cuts = trait.bandCuts;
+  const bands = cuts.length + 1;
+  const likelihood = new Float32Array(n * bands);
+  const likelihoodLog = new Float32Array(n * bands);
+  const row = new Float64Array(bands);
+  for (let t = 0; t < n; t++) {
+    bandRow(compiled, trait, t, cuts, row);
+    for (let b = 0; b < bands; b++) {
+      likelihood[b * n + t] = row[b];
+      likelihoodLog[b * n + t] = row[b] > 0 ? row[b] * Math.log(row[b]) : 0;
+    }
+  }
+  const table = { cuts, likelihood, likelihoodLog };
+  perTrait.set(trait.index, table);
+  return table;
+}
+
+/** Cuts for a numeric trait over the working set: its own midpoints when small, the edition's otherwise. */
+function cutsFor(compiled: CompiledMatrix, trait: CompiledTrait, set: WorkingSet): number[] {
+  if (set.members.length > ADAPTIVE_BAND_LIMIT) return trait.bandCuts;
+  const n = compiled.taxonCount;
+  const block = trait.numericIndex * 4 * n;
+  const midpoints: number[] = [];
+  const weights: number[] = [];
+  for (let i = 0; i < set.members.length; i++) {
+    const t = set.members[i];
+    if (compiled.cellPattern[trait.index * n + t] < 2) continue;
+    midpoints.push((compiled.ranges[block + RangeField.Low * n + t] + compiled.ranges[block + RangeField.High * n + t]) / 2);
+    weights.push(set.weight[i]);
+  }
+  return weightedCuts(midpoints, weights, MODEL.numericBands);
+}
+
+function numericSums(compiled: CompiledMatrix, trait: CompiledTrait, set: WorkingSet, cuts: readonly number[]): AnswerSums {
+  const bands = cuts.length + 1;
+  const mass = new Float64Array(bands);
+  const logMass = new Float64Array(bands);
+  const { members, weight, weightLog } = set;
+  if (cuts === trait.bandCuts) {
+    const table = editionBandTable(compiled, trait);
+    const n = compiled.taxonCount;
+    for (let b = 0; b < bands; b++) {
+      const likelihood = table.likelihood.subarray(b * n, (b + 1) * n);
+      const likelihoodLog = table.likelihoodLog.subarray(b * n, (b + 1) * n);
+      let bandMass = 0;
+      let bandLogMass = 0;
+      for (let i = 0; i < members.length; i++) {
+        const t = members[i];
+        const value = likelihood[t];
+        bandMass += weight[i] * value;
+        bandLogMass += weightLog[i] * value + weight[i] * likelihoodLog[t];
+      }
+      mass[b] = bandMass;
+      logMass[b] = bandLogMass;
+    }
+    return { mass, logMass };
+  }
+  const row = new Float64Array(bands);
+  for (let i = 0; i < members.length; i++) {
+    bandRow(compiled, trait, members[i], cuts, row);
+    for (let b = 0; b < bands; b++) {
+      const likelihood = row[b];
+      mass[b] += weight[i] * likelihood;
+      logMass[b] += weightLog[i] * likelihood + (likelihood > 0 ? weight[i] * likelihood * Math.log(likelihood) : 0);
+    }
+  }
+  return { mass, logMass };
+}
+
+/** One trait's candidate answers over the working set. */
+interface Evaluated {
+  trait: CompiledTrait;
+  gain: number;
+  score: number;
+  sums: AnswerSums;
+  /** numeric traits: the cuts the bands were made with */
+  cuts?: number[];
+}
+
+/** Likelihood of each answer for each working-set member: rows[a][i]. */
+function answerRows(compiled: CompiledMatrix, evaluated: Evaluated, set: WorkingSet): Float64Array[] {
+  const trait = evaluated.trait;
+  const n = compiled.taxonCount;
+  const m = set.members.length;
+  if (trait.kind === 'numeric') {
+    const cuts = evaluated.cuts ?? [];
+    const bands = cuts.length + 1;
+    const rows = Array.from({ length: bands }, () => new Float64Array(m));
+    const row = new Float64Array(bands);
+    for (let i = 0; i < m; i++) {
+      bandRow(compiled, trait, set.members[i], cuts, row);
+      for (let b = 0; b < bands; b++) rows[b][i] = row[b];
+    }
+    return rows;
+  }
+  const k = trait.answerCount;
+  const rows = Array.from({ length: k }, () => new Float64Array(m));
+  for (let i = 0; i < m; i++) {
+    const pattern = compiled.cellPattern[trait.index * n + set.members[i]];
+    for (let a = 0; a < k; a++) rows[a][i] = compiled.likelihood[trait.likBase + pattern * k + a];
+  }
+  return rows;
+}
+
+/** Whether answer `a` conflicts with taxon t's coding (for counting what stays within leeway). */
+function answerConflicts(compiled: CompiledMatrix, evaluated: Evaluated, t: number, a: number): boolean {
+  const trait = evaluated.trait;
+  const n = compiled.taxonCount;
+  const pattern = compiled.cellPattern[trait.index * n + t];
+  if (pattern === UNKNOWN_PATTERN) return false;
+  if (pattern === INAPPLICABLE_PATTERN) return true;
+  if (trait.kind !== 'numeric') {
+    const status = compiled.valueStatus[trait.likBase + pattern * trait.answerCount + a];
+    return status === ValueStatus.NotCoded || status === ValueStatus.Inapplicable;
+  }
+  const cuts = evaluated.cuts ?? [];
+  const from = a === 0 ? -Infinity : cuts[a - 1];
+  const to = a === cuts.length ? Infinity : cuts[a];
+  const block = trait.numericIndex * 4 * n;
+  const min = compiled.ranges[block + RangeField.Min * n + t];
+  const max = compiled.ranges[block + RangeField.Max * n + t];
+  return max < from || min >= to;
+}
+
+/** Working-set positions of the three members with the largest weight × likelihood (earlier wins ties). */
+function topThree(set: WorkingSet, row: Float64Array): number[] {
+  const best: number[] = [];
+  const value = (i: number): number => set.weight[i] * row[i];
+  for (let i = 0; i < set.members.length; i++) {
+    const v = value(i);
+    if (v <= 0 || (best.length === 3 && v <= value(best[2]))) continue;
+    let at = best.length;
+    while (at > 0 && v > value(best[at - 1])) at--;
+    best.splice(at, 0, i);
+    if (best.length > 3) best.pop();
+  }
+  return best;
+}
+
+function previewOf(compiled: CompiledMatrix, evaluated: Evaluated, set: WorkingSet, scored: Scored, leeway: number): SuggestionPreview[] {
+  const rows = answerRows(compiled, evaluated, set);
+  const trait = evaluated.trait;
+  const n = compiled.taxonCount;
+  return rows.map((row, a) => {
+    const leaders = topThree(set, row).map((i) => compiled.taxa[set.members[i]].id);
+    let remaining = 0;
+    for (let t = 0; t < n; t++) {
+      const conflicts = scored.conflicts[t];
+      if (conflicts < leeway || (conflicts === leeway && !answerConflicts(compiled, evaluated, t, a))) remaining++;
+    }
+    const isNumeric = trait.kind === 'numeric';
+    const label = isNumeric ? bandLabel(evaluated.cuts ?? [], a) : answerLabel(trait, a);
+    return { answer: isNumeric ? label : trait.answerCodes[a], label, probability: evaluated.sums.mass[a], leaders, remaining };
+  });
+}
+
+/* ------------------------------------------------------------------------------------------------
+ * Lookahead on a small shortlist: dense per-answer likelihood rows and a greedy rollout.
+ * ---------------------------------------------------------------------------------------------- */
+
+interface DenseTrait {
+  ease: number;
+  rows: Float64Array[];
+}
+
+function denseGain(weights: Float64Array, rows: readonly Float64Array[], before: number, scratch: Float64Array): number {
+  let answered = 0;
+  let after = 0;
+  for (const row of rows) {
+    let mass = 0;
+    for (let i = 0; i < weights.length; i++) {
+      scratch[i] = weights[i] * row[i];
+      mass += scratch[i];
+    }
+    if (mass <= 0) continue;
+    answered += mass;
+    after += mass * entropy(scratch);
+  }
+  after += Math.max(0, 1 - answered) * before;
+  return before - after;
+}
+
+class Rollout {
+  private nodes = 0;
+  private readonly scratch: Float64Array;
+  constructor(
+    private readonly traits: readonly DenseTrait[],
+    private readonly confidentAt: number,
+    private readonly minGain: number,
+    size: number,
+  ) {
+    this.scratch = new Float64Array(size);
+  }
+
+  /** The greedy choice at these weights: the trait with the best gain per ease, or -1. */
+  private choose(weights: Float64Array, asked: Uint8Array): { trait: number; rate: number } {
+    const before = entropy(weights);
+    let best = -1;
+    let rate = 0;
+    for (let j = 0; j < this.traits.length; j++) {
+      if (asked[j]) continue;
+      const gain = denseGain(weights, this.traits[j].rows, before, this.scratch);
+      if (gain < this.minGain) continue;
+      const score = gain / this.traits[j].ease;
+      if (score > rate) {
+        rate = score;
+        best = j;
+      }
+    }
+    return { trait: best, rate };
+  }
+
+  /**
+   * Expected effort from `weights` (normalised) when the greedy choice is followed. Unlikely or deep
+   * branches are estimated as the bits left divided by the best bits-per-effort on offer there.
+   */
+  cost(weights: Float64Array, asked: Uint8Array, pathProbability: number, depth: number): number {
+    let max = 0;
+    for (const weight of weights) if (weight > max) max = weight;
+    if (max >= this.confidentAt) return 0;
+    const { trait, rate } = this.choose(weights, asked);
+    if (trait < 0) return 0;
+    if (depth >= ROLLOUT_MAX_DEPTH || pathProbability < ROLLOUT_MIN_PATH || this.nodes >= ROLLOUT_NODE_BUDGET) {
+      // asking every trait left is the most a continuation can cost
+      let easeLeft = 0;
+      for (let k = 0; k < this.traits.length; k++) if (!asked[k]) easeLeft += this.traits[k].ease;
+      return Math.min(entropy(weights) / rate, easeLeft);
+    }
+    this.nodes++;
+    return this.costAfter(weights, asked, trait, pathProbability, depth);
+  }
+
+  /** Effort of asking trait j now and continuing greedily. */
+  costAfter(weights: Float64Array, asked: Uint8Array, j: number, pathProbability = 1, depth = 0): number {
+    const trait = this.traits[j];
+    const next = asked.slice();
+    next[j] = 1;
+    let total = trait.ease;
+    let answered = 0;
+    for (const row of trait.rows) {
+      const posterior = new Float64Array(weights.length);
+      let mass = 0;
+      for (let i = 0; i < weights.length; i++) {
+        posterior[i] = weights[i] * row[i];
+        mass += posterior[i];
+      }
+      if (mass <= 0) continue;
+      answered += mass;
+      for (let i = 0; i < posterior.length; i++) posterior[i] /= mass;
+      total += mass * this.cost(posterior, next, pathProbability * mass, depth + 1);
+    }
+    const unanswered = Math.max(0, 1 - answered);
+    if (unanswered > 1e-9) total += unanswered * this.cost(weights, next, pathProbability * unanswered, depth + 1);
+    return total;
+  }
+}
+
+function lookahead(compiled: CompiledMatrix, ranked: Evaluated[], set: WorkingSet, confidentAt: number): Map<Evaluated, number> {
+  const pool = ranked.slice(0, Math.max(LOOKAHEAD_POOL, LOOKAHEAD_TRAITS));
+  const dense: DenseTrait[] = pool.map((evaluated) => ({ ease: evaluated.trait.ease, rows: answerRows(compiled, evaluated, set) }));
+  const minGain = SUGGEST_DEFAULTS.minGainBits;
+  const costs = new Map<Evaluated, number>();
+  const weights = Float64Array.from(set.weight);
+  for (let j = 0; j < Math.min(LOOKAHEAD_TRAITS, pool.length); j++) {
+    const rollout = new Rollout(dense, confidentAt, minGain, weights.length);
+    costs.set(pool[j], rollout.costAfter(weights, new Uint8Array(dense.length), j));
+  }
+  return costs;
+}
+
+function resolveSeason(season: unknown): ObservingSeason {
+  return season === 'leaf-off' ? 'leaf-off' : 'leaf-on';
+}
+
+/**
+ * The unobserved traits most worth looking at next, best first. Throws ObservationError for invalid
+ * observations.
+ */
+export function suggest(compiled: CompiledMatrix, observations: readonly Observation[], options: SuggestOptions = {}): Suggestion[] {
+  const season = resolveSeason(options.season ?? SUGGEST_DEFAULTS.season);
+  const limit = resolveCount('limit', options.limit, SUGGEST_DEFAULTS.limit);
+  const leeway = resolveCount('leeway', options.leeway, SUGGEST_DEFAULTS.leeway);
+  const lookaheadMax = resolveCount('lookaheadMaxCandidates', options.lookaheadMaxCandidates, SUGGEST_DEFAULTS.lookaheadMaxCandidates);
+  const confidentAt = options.confidentAt ?? SUGGEST_DEFAULTS.confidentAt;
+  const prepared = prepareObservations(compiled, observations);
+  const scored = scoreObservations(compiled, prepared, options.priors);
+  const set = workingSet(scored, SUGGEST_DEFAULTS.negligibleProbability);
+  if (set.members.length < 2 || limit === 0) return [];
+
+  const observed = new Set(prepared.map((observation) => observation.trait.index));
+  const excluded = new Set(options.exclude ?? []);
+  const evaluated: Evaluated[] = [];
+  for (const trait of compiled.traits) {
+    if (observed.has(trait.index) || excluded.has(trait.code) || !visibleIn(trait, season)) continue;
+    if (conditionContradicted(trait, scored.active)) continue;
+    let sums: AnswerSums;
+    let cuts: number[] | undefined;
+    if (trait.kind === 'numeric') {
+      cuts = cutsFor(compiled, trait, set);
+      if (cuts.length === 0) continue;
+      sums = numericSums(compiled, trait, set, cuts);
+    } else {
+      if (trait.answerCount < 2) continue;
+      sums = discreteSums(compiled, trait, set);
+    }
+    const gain = gainFromSums(sums, set.entropyNats);
+    if (gain < SUGGEST_DEFAULTS.minGainBits) continue;
+    evaluated.push({ trait, gain, score: gain / trait.ease, sums, ...(cuts && { cuts }) });
+  }
+  evaluated.sort((a, b) => b.score - a.score || a.trait.index - b.trait.index);
+
+  let costs: Map<Evaluated, number> | undefined;
+  const shortlist = workingSet(scored, 1e-6);
+  if (lookaheadMax > 0 && shortlist.members.length <= lookaheadMax && evaluated.length > 1) {
+    costs = lookahead(compiled, evaluated, shortlist, confidentAt);
+    const withCost = evaluated.filter((item) => costs?.has(item));
+    withCost.sort((a, b) => (costs?.get(a) ?? 0) - (costs?.get(b) ?? 0) || b.score - a.score || a.trait.index - b.trait.index);
+    evaluated.splice(0, withCost.length, ...withCost);
+  }
+
+  return evaluated.slice(0, limit).map((item) => {
+    const effort = costs?.get(item);
+    return {
+      trait: item.trait.code,
+      label: item.trait.label,
+      expectedGain: item.gain,
+      score: item.score,
+      preview: previewOf(compiled, item, set, scored, leeway),
+      ...(effort !== undefined && { expectedEffort: effort }),
+    };
+  });
+}
