@@ -18,5 +18,7 @@ export { cellOf, taxonIndex, traitByCode } from './lookup';
 export { rank } from './rank';
 export { suggest } from './suggest';
 export { entropy } from './entropy';
+export { compare, diagnose, health } from './analysis';
+export { buildKey, keyToLines } from './key';
 export { generateSyntheticMatrix, type SyntheticOptions } from './synthetic';
 export { CENTIMETRES_PER_INCH, convertLength, fromCentimetres, isLengthUnit, LENGTH_UNITS, MILLIMETRES_PER_CENTIMETRE, toCentimetres } from './units';

@@ -23,6 +23,12 @@ export function joinOr(items: readonly string[]): string {
   return `${items.slice(0, -1).join(', ')} or ${items[items.length - 1]}`;
 }
 
+/** "a and b" / "a, b and c" */
+export function joinAnd(items: readonly string[]): string {
+  if (items.length <= 1) return items.join('');
+  return `${items.slice(0, -1).join(', ')} and ${items[items.length - 1]}`;
+}
+
 export function answerLabel(trait: CompiledTrait, answer: number): string {
   return trait.answerLabels[answer] ?? String(trait.answerCodes[answer]);
 }

@@ -1,0 +1,166 @@
+/**
+ * Side by side, diagnostic traits and the matrix health report.
+ *
+ * Invariant: these read the compiled matrix only and never change it; taxa are named by id in every
+ * result, in the order the caller gave them (or matrix order).
+ */
+import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { effectiveCellOf, requireTaxon } from './lookup';
+import { relation, separates } from './separation';
+import { codedText, joinAnd } from './texts';
+import type { ComparisonResult, ComparisonVerdict, DiagnosisResult, DiagnosticTrait, HealthReport, TraitComparison } from './types';
+
+function uniqueIndexes(compiled: CompiledMatrix, ids: readonly string[]): number[] {
+  return [...new Set(ids)].map((id) => requireTaxon(compiled, id));
+}
+
+function verdictFor(compiled: CompiledMatrix, trait: CompiledTrait, taxa: readonly number[]): ComparisonVerdict {
+  let allSame = true;
+  let allSeparate = true;
+  for (let x = 0; x < taxa.length; x++) {
+    for (let y = x + 1; y < taxa.length; y++) {
+      const found = relation(compiled, trait, taxa[x], taxa[y]);
+      if (found === 'unknown') return 'not-coded';
+      if (found !== 'same') allSame = false;
+      if (found !== 'separates') allSeparate = false;
+    }
+  }
+  if (taxa.length < 2) return 'same';
+  if (allSeparate) return 'separates';
+  return allSame ? 'same' : 'overlaps';
+}
+
+const verdictTexts: Record<ComparisonVerdict, (label: string) => string> = {
+  separates: (label) => `${label} tells every one of these apart.`,
+  overlaps: (label) => `${label} differs between some of these but overlaps for others.`,
+  same: (label) => `${label} is the same for all of these.`,
+  'not-coded': (label) => `${label} is not coded for every one of these yet.`,
+};
+
+/** Side by side: which traits separate the given taxa reliably, which overlap, which are the same. */
+export function compare(compiled: CompiledMatrix, ids: readonly string[]): ComparisonResult {
+  const taxa = uniqueIndexes(compiled, ids);
+  const result: ComparisonResult = { taxa: taxa.map((t) => compiled.taxa[t].id), separating: [], overlapping: [], same: [], notCoded: [] };
+  for (const trait of compiled.traits) {
+    const verdict = verdictFor(compiled, trait, taxa);
+    const cells = Object.fromEntries(taxa.map((t) => [compiled.taxa[t].id, effectiveCellOf(compiled, trait, t)]));
+    const entry: TraitComparison = { trait: trait.code, label: trait.label, verdict, cells, text: verdictTexts[verdict](trait.label) };
+    if (verdict === 'separates') result.separating.push(entry);
+    else if (verdict === 'overlaps') result.overlapping.push(entry);
+    else if (verdict === 'same') result.same.push(entry);
+    else result.notCoded.push(entry);
+  }
+  return result;
+}
+
+/**
+ * A small set of traits that together separate one taxon from all others of a set. Finding the
+ * smallest such set is set cover, which is NP-hard; this is the greedy approximation (Chvátal 1979,
+ * "A greedy heuristic for the set-covering problem"): repeatedly take the trait that separates the
+ * most not-yet-separated taxa (ties: easier, then more reliable), which uses at most ln(n) + 1 times
+ * as many traits as the smallest set.
+ */
+export function diagnose(compiled: CompiledMatrix, id: string, amongIds?: readonly string[]): DiagnosisResult {
+  const target = requireTaxon(compiled, id);
+  const among = amongIds ? uniqueIndexes(compiled, amongIds) : compiled.taxa.map((_, t) => t);
+  const others = among.filter((t) => t !== target);
+  const separatedBy = compiled.traits.map((trait) => new Set(others.filter((t) => separates(compiled, trait, target, t))));
+  const uncovered = new Set(others);
+  const chosen: DiagnosticTrait[] = [];
+  const used = new Set<number>();
+  while (uncovered.size > 0) {
+    let best = -1;
+    let bestCount = 0;
+    compiled.traits.forEach((trait, j) => {
+      if (used.has(j)) return;
+      let count = 0;
+      for (const t of separatedBy[j]) if (uncovered.has(t)) count++;
+      if (count === 0) return;
+      const incumbent = best >= 0 ? compiled.traits[best] : undefined;
+      const better =
+        !incumbent ||
+        count > bestCount ||
+        (count === bestCount && (trait.ease < incumbent.ease || (trait.ease === incumbent.ease && trait.errorRate < incumbent.errorRate)));
+      if (better) {
+        best = j;
+        bestCount = count;
+      }
+    });
+    if (best < 0 || bestCount === 0) break;
+    used.add(best);
+    const trait = compiled.traits[best];
+    const newly = [...separatedBy[best]].filter((t) => uncovered.has(t));
+    for (const t of newly) uncovered.delete(t);
+    const separatedIds = newly.map((t) => compiled.taxa[t].id);
+    const coding = codedText(trait, effectiveCellOf(compiled, trait, target));
+    chosen.push({ trait: trait.code, label: trait.label, separates: separatedIds, text: `${trait.label} (${coding}) sets it apart from ${joinAnd(separatedIds)}.` });
+  }
+  return { taxonId: compiled.taxa[target].id, traits: chosen, unseparated: [...uncovered].map((t) => compiled.taxa[t].id) };
+}
+
+function describeCondition(trait: CompiledTrait): string {
+  return Object.entries(trait.appliesWhen ?? {})
+    .map(([code, values]) => `${code} is ${values.join(' or ')}`)
+    .join(' and ');
+}
+
+/** Data-quality report of an edition: what the curators should look at. */
+export function health(compiled: CompiledMatrix): HealthReport {
+  const n = compiled.taxonCount;
+  const traits = compiled.traits;
+  const separatesAnything = new Uint8Array(traits.length);
+  const known = new Map(compiled.inseparable.map((pair) => [[...pair.taxa].sort().join('\u0000'), pair.reason]));
+  const inseparablePairs: HealthReport['inseparablePairs'] = [];
+  for (let a = 0; a < n; a++) {
+    for (let b = a + 1; b < n; b++) {
+      let separated = false;
+      for (const trait of traits) {
+        if (separates(compiled, trait, a, b)) {
+          separated = true;
+          separatesAnything[trait.index] = 1;
+          break;
+        }
+      }
+      if (!separated) {
+        const taxa: [string, string] = [compiled.taxa[a].id, compiled.taxa[b].id];
+        const reason = known.get([...taxa].sort().join('\u0000'));
+        inseparablePairs.push({ taxa, known: reason !== undefined, ...(reason !== undefined && { reason }) });
+      }
+    }
+  }
+  // a trait not found first for any pair may still separate some pair
+  for (const trait of traits) {
+    if (separatesAnything[trait.index]) continue;
+    search: for (let a = 0; a < n; a++) {
+      for (let b = a + 1; b < n; b++) {
+        if (separates(compiled, trait, a, b)) {
+          separatesAnything[trait.index] = 1;
+          break search;
+        }
+      }
+    }
+  }
+  const emptyCells: HealthReport['emptyCells'] = [];
+  let empty = 0;
+  for (let t = 0; t < n; t++) {
+    const missing = traits.filter((trait) => compiled.cellPattern[trait.index * n + t] === UNKNOWN_PATTERN).map((trait) => trait.code);
+    empty += missing.length;
+    if (missing.length > 0) emptyCells.push({ taxon: compiled.taxa[t].id, traits: missing });
+  }
+  const appliesWhenViolations: HealthReport['appliesWhenViolations'] = [];
+  compiled.overrideKeys.forEach((key, i) => {
+    const coded = compiled.overrideCoded[i];
+    if (coded === UNKNOWN_PATTERN || coded === INAPPLICABLE_PATTERN) return;
+    const trait = traits[Math.floor(key / n)];
+    appliesWhenViolations.push({ taxon: compiled.taxa[key % n].id, trait: trait.code, condition: describeCondition(trait) });
+  });
+  return {
+    inseparablePairs,
+    emptyCells,
+    emptyShare: n * traits.length > 0 ? empty / (n * traits.length) : 0,
+    traitsSeparatingNothing: n < 2 ? traits.map((trait) => trait.code) : traits.filter((trait) => !separatesAnything[trait.index]).map((trait) => trait.code),
+    rangesOutOfOrder: compiled.rangesOutOfOrder,
+    appliesWhenViolations,
+    warnings: compiled.warnings.filter((problem) => problem.severity === 'warning'),
+  };
+}

@@ -1,0 +1,140 @@
+import { expect } from 'chai';
+import { buildKey, compare, compileMatrix, diagnose, health, keyToLines, type KeyNode, type MatrixDocument } from '@shared/engine';
+import { generateSyntheticMatrix } from '../../shared/engine/synthetic';
+import { southernTreesMatrix, taxon } from './fixtures';
+
+function leaves(node: KeyNode): string[][] {
+  if (node.kind === 'taxa') return [node.taxa];
+  return node.leads.flatMap((lead) => leaves(lead.next));
+}
+
+function couplets(node: KeyNode): Array<Extract<KeyNode, { kind: 'couplet' }>> {
+  if (node.kind === 'taxa') return [];
+  return [node, ...node.leads.flatMap((lead) => couplets(lead.next))];
+}
+
+describe('compare', () => {
+  const compiled = compileMatrix(southernTreesMatrix());
+
+  it('sorts traits into separating, overlapping, same and not coded', () => {
+    const result = compare(compiled, ['pinus-taeda', 'pinus-strobus']);
+    const verdict = (code: string): string | undefined =>
+      [...result.separating, ...result.overlapping, ...result.same, ...result.notCoded].find((item) => item.trait === code)?.verdict;
+    // loblolly 3 needles vs white pine 5 (Flora of North America vol. 2, from memory)
+    expect(verdict('needles-per-fascicle')).to.equal('separates');
+    expect(verdict('needle-length')).to.equal('overlaps');
+    expect(verdict('foliage')).to.equal('same');
+    expect(verdict('terminal-bud')).to.equal('same');
+    expect(result.separating.find((item) => item.trait === 'needles-per-fascicle')?.cells['pinus-strobus']).to.deep.equal({ usual: [5] });
+  });
+
+  it('reports a trait not coded for one of the taxa as not coded', () => {
+    const doc = southernTreesMatrix();
+    doc.taxa[0].cells['bark-texture'] = 'unknown';
+    const result = compare(compileMatrix(doc), ['pinus-taeda', 'pinus-strobus']);
+    expect(result.notCoded.map((item) => item.trait)).to.include('bark-texture');
+  });
+});
+
+describe('diagnose', () => {
+  const compiled = compileMatrix(southernTreesMatrix());
+
+  it('finds a small set of traits that separates a taxon from the others', () => {
+    const result = diagnose(compiled, 'pinus-strobus');
+    expect(result.unseparated).to.deep.equal([]);
+    const covered = new Set(result.traits.flatMap((item) => item.separates));
+    expect([...covered].sort()).to.deep.equal(compiled.taxa.map((info) => info.id).filter((id) => id !== 'pinus-strobus').sort());
+    // needle bundles of 5 alone separate white pine from every other taxon here
+    expect(result.traits.map((item) => item.trait)).to.deep.equal(['needles-per-fascicle']);
+  });
+
+  it('names the taxa nothing separates', () => {
+    const result = diagnose(compiled, 'pinus-taeda', ['pinus-taeda', 'pinus-echinata', 'quercus-rubra']);
+    expect(result.unseparated).to.deep.equal(['pinus-echinata']);
+    expect(result.traits[0].separates).to.deep.equal(['quercus-rubra']);
+  });
+});
+
+describe('health', () => {
+  it('finds inseparable pairs, empty cells, useless traits, out-of-order ranges and appliesWhen violations', () => {
+    const doc = southernTreesMatrix();
+    doc.taxa[0].cells['needle-length'] = { min: 10, low: 18, high: 12, max: 23 };
+    doc.taxa[4].cells['needles-per-fascicle'] = { usual: [3] };
+    delete doc.taxa[5].cells['bark-texture'];
+    doc.traits.push({ code: 'crown-form', label: 'Crown form', part: 'form', kind: 'state', season: 'any', ease: 1, errorRate: 0.1, values: [{ code: 'vase', label: 'Vase' }] });
+    for (const entry of doc.taxa) entry.cells['crown-form'] = { usual: ['vase'] };
+    doc.inseparable = [{ taxa: ['pinus-echinata', 'pinus-taeda'], reason: 'overlapping codings in this test' }];
+    const report = health(compileMatrix(doc));
+    expect(report.inseparablePairs).to.deep.equal([
+      { taxa: ['pinus-taeda', 'pinus-echinata'], known: true, reason: 'overlapping codings in this test' },
+      { taxa: ['pinus-taeda', 'pinus-palustris'], known: false },
+    ]);
+    expect(report.emptyCells).to.deep.equal([{ taxon: 'quercus-rubra', traits: ['bark-texture'] }]);
+    expect(report.traitsSeparatingNothing).to.deep.equal(['crown-form']);
+    expect(report.rangesOutOfOrder).to.deep.equal([{ taxon: 'pinus-taeda', trait: 'needle-length', cell: { min: 10, low: 18, high: 12, max: 23 } }]);
+    expect(report.appliesWhenViolations).to.deep.equal([{ taxon: 'quercus-alba', trait: 'needles-per-fascicle', condition: 'foliage is needle' }]);
+    expect(report.warnings.map((warning) => warning.code)).to.include.members(['range-out-of-order', 'applies-when-violation']);
+  });
+
+  it('copes with an empty matrix', () => {
+    const empty: MatrixDocument = { format: 'sylvasift-matrix', version: 1, title: 'Empty', traits: [], taxa: [] };
+    const report = health(compileMatrix(empty));
+    expect(report.inseparablePairs).to.deep.equal([]);
+    expect(report.emptyShare).to.equal(0);
+  });
+});
+
+describe('buildKey', () => {
+  const compiled = compileMatrix(southernTreesMatrix());
+
+  it('builds a two-way key whose couplets use one trait each and reach every taxon', () => {
+    const ids = compiled.taxa.map((info) => info.id);
+    const key = buildKey(compiled, ids);
+    const reached = new Set(leaves(key.root).flat());
+    expect([...reached].sort()).to.deep.equal([...ids].sort());
+    for (const couplet of couplets(key.root)) {
+      expect(couplet.leads).to.have.length(2);
+      expect(couplet.leads[0].trait).to.equal(couplet.trait);
+      expect(couplet.leads[1].trait).to.equal(couplet.trait);
+    }
+    expect(key.couplets).to.equal(couplets(key.root).length);
+    // the first couplet splits needles from broad leaves: 4 pines against 3 broadleaves
+    expect(key.root.kind === 'couplet' && key.root.trait).to.equal('foliage');
+  });
+
+  it('ends in a lead naming several taxa when nothing splits them', () => {
+    const key = buildKey(compiled, ['pinus-taeda', 'pinus-echinata']);
+    // their codings overlap on every trait except where both show 3 needles and plated bark
+    const ends = leaves(key.root);
+    expect(ends.some((end) => end.length >= 1)).to.equal(true);
+    const identical: MatrixDocument = {
+      format: 'sylvasift-matrix', version: 1, title: 'Twins',
+      traits: compiled.traits.slice(0, 1).map((trait) => ({ code: trait.code, label: trait.label, part: trait.part, kind: trait.kind, season: trait.season, ease: trait.ease, errorRate: trait.codedErrorRate, values: trait.values })),
+      taxa: [taxon('twin-a', { foliage: { usual: ['needle'] } }), taxon('twin-b', { foliage: { usual: ['needle'] } })],
+    };
+    const twins = buildKey(compileMatrix(identical), ['twin-a', 'twin-b']);
+    expect(twins.root).to.deep.equal({ kind: 'taxa', taxa: ['twin-a', 'twin-b'] });
+    expect(twins.couplets).to.equal(0);
+  });
+
+  it('prints numbered couplets', () => {
+    const lines = keyToLines(compiled, buildKey(compiled, compiled.taxa.map((info) => info.id)));
+    expect(lines[0]).to.match(/^1a\. Foliage form: .+ → \d+$|^1a\. Foliage form: .+ → .+$/);
+    expect(lines[1]).to.match(/^1b\. /);
+  });
+
+  it('keys out every taxon of random matrices, with balanced first splits', () => {
+    for (let seed = 1; seed <= 5; seed++) {
+      const random = compileMatrix(generateSyntheticMatrix({ taxa: 40, traits: 15, seed }));
+      const ids = random.taxa.map((info) => info.id);
+      const key = buildKey(random, ids);
+      const reached = new Set(leaves(key.root).flat());
+      expect(reached.size).to.equal(ids.length);
+      for (const couplet of couplets(key.root)) {
+        const sizes = couplet.leads.map((lead) => new Set(leaves(lead.next).flat()).size);
+        const parent = new Set(leaves(couplet).flat()).size;
+        expect(Math.max(...sizes)).to.be.lessThan(parent);
+      }
+    }
+  });
+});
