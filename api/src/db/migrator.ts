@@ -27,7 +27,8 @@ function umzugFor(steps: readonly Step[], tableName: string, sequelize: Sequeliz
   return new Umzug<MigrationContext>({
     migrations: steps.map((step) => ({ name: step.name, up: step.up, down: step.down })),
     context: { sequelize, queryInterface: sequelize.getQueryInterface(), models, logger },
-    storage: new SequelizeStorage({ sequelize, tableName }),
+    // Each storage needs its own model name, or the second silently shares the first's table.
+    storage: new SequelizeStorage({ sequelize, tableName, modelName: tableName }),
     logger: logger
       ? { info: (m) => logger.info(m), warn: (m) => logger.warn(m), error: (m) => logger.error(m), debug: (m) => logger.debug(m) }
       : undefined,
