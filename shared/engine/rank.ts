@@ -126,11 +126,20 @@ function before(scored: Scored, a: number, b: number): boolean {
   return a < b;
 }
 
+/** above this limit a full sort beats keeping a sorted short list */
+const INSERTION_LIMIT = 64;
+
 /** The best `limit` taxa passing `accept`, best first, plus how many passed in all. */
 export function selectBest(scored: Scored, limit: number, accept: (t: number) => boolean): { best: number[]; total: number } {
+  const n = scored.logPosterior.length;
+  if (limit > INSERTION_LIMIT) {
+    const all: number[] = [];
+    for (let t = 0; t < n; t++) if (accept(t)) all.push(t);
+    all.sort((a, b) => (before(scored, a, b) ? -1 : before(scored, b, a) ? 1 : 0));
+    return { best: all.slice(0, limit), total: all.length };
+  }
   const best: number[] = [];
   let total = 0;
-  const n = scored.logPosterior.length;
   for (let t = 0; t < n; t++) {
     if (!accept(t)) continue;
     total++;
