@@ -65,6 +65,8 @@ export function describeObservation(compiled: CompiledMatrix, observation: Obser
   return { label, value };
 }
 
+/** The first common name, capitalised for headings and lists ("Eastern white pine"). */
 export function commonName(taxon: TaxonInfo): string {
-  return taxon.commonNames[0] ?? taxon.scientificName;
+  const name = taxon.commonNames[0];
+  return name ? name.charAt(0).toUpperCase() + name.slice(1) : taxon.scientificName;
 }

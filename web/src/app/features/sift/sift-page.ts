@@ -5,17 +5,20 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatIcon } from '@angular/material/icon';
 import { MatButton } from '@angular/material/button';
-import { rank } from '@shared/engine';
+import { rank, suggest } from '@shared/engine';
 import type { Observation, ObservingSeason } from '@shared/engine/types';
 import { EditionService } from '../../core/edition/edition-service';
 import { IDENTIFICATION_CAUTION } from '../../core/layout/cautions';
 import { EditionStatus } from '../../shared/edition-status';
+import { LookAtNext } from './look-at-next';
 import { SeenSoFar } from './seen-so-far';
 import { Shortlist } from './shortlist';
+import { SideBySide } from './side-by-side';
 import { type ObservationChange, TraitPicker } from './trait-picker';
 import { type SearchPick, TraitSearch } from './trait-search';
 import {
   type SiftQuery,
+  formatObservations,
   loadLastSift,
   parseLeeway,
   parseObservations,
@@ -26,7 +29,8 @@ import {
 
 /** How many shortlist and ruled-out entries the engine returns; probabilities still cover every taxon. */
 const SHORTLIST_LIMIT = 25;
-/** The User Timing name of one engine run, read by the performance test. */
+const SUGGESTION_LIMIT = 5;
+/** The User Timing name of one engine run (rank + suggest), read by the performance test. */
 export const ENGINE_MEASURE = 'sylvasift:engine';
 
 function sameQuery(a: SiftQuery, b: SiftQuery): boolean {
@@ -46,6 +50,8 @@ function sameQuery(a: SiftQuery, b: SiftQuery): boolean {
     TraitPicker,
     SeenSoFar,
     Shortlist,
+    LookAtNext,
+    SideBySide,
   ],
   templateUrl: './sift-page.html',
   styleUrl: './sift-page.scss',
@@ -73,10 +79,14 @@ export default class SiftPage {
     return untracked(() => loadLastSift()) ?? fromUrl;
   });
 
-  protected readonly observations = linkedSignal<Observation[]>(() => {
-    const compiled = this.compiled();
-    return compiled ? parseObservations(this.#source().o, compiled) : [];
-  });
+  protected readonly observations = linkedSignal<Observation[]>(
+    () => {
+      const compiled = this.compiled();
+      return compiled ? parseObservations(this.#source().o, compiled) : [];
+    },
+    // The URL echoing back what was just chosen is the same sift: do not rank it twice.
+    { equal: (a, b) => formatObservations(a) === formatObservations(b) },
+  );
   protected readonly siftSeason = linkedSignal<ObservingSeason>(() => parseSeason(this.#source().season));
   protected readonly siftLeeway = linkedSignal<number>(() => parseLeeway(this.#source().leeway));
   protected readonly sideBySide = signal<string[]>([]);
@@ -89,8 +99,9 @@ export default class SiftPage {
     const leeway = this.siftLeeway();
     const started = performance.now();
     const ranked = rank(compiled, observations, { season, leeway, limit: SHORTLIST_LIMIT });
+    const suggestions = suggest(compiled, observations, { season, leeway, limit: SUGGESTION_LIMIT });
     performance.measure(ENGINE_MEASURE, { start: started, end: performance.now() });
-    return { ranked };
+    return { ranked, suggestions };
   });
 
   protected readonly skipped = computed(() => this.outcome()?.ranked.skipped ?? []);

@@ -199,16 +199,22 @@ export class TraitPicker {
     const trait = this.compiled().traits.find((candidate) => candidate.code === code);
     if (!trait) return;
     this.setPartOpen(trait.part, true);
-    afterNextRender(
-      () => {
-        const section = document.getElementById(`trait-${code}`);
-        if (!section) return;
-        section.scrollIntoView({ block: 'center' });
-        const chip = answer === undefined ? null : document.getElementById(chipId(code, answer));
-        const target = chip?.querySelector<HTMLElement>('[role="option"]') ?? chip ?? section.querySelector<HTMLElement>('[role="option"], input');
-        target?.focus({ preventScroll: true });
-      },
-      { injector: this.#injector },
-    );
+    afterNextRender(() => this.#focusWhenReady(code, answer, true), { injector: this.#injector });
+  }
+
+  /**
+   * A panel's lazy content appears a frame or two after it opens, and cannot take focus until its
+   * expand animation has started; try for up to half a second.
+   */
+  #focusWhenReady(code: string, answer: string | number | undefined, scroll: boolean, framesLeft = 30): void {
+    const section = document.getElementById(`trait-${code}`);
+    if (section) {
+      if (scroll) section.scrollIntoView({ block: 'center' });
+      const chip = answer === undefined ? null : document.getElementById(chipId(code, answer));
+      const target = chip?.querySelector<HTMLElement>('[role="option"]') ?? section.querySelector<HTMLElement>('[role="option"], input');
+      target?.focus({ preventScroll: true });
+      if (!target || document.activeElement === target) return;
+    }
+    if (framesLeft > 0) requestAnimationFrame(() => this.#focusWhenReady(code, answer, scroll && !section, framesLeft - 1));
   }
 }

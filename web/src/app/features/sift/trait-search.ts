@@ -80,7 +80,7 @@ export function searchTraits(fuse: Fuse<SearchEntry>, query: string, limit = 8):
         (input)="query.set(box.value)"
         [matAutocomplete]="found"
       />
-      <mat-autocomplete #found="matAutocomplete" (optionSelected)="choose($event); box.value = ''">
+      <mat-autocomplete #found="matAutocomplete" [displayWith]="blank" (optionSelected)="choose($event)">
         @for (entry of matches(); track entry.key) {
           <mat-option [value]="entry.key">
             @if (entry.answer !== undefined) {
@@ -118,6 +118,9 @@ export class TraitSearch {
   readonly #entries = computed(() => searchEntries(this.compiled()));
   readonly #fuse = computed(() => new Fuse(this.#entries(), { keys: KEYS, threshold: 0.3, ignoreLocation: true, includeScore: true }));
   protected readonly matches = computed(() => searchTraits(this.#fuse(), this.query()));
+
+  /** The box empties once a match is chosen: the chip it jumps to now shows the choice. */
+  protected readonly blank = () => '';
 
   protected choose(event: MatAutocompleteSelectedEvent): void {
     const entry = this.#entries().find((candidate) => candidate.key === event.option.value);

@@ -4,8 +4,8 @@ import { Location } from '@angular/common';
 import { MatIcon } from '@angular/material/icon';
 import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
-import { cellOf } from '@shared/engine';
-import type { CompiledTrait } from '@shared/engine/compiled';
+import { cellOf, diagnose } from '@shared/engine';
+import type { CompiledMatrix, CompiledTrait, TaxonInfo } from '@shared/engine/compiled';
 import type { Cell } from '@shared/engine/types';
 import { EditionService } from '../../core/edition/edition-service';
 import { USE_CAUTION, IDENTIFICATION_CAUTION } from '../../core/layout/cautions';
@@ -24,6 +24,15 @@ function drawingsOf(trait: CompiledTrait, cell: Cell): Array<{ url: string; labe
   return trait.values
     .filter((value) => coded.includes(value.code) && value.illustration)
     .map((value) => ({ url: illustrationUrl(value.illustration) ?? '', label: value.label }));
+}
+
+/** Taxa a species is judged against: its recorded look-alikes and the rest of its genus. */
+function comparisonSet(compiled: CompiledMatrix, taxon: TaxonInfo): string[] {
+  const genus = taxon.scientificName.split(' ')[0];
+  const ids = new Set((taxon.lookAlikes ?? []).filter((id) => compiled.taxonIndexById.has(id)));
+  for (const other of compiled.taxa) if (other.scientificName.split(' ')[0] === genus) ids.add(other.id);
+  ids.delete(taxon.id);
+  return [...ids];
 }
 
 @Component({
@@ -65,6 +74,24 @@ export default class SpeciesPage {
     return PART_ORDER.map((part) => ({ part, label: PART_LABELS[part], rows: rows.filter((row) => row.trait.part === part) })).filter(
       (group) => group.rows.length > 0,
     );
+  });
+
+  protected readonly diagnosis = computed(() => {
+    const compiled = this.editions.compiled();
+    const taxon = this.taxon();
+    if (!compiled || !taxon) return null;
+    const among = comparisonSet(compiled, taxon);
+    if (among.length === 0) return null;
+    const result = diagnose(compiled, taxon.id, among);
+    const nameOf = (id: string) => {
+      const index = compiled.taxonIndexById.get(id);
+      return index === undefined ? id : commonName(compiled.taxa[index]);
+    };
+    return {
+      among: among.map((id) => ({ id, name: nameOf(id) })),
+      traits: result.traits.map((trait) => ({ ...trait, separatesNames: trait.separates.map(nameOf).join(', ') })),
+      unseparated: result.unseparated.map((id) => ({ id, name: nameOf(id) })),
+    };
   });
 
   protected readonly lookAlikeCautions = computed(() => {

@@ -1,0 +1,114 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import zlib from 'node:zlib';
+import { expect } from 'chai';
+import { AxeBuilder } from '@axe-core/playwright';
+import type { Browser, Page } from 'playwright-core';
+import { launchBrowser, requireChromium } from './support/browser';
+import { WEB_ROOT, startBuiltApp, type RunningApp } from './support/server';
+import { openPart, tapChip, waitForSift } from './support/sift-page';
+
+async function seriousViolations(page: Page): Promise<string[]> {
+  const results = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa']).analyze();
+  return results.violations
+    .filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
+    .map((violation) => `${violation.id} (${violation.impact}): ${violation.nodes.map((node) => node.target.join(' ')).slice(0, 5).join(', ')}`);
+}
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  const middle = Math.floor(sorted.length / 2);
+  return sorted.length % 2 === 1 ? sorted[middle] : (sorted[middle - 1] + sorted[middle]) / 2;
+}
+
+describe('e2e: accessibility and performance', function () {
+  this.timeout(90_000);
+  let browser: Browser;
+  let running: RunningApp;
+
+  before(async function () {
+    requireChromium(this);
+    running = await startBuiltApp();
+    browser = await launchBrowser();
+  });
+
+  after(async () => {
+    await browser?.close();
+    await running?.stop();
+  });
+
+  it('the sift page has no serious or critical axe violations, with chips chosen and reasons open', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
+    const page = await context.newPage();
+    await page.goto(`${running.baseUrl}/sift?o=needles-per-fascicle:3;needle-length:6in&season=leaf-on&leeway=2`);
+    await waitForSift(page);
+    await openPart(page, 'Bark');
+    await page.locator('sv-trait-picker .help-toggle').first().click();
+    await page.locator('sv-shortlist .why mat-expansion-panel-header').first().click();
+    await page.locator('sv-shortlist .reasons li').first().waitFor();
+    expect(await seriousViolations(page)).to.deep.equal([]);
+
+    // Full keyboard use: Tab reaches a chip, Space picks it, and focus is visible (common practice, no source).
+    const chip = page.locator('#chip-bark-texture-plated [role="option"]');
+    await chip.focus();
+    await page.keyboard.press('Space');
+    await page.locator('sv-seen-so-far mat-chip[data-trait="bark-texture"]').waitFor();
+    expect(await chip.getAttribute('aria-selected')).to.equal('true');
+    await context.close();
+  });
+
+  it('the species page has no serious or critical axe violations and shows its cautions', async () => {
+    const context = await browser.newContext({ viewport: { width: 390, height: 844 }, serviceWorkers: 'block' });
+    const page = await context.newPage();
+    await page.goto(`${running.baseUrl}/species/pinus-taeda`);
+    await page.locator('h1', { hasText: 'Loblolly pine' }).waitFor();
+    expect(await page.locator('.sci').first().textContent()).to.equal('Pinus taeda');
+    // Flora of North America vol. 2, Pinus taeda: needles 3 per fascicle (from memory).
+    expect(await page.locator('.traits .row[data-trait="needles-per-fascicle"] dd').textContent()).to.match(/3 per bundle/);
+    expect(await page.locator('.cautions li').count()).to.be.greaterThan(1);
+    expect(await seriousViolations(page)).to.deep.equal([]);
+    await context.close();
+  });
+
+  it('runs the engine in well under a frame per chip change and keeps the initial JavaScript small', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
+    const page = await context.newPage();
+    await page.goto(`${running.baseUrl}/sift?season=leaf-on&leeway=2`);
+    await waitForSift(page);
+    await page.evaluate(() => performance.clearMeasures('sylvasift:engine'));
+    await openPart(page, 'Leaf');
+    await openPart(page, 'Bark');
+    const taps: Array<[string, string]> = [
+      ['foliage', 'broad'],
+      ['leaf-arrangement', 'alternate'],
+      ['leaf-type', 'simple'],
+      ['leaf-lobing', 'pinnately-lobed'],
+      ['lobe-tips', 'rounded'],
+      ['bark-texture', 'scaly'],
+      ['bark-texture', 'scaly'],
+      ['lobe-tips', 'rounded'],
+      ['leaf-arrangement', 'alternate'],
+      ['leaf-arrangement', 'alternate'],
+    ];
+    for (const [trait, answer] of taps) {
+      const before = await page.evaluate(() => performance.getEntriesByName('sylvasift:engine').length);
+      await tapChip(page, trait, answer);
+      await page.waitForFunction((count) => performance.getEntriesByName('sylvasift:engine').length > count, before);
+    }
+    const durations = await page.evaluate(() => performance.getEntriesByName('sylvasift:engine').map((entry) => entry.duration));
+    expect(durations.length).to.be.at.least(taps.length);
+    const middle = median(durations);
+    console.log(`      engine (rank + suggest) per chip change: median ${middle.toFixed(2)} ms, max ${Math.max(...durations).toFixed(2)} ms over ${durations.length} changes`);
+    // One frame at 60 Hz is 16.7 ms (common practice, no source).
+    expect(middle).to.be.at.most(16);
+    await context.close();
+
+    // The initial JavaScript: the scripts index.html loads before any route, gzip-compressed.
+    const html = fs.readFileSync(path.join(WEB_ROOT, 'index.html'), 'utf8');
+    const scripts = [...html.matchAll(/<(?:script[^>]*src|link[^>]*rel="modulepreload"[^>]*href)="([^"]+\.js)"/g)].map((match) => match[1]);
+    expect(scripts.length).to.be.greaterThan(0);
+    const compressed = scripts.reduce((sum, file) => sum + zlib.gzipSync(fs.readFileSync(path.join(WEB_ROOT, file)), { level: 9 }).length, 0);
+    console.log(`      initial JavaScript: ${scripts.length} files, ${(compressed / 1024).toFixed(1)} kB gzip`);
+    expect(compressed).to.be.below(500 * 1024);
+  });
+});

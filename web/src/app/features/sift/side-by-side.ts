@@ -1,0 +1,145 @@
+import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
+import { MatButton } from '@angular/material/button';
+import { compare } from '@shared/engine';
+import type { CompiledMatrix } from '@shared/engine/compiled';
+import type { ComparisonVerdict, TraitComparison } from '@shared/engine/types';
+import { commonName, describeCell } from '../../shared/matrix-words';
+
+const VERDICT_LABELS: Readonly<Record<ComparisonVerdict, string>> = {
+  separates: 'Separates',
+  overlaps: 'Differs, with overlap',
+  same: 'Same',
+  'not-coded': 'Not coded for all',
+};
+
+@Component({
+  selector: 'sv-side-by-side',
+  imports: [MatButton],
+  template: `
+    <div class="head">
+      <h2 id="side-heading">Side by side</h2>
+      @if (ids().length > 0) {
+        <button mat-button type="button" (click)="clear.emit()">Clear</button>
+      }
+    </div>
+    @if (ids().length < 2) {
+      <p class="empty">Tick “Side by side” on two to four species of the shortlist to see every trait where they differ.</p>
+    } @else if (comparison(); as result) {
+      <div class="table-scroll" tabindex="0" role="region" aria-labelledby="side-heading">
+        <table>
+          <caption>
+            {{ rows().length }} traits differ; traits that separate every pair come first.
+          </caption>
+          <thead>
+            <tr>
+              <th scope="col">Trait</th>
+              @for (taxon of taxa(); track taxon.id) {
+                <th scope="col">{{ taxon.name }}</th>
+              }
+            </tr>
+          </thead>
+          <tbody>
+            @for (row of rows(); track row.trait) {
+              <tr [attr.data-verdict]="row.verdict" [attr.data-trait]="row.trait">
+                <th scope="row">
+                  {{ row.label }}
+                  <span class="verdict">{{ verdictLabel(row.verdict) }}</span>
+                </th>
+                @for (cell of row.cells; track $index) {
+                  <td>{{ cell }}</td>
+                }
+              </tr>
+            }
+          </tbody>
+        </table>
+      </div>
+      @if (result.same.length > 0) {
+        <p class="same">Coded the same for all: {{ sameLabels() }}.</p>
+      }
+    }
+  `,
+  styles: `
+    .head {
+      display: flex;
+      align-items: center;
+      justify-content: space-between;
+    }
+    h2 {
+      margin: 0;
+      font: var(--mat-sys-title-large);
+    }
+    .empty,
+    .same {
+      color: var(--mat-sys-on-surface-variant);
+      font: var(--mat-sys-body-medium);
+    }
+    .table-scroll {
+      overflow-x: auto;
+    }
+    table {
+      border-collapse: collapse;
+      width: 100%;
+      font: var(--mat-sys-body-medium);
+    }
+    caption {
+      text-align: left;
+      padding: 4px 0;
+      color: var(--mat-sys-on-surface-variant);
+    }
+    th,
+    td {
+      text-align: left;
+      vertical-align: top;
+      padding: 6px 8px;
+      border-bottom: 1px solid var(--mat-sys-outline-variant);
+      min-width: 96px;
+    }
+    tr[data-verdict='separates'] th[scope='row'] {
+      border-left: 4px solid var(--mat-sys-primary);
+    }
+    .verdict {
+      display: block;
+      font: var(--mat-sys-label-small);
+      color: var(--mat-sys-on-surface-variant);
+    }
+  `,
+  changeDetection: ChangeDetectionStrategy.OnPush,
+})
+export class SideBySide {
+  readonly compiled = input.required<CompiledMatrix>();
+  readonly ids = input.required<readonly string[]>();
+  readonly clear = output();
+
+  protected readonly comparison = computed(() => {
+    const compiled = this.compiled();
+    const ids = this.ids().filter((id) => compiled.taxonIndexById.has(id));
+    return ids.length >= 2 ? compare(compiled, ids) : null;
+  });
+
+  protected readonly taxa = computed(() => {
+    const compiled = this.compiled();
+    return (this.comparison()?.taxa ?? []).map((id) => ({ id, name: commonName(compiled.taxa[compiled.taxonIndexById.get(id) ?? 0]) }));
+  });
+
+  protected readonly rows = computed(() => {
+    const result = this.comparison();
+    if (!result) return [];
+    const compiled = this.compiled();
+    const toRow = (comparison: TraitComparison) => {
+      const trait = compiled.traits[compiled.traitIndexByCode.get(comparison.trait) ?? 0];
+      return {
+        trait: comparison.trait,
+        label: comparison.label,
+        verdict: comparison.verdict,
+        cells: result.taxa.map((id) => describeCell(trait, comparison.cells[id] ?? 'unknown')),
+      };
+    };
+    return [...result.separating, ...result.overlapping, ...result.notCoded].map(toRow);
+  });
+
+  protected readonly sameLabels = computed(() => (this.comparison()?.same ?? []).map((comparison) => comparison.label).join(', '));
+
+  protected verdictLabel(verdict: ComparisonVerdict): string {
+    return VERDICT_LABELS[verdict];
+  }
+}
