@@ -157,6 +157,14 @@ describe('api: permission table (every route × every caller)', function () {
     },
     { operation: 'GET /api/v1/curation/audit', prepare: () => ({ url: '/api/v1/curation/audit' }), expect: users(200, ['curator']) },
     { operation: 'GET /api/v1/curation/draft/summary', prepare: () => ({ url: '/api/v1/curation/draft/summary' }), expect: users(200, ['curator']) },
+    {
+      operation: 'POST /api/v1/curation/imports',
+      prepare: () => ({
+        url: '/api/v1/curation/imports?mode=dry-run',
+        attach: { field: 'file', file: Buffer.from('taxon,trait,usual,occasional,rare,min,low,high,max,state\npinus-taeda,pith,,,,,,,,unknown\n'), name: 'who-may-import.csv' },
+      }),
+      expect: users(200, ['curator']),
+    },
 
     // accounts and sessions: open routes; a key header is accepted and ignored
     {
