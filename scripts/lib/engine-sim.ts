@@ -77,7 +77,7 @@ export function drawAnswer(compiled: CompiledMatrix, traitIndex: number, t: numb
 
 /** How the next trait is chosen in a simulated sift. */
 export type Policy =
-  | { kind: 'engine' }
+  | { kind: 'engine'; lookaheadMaxCandidates?: number }
   | { kind: 'fixed'; order: number[] }
   | { kind: 'random'; random: Random };
 
@@ -131,7 +131,13 @@ export function simulateSift(compiled: CompiledMatrix, t: number, random: Random
   while (asked.size < maxQuestions && state.probability < options.confidentAt) {
     let next: number | undefined;
     if (policy.kind === 'engine') {
-      const [best] = suggest(compiled, observations, { limit: 1, exclude: [...asked], confidentAt: options.confidentAt, ...(state.survivorPriors && { priors: state.survivorPriors }) });
+      const [best] = suggest(compiled, observations, {
+        limit: 1,
+        exclude: [...asked],
+        confidentAt: options.confidentAt,
+        ...(policy.lookaheadMaxCandidates !== undefined && { lookaheadMaxCandidates: policy.lookaheadMaxCandidates }),
+        ...(state.survivorPriors && { priors: state.survivorPriors }),
+      });
       next = best ? compiled.traitIndexByCode.get(best.trait) : undefined;
     } else {
       const remaining = (policy.kind === 'fixed' ? policy.order : compiled.traits.map((_, j) => j)).filter((j) => !asked.has(compiled.traits[j].code));

@@ -73,6 +73,8 @@ export const SUGGEST_DEFAULTS = Object.freeze({
   confidentAt: 0.95,
   /** traits expected to gain less than this many bits are treated as unable to split the shortlist */
   minGainBits: 1e-4,
+  /** the shortlist a trait must split: taxa at least this share of the leader's probability */
+  shortlistShare: 0.01,
   /** taxa with less than this posterior probability are ignored while computing suggestions */
   negligibleProbability: 1e-9,
 });

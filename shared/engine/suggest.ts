@@ -28,6 +28,8 @@ const LOOKAHEAD_POOL = 12;
 const ROLLOUT_NODE_BUDGET = 1500;
 /** branches reached with less probability than this are estimated instead of expanded */
 const ROLLOUT_MIN_PATH = 0.01;
+/** expected efforts closer than this are treated as equal */
+const COST_TIE = 2e-3;
 /** deepest question a rollout expands */
 const ROLLOUT_MAX_DEPTH = 8;
 
@@ -344,6 +346,15 @@ function denseGain(weights: Float64Array, rows: readonly Float64Array[], before:
   return before - after;
 }
 
+/** Whether some answer is more likely for one shortlisted member than for another (the trait can split them). */
+function rowsDiffer(rows: readonly Float64Array[], shortlist: readonly number[]): boolean {
+  for (const row of rows) {
+    const first = row[shortlist[0]];
+    for (let i = 1; i < shortlist.length; i++) if (Math.abs(row[shortlist[i]] - first) > 1e-12) return true;
+  }
+  return false;
+}
+
 class Rollout {
   private nodes = 0;
   private readonly scratch: Float64Array;
@@ -359,10 +370,14 @@ class Rollout {
   /** The greedy choice at these weights: the trait with the best gain per ease, or -1. */
   private choose(weights: Float64Array, asked: Uint8Array): { trait: number; rate: number } {
     const before = entropy(weights);
+    let max = 0;
+    for (const weight of weights) if (weight > max) max = weight;
+    const shortlist: number[] = [];
+    for (let i = 0; i < weights.length; i++) if (weights[i] >= max * SUGGEST_DEFAULTS.shortlistShare) shortlist.push(i);
     let best = -1;
     let rate = 0;
     for (let j = 0; j < this.traits.length; j++) {
-      if (asked[j]) continue;
+      if (asked[j] || !rowsDiffer(this.traits[j].rows, shortlist)) continue;
       const gain = denseGain(weights, this.traits[j].rows, before, this.scratch);
       if (gain < this.minGain) continue;
       const score = gain / this.traits[j].ease;
@@ -432,6 +447,32 @@ function lookahead(compiled: CompiledMatrix, ranked: Evaluated[], set: WorkingSe
   return costs;
 }
 
+/** Whether the trait's answers can fall differently for two members of the shortlist. */
+function splitsShortlist(compiled: CompiledMatrix, trait: CompiledTrait, shortlist: WorkingSet): boolean {
+  const n = compiled.taxonCount;
+  const base = trait.index * n;
+  const members = shortlist.members;
+  if (members.length < 2) return false;
+  if (trait.kind === 'numeric') {
+    const block = trait.numericIndex * 4 * n;
+    const first = members[0];
+    for (let i = 1; i < members.length; i++) {
+      const t = members[i];
+      if (compiled.cellPattern[base + t] !== compiled.cellPattern[base + first]) return true;
+      for (let field = 0; field < 4; field++) if (compiled.ranges[block + field * n + t] !== compiled.ranges[block + field * n + first]) return true;
+    }
+    return false;
+  }
+  const k = trait.answerCount;
+  const firstRow = trait.likBase + compiled.cellPattern[base + members[0]] * k;
+  for (let i = 1; i < members.length; i++) {
+    const row = trait.likBase + compiled.cellPattern[base + members[i]] * k;
+    if (row === firstRow) continue;
+    for (let a = 0; a < k; a++) if (Math.abs(compiled.likelihood[row + a] - compiled.likelihood[firstRow + a]) > 1e-12) return true;
+  }
+  return false;
+}
+
 function resolveSeason(season: unknown): ObservingSeason {
   return season === 'leaf-off' ? 'leaf-off' : 'leaf-on';
 }
@@ -450,13 +491,16 @@ export function suggest(compiled: CompiledMatrix, observations: readonly Observa
   const scored = scoreObservations(compiled, prepared, options.priors);
   const set = workingSet(scored, SUGGEST_DEFAULTS.negligibleProbability);
   if (set.members.length < 2 || limit === 0) return [];
+  let leader = 0;
+  for (const p of scored.probability) if (p > leader) leader = p;
+  const shortlist = workingSet(scored, leader * SUGGEST_DEFAULTS.shortlistShare);
 
   const observed = new Set(prepared.map((observation) => observation.trait.index));
   const excluded = new Set(options.exclude ?? []);
   const evaluated: Evaluated[] = [];
   for (const trait of compiled.traits) {
     if (observed.has(trait.index) || excluded.has(trait.code) || !visibleIn(trait, season)) continue;
-    if (conditionContradicted(trait, scored.active)) continue;
+    if (conditionContradicted(trait, scored.active) || !splitsShortlist(compiled, trait, shortlist)) continue;
     let sums: AnswerSums;
     let cuts: number[] | undefined;
     if (trait.kind === 'numeric') {
@@ -474,11 +518,14 @@ export function suggest(compiled: CompiledMatrix, observations: readonly Observa
   evaluated.sort((a, b) => b.score - a.score || a.trait.index - b.trait.index);
 
   let costs: Map<Evaluated, number> | undefined;
-  const shortlist = workingSet(scored, 1e-6);
   if (lookaheadMax > 0 && shortlist.members.length <= lookaheadMax && evaluated.length > 1) {
     costs = lookahead(compiled, evaluated, shortlist, confidentAt);
     const withCost = evaluated.filter((item) => costs?.has(item));
-    withCost.sort((a, b) => (costs?.get(a) ?? 0) - (costs?.get(b) ?? 0) || b.score - a.score || a.trait.index - b.trait.index);
+    // costs within COST_TIE of each other are ties (the error floor adds noise of that order); the better gain per ease wins
+    withCost.sort((a, b) => {
+      const difference = (costs?.get(a) ?? 0) - (costs?.get(b) ?? 0);
+      return Math.abs(difference) > COST_TIE ? difference : b.score - a.score || a.trait.index - b.trait.index;
+    });
     evaluated.splice(0, withCost.length, ...withCost);
   }
 
