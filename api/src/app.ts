@@ -24,6 +24,7 @@ import { traitsRoutes } from './traits/traits-routes';
 import { curationRoutes } from './curation/curation-routes';
 import { photoRoutes } from './uploads/photo-routes';
 import { importRoutes } from './imports/import-routes';
+import { compareRoutes } from './compare/compare-routes';
 
 /** Everything a route's domain service may need, built once per app. */
 export interface AppContext {
@@ -105,6 +106,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   app.use('/api/v1/taxa', lookup, taxaRoutes(context));
   app.use('/api/v1/photos', lookup, photos.serve);
   app.use('/api/v1/traits', lookup, traitsRoutes(context.editions));
+  app.use('/api/v1/compare', lookup, compareRoutes(context.editions));
   app.use('/api/v1/editions', editionRoutes(context));
   app.use('/api/v1/curation/imports', importRoutes(context));
   app.use('/api/v1/curation', curationRoutes(context));

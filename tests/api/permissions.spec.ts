@@ -105,6 +105,7 @@ describe('api: permission table (every route × every caller)', function () {
     { operation: 'GET /api/v1/taxa', scope: 'lookup', prepare: () => ({ url: '/api/v1/taxa' }), expect: openButKeysNeedScope(200) },
     { operation: 'GET /api/v1/taxa/{id}', scope: 'lookup', prepare: () => ({ url: '/api/v1/taxa/pinus-taeda' }), expect: openButKeysNeedScope(200) },
     { operation: 'GET /api/v1/traits', scope: 'lookup', prepare: () => ({ url: '/api/v1/traits' }), expect: openButKeysNeedScope(200) },
+    { operation: 'POST /api/v1/compare', scope: 'lookup', prepare: () => ({ url: '/api/v1/compare', body: { taxa: ['pinus-taeda', 'pinus-echinata'] } }), expect: openButKeysNeedScope(200) },
     { operation: 'GET /api/v1/editions', scope: 'lookup', prepare: () => ({ url: '/api/v1/editions' }), expect: openButKeysNeedScope(200) },
     { operation: 'GET /api/v1/editions/{number}', scope: 'lookup', prepare: () => ({ url: '/api/v1/editions/1' }), expect: openButKeysNeedScope(200) },
     { operation: 'GET /api/v1/editions/current/bundle', scope: 'lookup', prepare: () => ({ url: '/api/v1/editions/current/bundle' }), expect: openButKeysNeedScope(200) },

@@ -1,9 +1,11 @@
+import { compare, diagnose } from '@shared/engine';
 import type { Models } from '../db/models';
-import type { EditionCatalog } from '../editions/edition-catalog';
+import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog';
 import { problems } from '../http/problem';
 import { listPhotos } from '../uploads/photo-store';
 import { photoView, type PhotoView } from '../uploads/photo-urls';
 import { GENERAL_CAUTIONS } from './cautions';
+import { cellInWords } from './cell-words';
 import { searchTaxa } from './taxon-search';
 import { codedTraits, taxonReference, taxonSummary, type CodedTrait, type TaxonSummary } from './taxon-views';
 
@@ -31,9 +33,55 @@ export interface TaxonDetail {
   };
   traits: CodedTrait[];
   lookAlikes: Array<{ id: string; scientificName: string; commonNames: string[] }>;
+  /** the traits that tell this taxon from its look-alikes; null when it has none in the edition */
+  diagnostic: Diagnostic | null;
   photos: PhotoView[];
   cautions: string[];
   generalCautions: readonly string[];
+}
+
+export interface Diagnostic {
+  traits: Array<{
+    trait: string;
+    label: string;
+    /** the look-alikes this trait sets the taxon apart from (those not already set apart by an earlier trait) */
+    separates: string[];
+    text: string;
+    /** this taxon's coding, in words */
+    coded: string;
+    /** how each look-alike is coded on this trait, and whether the trait tells it apart */
+    lookAlikes: Array<{ id: string; coded: string; separated: boolean }>;
+  }>;
+  /** look-alikes that no trait of the edition tells apart */
+  unseparated: string[];
+}
+
+/** A small set of traits that tells the taxon from its look-alikes, each with how every look-alike differs. */
+function diagnoseAmongLookAlikes(edition: LoadedEdition, taxonId: string, lookAlikeIds: string[]): Diagnostic | null {
+  if (lookAlikeIds.length === 0) return null;
+  const compiled = edition.compiled;
+  const diagnosis = diagnose(compiled, taxonId, lookAlikeIds);
+  // each look-alike side by side with the taxon: the cells as the engine weighs them, and which traits tell the pair apart
+  const pairs = new Map(
+    lookAlikeIds.map((id) => {
+      const pair = compare(compiled, [taxonId, id]);
+      const cells = new Map([...pair.separating, ...pair.overlapping, ...pair.same, ...pair.notCoded].map((entry) => [entry.trait, entry.cells]));
+      return [id, { cells, separating: new Set(pair.separating.map((entry) => entry.trait)) }];
+    }),
+  );
+  return {
+    traits: diagnosis.traits.map((chosen) => {
+      const trait = edition.traitsByCode.get(chosen.trait)!;
+      // the taxon's own cell is in every pair; take it from the first
+      const coded = (id: string) => cellInWords(trait, pairs.get(id === taxonId ? lookAlikeIds[0]! : id)?.cells.get(chosen.trait)?.[id] ?? 'unknown');
+      return {
+        ...chosen,
+        coded: coded(taxonId),
+        lookAlikes: lookAlikeIds.map((id) => ({ id, coded: coded(id), separated: pairs.get(id)?.separating.has(chosen.trait) ?? false })),
+      };
+    }),
+    unseparated: diagnosis.unseparated,
+  };
 }
 
 /** Finds published taxa by name, one page at a time. */
@@ -73,6 +121,7 @@ export async function describePublishedTaxon(deps: LookupDeps, id: string): Prom
     },
     traits: codedTraits(taxon, edition.document.traits),
     lookAlikes,
+    diagnostic: diagnoseAmongLookAlikes(edition, taxon.id, lookAlikes.map((other) => other.id)),
     photos: photos.map(photoView),
     cautions: taxon.cautions ?? [],
     generalCautions: GENERAL_CAUTIONS,
