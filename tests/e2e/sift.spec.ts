@@ -200,7 +200,10 @@ describe('e2e: sifting a tree', function () {
       const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
       expect(overflow, `${name} overflows by ${overflow}px`).to.be.at.most(0);
       await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}.png`), fullPage: false });
-      await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-full.png`), fullPage: true });
+      await page.locator('.results').screenshot({ path: path.join(SCREENSHOT_DIR, `${name}-results.png`) });
+      await page.goto(`${running.baseUrl}/species/pinus-taeda`);
+      await page.locator('h1', { hasText: 'Loblolly pine' }).waitFor();
+      await page.screenshot({ path: path.join(SCREENSHOT_DIR, `${name.replace('sift', 'species')}.png`), fullPage: false });
       await context.close();
     }
   });

@@ -25,7 +25,7 @@ import { EditionService } from '../core/edition/edition-service';
       @if (editions.newerEdition(); as newer) {
         <span class="newer">
           Edition {{ newer }} is published.
-          <button mat-button type="button" (click)="editions.load()">Load edition {{ newer }}</button>
+          <button mat-button type="button" (click)="editions.load(true)">Load edition {{ newer }}</button>
         </span>
       }
     </div>

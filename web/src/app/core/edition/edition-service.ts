@@ -64,10 +64,15 @@ export class EditionService {
     this.load();
   }
 
-  /** (Re)downloads the current bundle; the previous edition stays in use until the new one decodes. */
-  load(): void {
+  /**
+   * (Re)downloads the current bundle; the previous edition stays in use until the new one decodes.
+   * `revalidate` asks the server past any cached copy (the bundle is cached for a few minutes), as
+   * when a newer edition has been announced.
+   */
+  load(revalidate = false): void {
     if (this.#state().status !== 'ready') this.#state.set({ status: 'loading' });
-    this.#http.get(BUNDLE_URL, { observe: 'response', responseType: 'arraybuffer' }).subscribe({
+    const cache: RequestCache = revalidate ? 'no-cache' : 'default';
+    this.#http.get(BUNDLE_URL, { observe: 'response', responseType: 'arraybuffer', cache }).subscribe({
       next: (response) => {
         try {
           const body = response.body;
@@ -95,7 +100,7 @@ export class EditionService {
   checkForNewerEdition(): void {
     const loaded = this.edition()?.number;
     if (loaded === null || loaded === undefined) return;
-    this.#http.get<unknown>(EDITIONS_URL).subscribe({
+    this.#http.get<unknown>(EDITIONS_URL, { cache: 'no-cache' }).subscribe({
       next: (body) => {
         const current = typeof body === 'object' && body !== null ? (body as Record<string, unknown>)['current'] : undefined;
         if (typeof current === 'number' && current > loaded) this.#newerEdition.set(current);

@@ -22,7 +22,7 @@ import { describeObservation } from '../../shared/matrix-words';
     @if (items().length === 0) {
       <p class="empty">Nothing yet. Pick what you can see below — in any order; several chips on one trait mean “one of these”.</p>
     } @else {
-      <mat-chip-set aria-labelledby="seen-heading" class="seen">
+      <mat-chip-set aria-labelledby="seen-heading" class="seen sv-wrapping-chips">
         @for (item of items(); track item.trait) {
           <mat-chip (removed)="remove.emit(item.trait)" [attr.data-trait]="item.trait">
             <span class="seen-label">{{ item.label }}:</span> {{ item.value }}

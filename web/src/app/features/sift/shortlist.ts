@@ -1,14 +1,16 @@
-import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, input, output, signal } from '@angular/core';
 import { RouterLink } from '@angular/router';
 import { DecimalPipe, PercentPipe } from '@angular/common';
 import { MatExpansionPanel, MatExpansionPanelContent, MatExpansionPanelHeader, MatExpansionPanelTitle } from '@angular/material/expansion';
 import { MatCheckbox } from '@angular/material/checkbox';
 import { MatButtonToggle, MatButtonToggleGroup } from '@angular/material/button-toggle';
+import { MatButton } from '@angular/material/button';
 import type { CompiledMatrix } from '@shared/engine/compiled';
 import type { Candidate, RankResult, Reason, ReasonStatus } from '@shared/engine/types';
 import { commonName } from '../../shared/matrix-words';
 
 export const MAX_SIDE_BY_SIDE = 4;
+const FIRST_FEW = 10;
 
 const REASON_GROUPS: ReadonlyArray<{ status: ReasonStatus; label: string }> = [
   { status: 'matched', label: 'Matched' },
@@ -57,6 +59,7 @@ function viewOf(compiled: CompiledMatrix, candidate: Candidate): CandidateView {
     MatCheckbox,
     MatButtonToggleGroup,
     MatButtonToggle,
+    MatButton,
   ],
   templateUrl: './shortlist.html',
   styleUrl: './shortlist.scss',
@@ -72,6 +75,10 @@ export class Shortlist {
   readonly chosenChange = output<string[]>();
 
   protected readonly leewayChoices = [0, 1, 2, 3];
+  /** a phone screen shows the first few; the rest are one tap away */
+  protected readonly showAll = signal(false);
+  protected readonly firstFew = FIRST_FEW;
+  protected readonly visible = computed(() => (this.showAll() ? this.candidates() : this.candidates().slice(0, FIRST_FEW)));
   protected readonly maxChosen = MAX_SIDE_BY_SIDE;
   protected readonly candidates = computed(() => this.result().candidates.map((candidate) => viewOf(this.compiled(), candidate)));
   protected readonly ruledOut = computed(() => this.result().ruledOut.map((candidate) => viewOf(this.compiled(), candidate)));

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, linkedSignal, signal, untracked, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, type ElementRef, computed, effect, inject, input, linkedSignal, signal, untracked, viewChild } from '@angular/core';
 import { ActivatedRoute, Router } from '@angular/router';
 import { MatButtonToggle, MatButtonToggleGroup } from '@angular/material/button-toggle';
 import { MatSnackBar } from '@angular/material/snack-bar';
@@ -9,6 +9,7 @@ import { rank, suggest } from '@shared/engine';
 import type { Observation, ObservingSeason } from '@shared/engine/types';
 import { EditionService } from '../../core/edition/edition-service';
 import { IDENTIFICATION_CAUTION } from '../../core/layout/cautions';
+import { commonName } from '../../shared/matrix-words';
 import { EditionStatus } from '../../shared/edition-status';
 import { LookAtNext } from './look-at-next';
 import { SeenSoFar } from './seen-so-far';
@@ -106,6 +107,19 @@ export default class SiftPage {
 
   protected readonly skipped = computed(() => this.outcome()?.ranked.skipped ?? []);
 
+  /** The first three of the shortlist in a line, for narrow screens where the list sits far below. */
+  protected readonly leaders = computed(() => {
+    const compiled = this.compiled();
+    const outcome = this.outcome();
+    if (!compiled || !outcome || this.observations().length === 0) return null;
+    const top = outcome.ranked.candidates.slice(0, 3).map((candidate) => {
+      const taxon = compiled.taxa[compiled.taxonIndexById.get(candidate.taxonId) ?? 0];
+      return `${commonName(taxon)} ${Math.round(candidate.probability * 100)}%`;
+    });
+    return top.length > 0 ? top.join(' · ') : null;
+  });
+  private readonly results = viewChild<ElementRef<HTMLElement>>('results');
+
   constructor() {
     // The sift lives in the URL (shareable, and the back button steps through it) and on the device.
     effect(() => {
@@ -160,8 +174,9 @@ export default class SiftPage {
     this.picker()?.reveal(trait);
   }
 
-  protected startOver(): void {
-    this.observations.set([]);
-    this.sideBySide.set([]);
+  protected showShortlist(): void {
+    const results = this.results()?.nativeElement;
+    results?.scrollIntoView({ block: 'start' });
+    results?.querySelector<HTMLElement>('#shortlist-heading')?.focus();
   }
 }

@@ -1,0 +1,116 @@
+import { expect } from 'chai';
+import type { Browser } from 'playwright-core';
+import { launchBrowser, requireChromium } from './support/browser';
+import { startBuiltApp, type RunningApp } from './support/server';
+import { waitForSift } from './support/sift-page';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
+
+function demoAccount(role: string) {
+  const account = DEMO_ACCOUNTS.find((candidate) => candidate.role === role);
+  if (!account) throw new Error(`no demo ${role}`);
+  return account;
+}
+
+describe('e2e: accounts and edition updates', function () {
+  this.timeout(90_000);
+  let browser: Browser;
+  let running: RunningApp;
+
+  before(async function () {
+    requireChromium(this);
+    running = await startBuiltApp();
+    browser = await launchBrowser();
+  });
+
+  after(async () => {
+    await browser?.close();
+    await running?.stop();
+  });
+
+  it('guards the account page, signs up a learner, shows who is signed in and signs out', async () => {
+    const context = await browser.newContext({ serviceWorkers: 'block' });
+    const page = await context.newPage();
+    await page.goto(`${running.baseUrl}/account`);
+    await page.waitForURL(/\/sign-in\?next=%2Faccount$/);
+    await page.getByRole('link', { name: 'Create an account' }).click();
+    await page.getByLabel('Name shown to others').fill('Wren Hollis');
+    await page.getByLabel('E-mail').fill('wren.hollis@example.invalid');
+    // Too short a password is refused in the form before anything is sent.
+    await page.getByLabel('Password').fill('short');
+    await page.getByRole('button', { name: 'Create account' }).click();
+    await page.getByText('Use at least 10 characters.').waitFor();
+    await page.getByLabel('Password').fill('a long enough field password');
+    await page.getByRole('button', { name: 'Create account' }).click();
+    await page.waitForURL(/\/account$/);
+    await page.locator('.role').first().waitFor();
+    expect(await page.locator('.facts .role').textContent()).to.equal('learner');
+    expect((await page.locator('header .account-link').textContent())?.replace(/\s+/g, ' ').trim()).to.equal('account_circle Wren Hollis · learner');
+
+    await page.getByRole('button', { name: 'Sign out' }).click();
+    await page.waitForURL(`${running.baseUrl}/`);
+    await page.locator('header a', { hasText: 'Sign in' }).waitFor();
+    // Signing up again with the same address is refused with the server's reason, in words.
+    await page.goto(`${running.baseUrl}/sign-up`);
+    await page.getByLabel('Name shown to others').fill('Wren Hollis');
+    await page.getByLabel('E-mail').fill('wren.hollis@example.invalid');
+    await page.getByLabel('Password').fill('a long enough field password');
+    await page.getByRole('button', { name: 'Create account' }).click();
+    const problem = page.getByRole('alert');
+    await problem.waitFor();
+    // The problem+json detail is shown as is, not a status code.
+    expect((await problem.textContent())?.trim()).to.equal('An account with this e-mail address exists already.');
+    await context.close();
+  });
+
+  it('refuses a wrong password with a readable message and signs a curator in', async () => {
+    const context = await browser.newContext({ serviceWorkers: 'block' });
+    const page = await context.newPage();
+    const curator = demoAccount('curator');
+    await page.goto(`${running.baseUrl}/sign-in`);
+    await page.getByLabel('E-mail').fill(curator.email);
+    await page.getByLabel('Password').fill('not the password at all');
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    const problem = page.getByRole('alert');
+    await problem.waitFor();
+    expect(await problem.textContent()).to.match(/password is wrong/);
+
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL(/\/account$/);
+    await page.locator('.facts .role').waitFor();
+    expect(await page.locator('.facts .role').textContent()).to.equal('curator');
+    expect((await page.locator('header .account-link').textContent())?.replace(/\s+/g, ' ').trim()).to.equal(`account_circle ${curator.displayName} · curator`);
+    await context.close();
+  });
+
+  it('offers a newly published edition to an open sift and loads it', async () => {
+    const context = await browser.newContext({ serviceWorkers: 'block', viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    await page.goto(`${running.baseUrl}/sift?o=needles-per-fascicle:5&season=leaf-on&leeway=2`);
+    await waitForSift(page);
+    const status = page.locator('sv-edition-status');
+    const { current } = (await (await page.request.get(`${running.baseUrl}/api/v1/editions`)).json()) as { current: number };
+    expect((await status.textContent())?.replace(/\s+/g, ' ')).to.contain(`Edition ${current}`);
+
+    const curator = demoAccount('curator');
+    const session = await page.request.post(`${running.baseUrl}/api/v1/sessions`, { data: { email: curator.email, password: DEMO_PASSWORD } });
+    expect(session.status()).to.equal(201);
+    const { token } = (await session.json()) as { token: string };
+    const published = await page.request.post(`${running.baseUrl}/api/v1/editions`, {
+      headers: { Authorization: `Bearer ${token}` },
+      data: { title: 'Eastern trees, spring check', reason: 'A new edition for the field client to pick up' },
+    });
+    expect(published.status(), await published.text()).to.equal(201);
+
+    // Coming back online is when the field client asks whether a newer edition is out.
+    await context.setOffline(true);
+    await context.setOffline(false);
+    const load = page.getByRole('button', { name: `Load edition ${current + 1}` });
+    await load.waitFor({ timeout: 10_000 });
+    await load.click();
+    await page.locator('sv-edition-status [data-state="online"]', { hasText: `Edition ${current + 1}` }).waitFor();
+    // The sift carries on with the same observations on the new edition.
+    await page.locator('sv-shortlist .candidates > .candidate:first-child[data-taxon="pinus-strobus"]').waitFor();
+    await context.close();
+  });
+});
