@@ -120,6 +120,22 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
       expect(res.body.changes).to.deep.equal([{ row: 10, taxon: 'pinus-taeda', trait: 'fall-color', before: { usual: ['none'] }, after: 'inapplicable' }]);
     });
 
+    it('reads a CSV that starts with a UTF-8 byte-order mark, as spreadsheet programs often write it', async () => {
+      // Unicode Standard ch. 23.8: U+FEFF at the start of a UTF-8 stream is a byte-order mark, not text
+      const withBom = Buffer.concat([Buffer.from([0xef, 0xbb, 0xbf]), Buffer.from(sheet('pinus-taeda,pith,continuous,,,,,,,'))]);
+      const res = await upload(curator, 'dry-run', withBom).expect(200);
+      expect(res.body.problems).to.deep.equal([]);
+      expect(res.body.rows).to.equal(1);
+    });
+
+    it('refuses text that is not UTF-8 as a problem at row 1', async () => {
+      const latin1 = Buffer.from(sheet('pinus-taeda,pith,continuous,,,,,,,') + 'caf\u00e9', 'latin1');
+      const res = await upload(curator, 'dry-run', latin1).expect(200);
+      expect(res.body.problems).to.have.length(1);
+      expect(res.body.problems[0]).to.deep.include({ row: 1, column: null });
+      expect(res.body.problems[0].message).to.contain('UTF-8');
+    });
+
     it('reports a header without all the layout columns at row 1', async () => {
       const res = await upload(curator, 'dry-run', 'taxon,trait,usual,occasional,rare,min,low,high,max\r\npinus-taeda,pith,continuous,,,,,,\r\n').expect(200);
       expect(res.body.problems).to.deep.equal([{ row: 1, column: 'state', message: 'The header has no "state" column.' }]);
@@ -219,6 +235,14 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
       expect(dryRun.body.changes).to.deep.equal([{ row: 4, taxon: 'pinus-echinata', trait: 'cone-length', before: { min: 4, low: 4, high: 6, max: 7 }, after: { min: 4, low: 4, high: 6, max: 7.5 } }]);
       await upload(curator, 'apply', xlsx, 'shortleaf.xlsx').expect(200);
       expect((await storedCell('pinus-echinata', 'cone-length'))?.value).to.deep.equal({ min: 4, low: 4, high: 6, max: 7.5 });
+    });
+
+    it('refuses a file that starts like a ZIP but is no workbook, naming row 1, and writes nothing', async () => {
+      const before = await snapshot();
+      const fake = Buffer.concat([Buffer.from([0x50, 0x4b, 0x03, 0x04]), Buffer.from('taxon,trait\r\nnot really a workbook')]);
+      const res = await upload(curator, 'apply', fake, 'cells.xlsx').expect(422);
+      expect(res.body.problems).to.deep.equal([{ row: 1, column: null, message: 'The file starts like an XLSX workbook but could not be read as one.' }]);
+      expect(await snapshot()).to.deep.equal(before);
     });
 
     it('refuses a sheet over 2 MB with 413 and writes nothing', async () => {
