@@ -66,6 +66,10 @@ describe('e2e: accessibility and performance', function () {
     // Flora of North America vol. 2, Pinus taeda: needles 3 per fascicle (from memory).
     expect(await page.locator('.traits .row[data-trait="needles-per-fascicle"] dd').textContent()).to.match(/3 per bundle/);
     expect(await page.locator('.cautions li').count()).to.be.greaterThan(1);
+    // Flora of North America vol. 2: P. taeda has 3 needles per fascicle and prickly cone scales,
+    // P. strobus 5 needles and unarmed cones (from memory), so some coded trait must tell them apart.
+    expect(await page.locator('.diagnostic ol li').count()).to.be.greaterThan(0);
+    expect(await page.locator('.diagnostic ol').textContent()).to.contain('Eastern white pine');
     expect(await seriousViolations(page)).to.deep.equal([]);
     await context.close();
   });

@@ -168,6 +168,8 @@ describe('e2e: sifting a tree', function () {
     const firstOther = verdicts.findIndex((verdict) => verdict !== 'separates');
     if (firstOther >= 0) expect(verdicts.slice(firstOther)).to.not.include('separates');
     expect(await page.locator('sv-side-by-side thead th').allTextContents()).to.include.members(['Loblolly pine', 'Pitch pine']);
+    fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
+    await page.locator('sv-side-by-side').screenshot({ path: path.join(SCREENSHOT_DIR, 'sift-side-by-side.png') });
     for (const code of ['needle-length', 'cone-length']) {
       expect(await page.locator(`sv-side-by-side tbody tr[data-trait="${code}"]`).getAttribute('data-verdict')).to.be.oneOf(['separates', 'overlaps']);
     }
@@ -184,6 +186,34 @@ describe('e2e: sifting a tree', function () {
     await page.locator('sv-seen-so-far mat-chip').first().waitFor();
     await waitForLeader(page, 'pinus-strobus');
     await page.context().close();
+  });
+
+  it('shows the loading, download-failed and no-match states', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
+    const page = await context.newPage();
+    let failing = true;
+    await page.route('**/api/v1/editions/current/bundle', async (route) => {
+      if (!failing) return route.continue();
+      // Hold the answer a moment so the loading state can be seen, then fail as a down API would.
+      await new Promise((resolve) => setTimeout(resolve, 400));
+      return route.fulfill({
+        status: 503,
+        contentType: 'application/problem+json',
+        body: JSON.stringify({ type: 'about:blank', title: 'Service unavailable', status: 503, detail: 'The API is down for maintenance.' }),
+      });
+    });
+    await page.goto(`${running.baseUrl}/sift?o=needles-per-fascicle:5;cone-length:30cm&season=leaf-on&leeway=0`);
+    await page.getByText('Downloading the current edition').waitFor();
+    const alert = page.getByRole('alert');
+    await alert.waitFor();
+    expect(await alert.textContent()).to.contain('The API is down for maintenance.');
+    failing = false;
+    await page.getByRole('button', { name: 'Try again' }).click();
+    // Flora of North America vol. 2: Pinus strobus, the one five-needled pine here, has cones 8–20 cm
+    // (from memory); a 30 cm cone fits no species without a conflict.
+    await page.getByText('No species fits with a leeway of 0.').waitFor();
+    expect(await page.locator('.ruled-out-title').textContent()).to.match(/Ruled out \(\d+\)/);
+    await context.close();
   });
 
   it('renders at phone and desktop widths', async () => {

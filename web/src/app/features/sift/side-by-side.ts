@@ -24,7 +24,7 @@ const VERDICT_LABELS: Readonly<Record<ComparisonVerdict, string>> = {
     </div>
     @if (ids().length < 2) {
       <p class="empty">Tick “Side by side” on two to four species of the shortlist to see every trait where they differ.</p>
-    } @else if (comparison(); as result) {
+    } @else if (comparison()) {
       <div class="table-scroll" tabindex="0" role="region" aria-labelledby="side-heading">
         <table>
           <caption>
@@ -53,7 +53,7 @@ const VERDICT_LABELS: Readonly<Record<ComparisonVerdict, string>> = {
           </tbody>
         </table>
       </div>
-      @if (result.same.length > 0) {
+      @if (sameLabels()) {
         <p class="same">Coded the same for all: {{ sameLabels() }}.</p>
       }
     }
@@ -137,7 +137,13 @@ export class SideBySide {
     return [...result.separating, ...result.overlapping, ...result.notCoded].map(toRow);
   });
 
-  protected readonly sameLabels = computed(() => (this.comparison()?.same ?? []).map((comparison) => comparison.label).join(', '));
+  /** Traits coded alike for all; ones that apply to none of them (leaf shape on pines) are left out. */
+  protected readonly sameLabels = computed(() =>
+    (this.comparison()?.same ?? [])
+      .filter((comparison) => Object.values(comparison.cells).some((cell) => cell !== 'inapplicable'))
+      .map((comparison) => comparison.label)
+      .join(', '),
+  );
 
   protected verdictLabel(verdict: ComparisonVerdict): string {
     return VERDICT_LABELS[verdict];

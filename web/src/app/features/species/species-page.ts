@@ -89,8 +89,16 @@ export default class SpeciesPage {
     };
     return {
       among: among.map((id) => ({ id, name: nameOf(id) })),
-      traits: result.traits.map((trait) => ({ ...trait, separatesNames: trait.separates.map(nameOf).join(', ') })),
-      unseparated: result.unseparated.map((id) => ({ id, name: nameOf(id) })),
+      traits: result.traits.map((diagnostic) => {
+        const trait = compiled.traits[compiled.traitIndexByCode.get(diagnostic.trait) ?? 0];
+        return {
+          trait: diagnostic.trait,
+          label: diagnostic.label,
+          here: describeCell(trait, cellOf(compiled, taxon.id, diagnostic.trait)),
+          separatesNames: diagnostic.separates.map(nameOf).join(', '),
+        };
+      }),
+      unseparated: result.unseparated.map(nameOf).join(', '),
     };
   });
 
