@@ -5,7 +5,7 @@ import { expect } from 'chai';
 import { AxeBuilder } from '@axe-core/playwright';
 import type { Browser, Page } from 'playwright-core';
 import { launchBrowser, requireChromium } from './support/browser';
-import { WEB_ROOT, startBuiltApp, type RunningApp } from './support/server';
+import { SCREENSHOT_DIR, WEB_ROOT, startBuiltApp, type RunningApp } from './support/server';
 import { openPart, tapChip, waitForSift } from './support/sift-page';
 
 async function seriousViolations(page: Page): Promise<string[]> {
@@ -47,6 +47,8 @@ describe('e2e: accessibility and performance', function () {
     await page.locator('sv-shortlist .why mat-expansion-panel-header').first().click();
     await page.locator('sv-shortlist .reasons li').first().waitFor();
     expect(await seriousViolations(page)).to.deep.equal([]);
+    fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
+    await page.locator('sv-trait-picker .trait').first().screenshot({ path: path.join(SCREENSHOT_DIR, 'sift-help-card.png') });
 
     // Full keyboard use: Tab reaches a chip, Space picks it, and focus is visible (common practice, no source).
     const chip = page.locator('#chip-bark-texture-plated [role="option"]');

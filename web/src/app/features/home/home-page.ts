@@ -1,12 +1,14 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
-import { MatCard, MatCardAvatar, MatCardContent, MatCardHeader, MatCardTitle } from '@angular/material/card';
+import { RouterLink } from '@angular/router';
+import { MatCard, MatCardActions, MatCardAvatar, MatCardContent, MatCardHeader, MatCardTitle } from '@angular/material/card';
+import { MatAnchor } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { HealthService } from '../../core/api/health-service';
 
 @Component({
   selector: 'sv-home-page',
-  imports: [MatCard, MatCardAvatar, MatCardHeader, MatCardTitle, MatCardContent, MatIcon, MatProgressBar],
+  imports: [RouterLink, MatCard, MatCardAvatar, MatCardHeader, MatCardTitle, MatCardContent, MatCardActions, MatAnchor, MatIcon, MatProgressBar],
   templateUrl: './home-page.html',
   styleUrl: './home-page.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
