@@ -8,6 +8,7 @@ import { MatButton } from '@angular/material/button';
 import type { CompiledMatrix } from '@shared/engine/compiled';
 import type { Candidate, RankResult, Reason, ReasonStatus } from '@shared/engine/types';
 import { commonName } from '../../shared/matrix-words';
+import { MAX_LEEWAY } from './sift-query';
 
 export const MAX_SIDE_BY_SIDE = 4;
 const FIRST_FEW = 10;
@@ -74,7 +75,7 @@ export class Shortlist {
   readonly leewayChange = output<number>();
   readonly chosenChange = output<string[]>();
 
-  protected readonly leewayChoices = [0, 1, 2, 3];
+  protected readonly leewayChoices = Array.from({ length: MAX_LEEWAY + 1 }, (_, leeway) => leeway);
   /** a phone screen shows the first few; the rest are one tap away */
   protected readonly showAll = signal(false);
   protected readonly firstFew = FIRST_FEW;

@@ -4,12 +4,14 @@
  * Invariant: `formatObservations(parseObservations(text, compiled), compiled)` is `text` with only
  * the observations this edition knows, in the order written, so a shared link reads the same.
  */
+import { RANK_DEFAULTS } from '@shared/engine';
 import type { CompiledMatrix, CompiledTrait } from '@shared/engine/compiled';
 import type { LengthUnit, Observation, ObservingSeason } from '@shared/engine/types';
 
 export const DEFAULT_SEASON: ObservingSeason = 'leaf-on';
-export const DEFAULT_LEEWAY = 2;
-export const MAX_LEEWAY = 5;
+/** the engine's own default, so a link without `leeway` ranks as the API does */
+export const DEFAULT_LEEWAY = RANK_DEFAULTS.leeway;
+export const MAX_LEEWAY = 3;
 
 /** What the URL (and the saved last sift) holds. */
 export interface SiftQuery {
