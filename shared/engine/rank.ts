@@ -108,10 +108,11 @@ export function reasonsFor(compiled: CompiledMatrix, prepared: readonly Prepared
     const pattern = compiled.cellPattern[observation.trait.index * compiled.taxonCount + t];
     let reason = byPattern.get(pattern);
     if (!reason) {
-      reason = setReason(compiled, observation, t);
+      // frozen, so taxa with the same coding can share one reason object safely
+      reason = Object.freeze(setReason(compiled, observation, t));
       byPattern.set(pattern, reason);
     }
-    return { ...reason };
+    return reason;
   });
 }
 
@@ -129,28 +130,40 @@ function before(scored: Scored, a: number, b: number): boolean {
 /** above this limit a full sort beats keeping a sorted short list */
 const INSERTION_LIMIT = 64;
 
-/** The best `limit` taxa passing `accept`, best first, plus how many passed in all. */
-export function selectBest(scored: Scored, limit: number, accept: (t: number) => boolean): { best: number[]; total: number } {
-  const n = scored.logPosterior.length;
-  if (limit > INSERTION_LIMIT) {
-    const all: number[] = [];
-    for (let t = 0; t < n; t++) if (accept(t)) all.push(t);
-    all.sort((a, b) => (before(scored, a, b) ? -1 : before(scored, b, a) ? 1 : 0));
-    return { best: all.slice(0, limit), total: all.length };
+/** The best `limit` taxa offered, best first; most offers are turned away by one comparison. */
+class BestList {
+  readonly items: number[] = [];
+  total = 0;
+  private worst = -Infinity;
+  constructor(
+    private readonly scored: Scored,
+    private readonly limit: number,
+  ) {}
+
+  offer(t: number): void {
+    this.total++;
+    const items = this.items;
+    if (this.limit > INSERTION_LIMIT) {
+      items.push(t);
+      return;
+    }
+    if (items.length === this.limit && (this.limit === 0 || this.scored.logPosterior[t] < this.worst)) return;
+    if (items.length === this.limit && !before(this.scored, t, items[items.length - 1])) return;
+    let at = items.length;
+    while (at > 0 && before(this.scored, t, items[at - 1])) at--;
+    items.splice(at, 0, t);
+    if (items.length > this.limit) items.pop();
+    this.worst = this.scored.logPosterior[items[items.length - 1]];
   }
-  const best: number[] = [];
-  let total = 0;
-  for (let t = 0; t < n; t++) {
-    if (!accept(t)) continue;
-    total++;
-    if (best.length === limit && (limit === 0 || !before(scored, t, best[best.length - 1]))) continue;
-    let at = best.length;
-    while (at > 0 && before(scored, t, best[at - 1])) at--;
-    best.splice(at, 0, t);
-    if (best.length > limit) best.pop();
+
+  best(): number[] {
+    if (this.limit <= INSERTION_LIMIT) return this.items;
+    return this.items.sort((a, b) => (before(this.scored, a, b) ? -1 : before(this.scored, b, a) ? 1 : 0)).slice(0, this.limit);
   }
-  return { best, total };
 }
+
+/** The best `limit` taxa within the leeway and the best `limit` beyond it, in one pass. */
+
 
 function toCandidate(compiled: CompiledMatrix, scored: Scored, prepared: readonly PreparedObservation[], t: number, cache: ReasonCache): Candidate {
   return {
@@ -170,17 +183,22 @@ export function rank(compiled: CompiledMatrix, observations: readonly Observatio
   const leeway = resolveCount('leeway', options.leeway, RANK_DEFAULTS.leeway);
   const limit = resolveCount('limit', options.limit, RANK_DEFAULTS.limit);
   const prepared = prepareObservations(compiled, observations);
-  const scored = scoreObservations(compiled, prepared, options.priors);
-  const kept = selectBest(scored, limit, (t) => scored.conflicts[t] <= leeway);
-  const dropped = selectBest(scored, limit, (t) => scored.conflicts[t] > leeway);
+  let lists: { kept: BestList; dropped: BestList } | undefined;
+  const scored = scoreObservations(compiled, prepared, options.priors, false, (t, partial) => {
+    lists ??= { kept: new BestList(partial, limit), dropped: new BestList(partial, limit) };
+    if (partial.conflicts[t] <= leeway) lists.kept.offer(t);
+    else lists.dropped.offer(t);
+  });
+  const kept = lists?.kept ?? new BestList(scored, limit);
+  const dropped = lists?.dropped ?? new BestList(scored, limit);
   const skipped = [...scored.skipped.entries()].map(([index, cause]) => {
     const observation = prepared.find((item) => item.index === index)!;
     return { trait: observation.trait.code, reason: reasonTexts.skipped(compiled, observation.trait, cause) };
   });
   const cache: ReasonCache = new Map();
   return {
-    candidates: kept.best.map((t) => toCandidate(compiled, scored, prepared, t, cache)),
-    ruledOut: dropped.best.map((t) => toCandidate(compiled, scored, prepared, t, cache)),
+    candidates: kept.best().map((t) => toCandidate(compiled, scored, prepared, t, cache)),
+    ruledOut: dropped.best().map((t) => toCandidate(compiled, scored, prepared, t, cache)),
     skipped,
     totalCandidates: kept.total,
     totalRuledOut: dropped.total,

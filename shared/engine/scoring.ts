@@ -18,12 +18,12 @@ export interface SkipCause {
 export interface Scored {
   /** unnormalised log posterior per taxon */
   logPosterior: Float64Array;
-  /** normalised posterior per taxon (0 where negligible; see exactProbability) */
+  /** normalised posterior per taxon (0 where negligible; see exactProbability); empty when not asked for */
   probability: Float64Array;
   maxLog: number;
   logTotal: number;
   /** observed traits conflicting with each taxon's coding */
-  conflicts: Uint16Array;
+  conflicts: Uint8Array | Uint16Array;
   /** observations that were scored */
   active: PreparedObservation[];
   /** observation index → why it was set aside */
@@ -149,13 +149,16 @@ export function regionLikelihood(region: MeasureRegion, errorRate: number): numb
   }
 }
 
-function addMeasure(compiled: CompiledMatrix, observation: PreparedMeasure, logPosterior: Float64Array, conflicts: Uint16Array): void {
+function addMeasure(compiled: CompiledMatrix, observation: PreparedMeasure, logPosterior: Float64Array, conflicts: Uint8Array | Uint16Array, weights: Float64Array | undefined): void {
   const n = compiled.taxonCount;
   const e = observation.trait.errorRate;
   // indexed by region: 0 typical, 1 extreme, 2 outside
   const regionLogs = new Float64Array([Math.log(MODEL.typicalScore), Math.log(MODEL.extremeScore), Math.log(e)]);
+  const regionScores = new Float64Array([MODEL.typicalScore, MODEL.extremeScore, e]);
   const logUnknown = Math.log(MODEL.unknownNumericScore);
   const logOutside = regionLogs[2];
+  // with no linear weights to keep, multiply a scratch array instead of branching in the loop
+  const linear = weights ?? new Float64Array(n);
   const columnBase = observation.trait.index * n;
   const block = observation.trait.numericIndex * 4 * n;
   const minBase = block + RangeField.Min * n;
@@ -173,103 +176,204 @@ function addMeasure(compiled: CompiledMatrix, observation: PreparedMeasure, logP
       const extreme = +(x >= ranges[minBase + t]) & +(x <= ranges[maxBase + t]);
       const region = 2 - extreme - typical;
       logPosterior[t] += regionLogs[region];
+      linear[t] *= regionScores[region];
       conflicts[t] += region >>> 1;
     } else if (pattern === UNKNOWN_PATTERN) {
       logPosterior[t] += logUnknown;
+      linear[t] *= MODEL.unknownNumericScore;
     } else {
       logPosterior[t] += logOutside;
+      linear[t] *= e;
       conflicts[t]++;
     }
   }
 }
 
+/** observations added per pass over the taxa */
+const GROUP = 5;
+
 /**
- * Adds every set observation in one pass over the taxa, two columns at a time: each taxon's running
- * sum is read and written once per pair instead of once per observation.
+ * Adds every set observation in as few passes over the taxa as possible, five columns at a time
+ * (a short last group is padded with a column of unknown cells that adds nothing): each taxon's
+ * running sum is read and written once per group instead of once per observation.
  */
-function addSets(compiled: CompiledMatrix, observations: readonly PreparedSet[], logPosterior: Float64Array, conflicts: Uint16Array): void {
+function addSets(compiled: CompiledMatrix, observations: readonly PreparedSet[], logPosterior: Float64Array, conflicts: Uint8Array | Uint16Array, weights: Float64Array | undefined): void {
   const n = compiled.taxonCount;
+  if (observations.length === 0) return;
   const columns = observations.map((observation) => compiled.cellPattern.subarray(observation.trait.index * n, (observation.trait.index + 1) * n));
   const tables = observations.map((observation) => setTables(compiled, observation));
-  let o = 0;
-  for (; o + 1 < observations.length; o += 2) {
-    const columnA = columns[o];
-    const columnB = columns[o + 1];
-    const logsA = tables[o].logs;
-    const logsB = tables[o + 1].logs;
-    const conflictA = tables[o].conflict;
-    const conflictB = tables[o + 1].conflict;
-    for (let t = 0; t < n; t++) {
-      const a = columnA[t];
-      const b = columnB[t];
-      logPosterior[t] += logsA[a] + logsB[b];
-      conflicts[t] += conflictA[a] + conflictB[b];
+  const padding = (GROUP - (observations.length % GROUP)) % GROUP;
+  if (padding > 0) {
+    const unknownColumn = new Uint16Array(n);
+    const nothing = { logs: new Float64Array(1), conflict: new Uint8Array(1), likelihood: new Float64Array([1]) };
+    for (let i = 0; i < padding; i++) {
+      columns.push(unknownColumn);
+      tables.push(nothing);
     }
   }
-  if (o < observations.length) {
-    const column = columns[o];
-    const { logs, conflict } = tables[o];
+  const linear = weights ?? new Float64Array(n);
+  for (let o = 0; o < columns.length; o += GROUP) {
+    const c0 = columns[o];
+    const c1 = columns[o + 1];
+    const c2 = columns[o + 2];
+    const c3 = columns[o + 3];
+    const c4 = columns[o + 4];
+    const l0 = tables[o].logs;
+    const l1 = tables[o + 1].logs;
+    const l2 = tables[o + 2].logs;
+    const l3 = tables[o + 3].logs;
+    const l4 = tables[o + 4].logs;
+    const m0 = tables[o].likelihood;
+    const m1 = tables[o + 1].likelihood;
+    const m2 = tables[o + 2].likelihood;
+    const m3 = tables[o + 3].likelihood;
+    const m4 = tables[o + 4].likelihood;
+    const f0 = tables[o].conflict;
+    const f1 = tables[o + 1].conflict;
+    const f2 = tables[o + 2].conflict;
+    const f3 = tables[o + 3].conflict;
+    const f4 = tables[o + 4].conflict;
     for (let t = 0; t < n; t++) {
-      const pattern = column[t];
-      logPosterior[t] += logs[pattern];
-      conflicts[t] += conflict[pattern];
+      const p0 = c0[t];
+      const p1 = c1[t];
+      const p2 = c2[t];
+      const p3 = c3[t];
+      const p4 = c4[t];
+      logPosterior[t] += l0[p0] + l1[p1] + l2[p2] + l3[p3] + l4[p4];
+      linear[t] *= m0[p0] * m1[p1] * m2[p2] * m3[p3] * m4[p4];
+      conflicts[t] += f0[p0] + f1[p1] + f2[p2] + f3[p3] + f4[p4];
     }
   }
 }
 
-/** Log weights more than this far below the best contribute less than 1e-21 each and are not exponentiated. */
-const NEGLIGIBLE_LOG_GAP = 50;
+/** Log weights more than this far below the best contribute less than 2e-16 of it each and are not exponentiated. */
+const NEGLIGIBLE_LOG_GAP = 36;
 
-export interface Normalised {
-  /** probability per taxon; exactly 0 where the log weight is negligible */
-  probability: Float64Array;
-  /** the largest log weight */
-  maxLog: number;
-  /** log of the normalising sum, relative to maxLog */
-  logTotal: number;
+/** The largest log weight and the log of Σ exp(weight − largest): all a ranking needs to normalise. */
+export function logNormaliser(logWeights: Float64Array, visit?: (t: number) => void): { maxLog: number; logTotal: number } {
+  const n = logWeights.length;
+  if (n === 0) return { maxLog: 0, logTotal: 0 };
+  let max = -Infinity;
+  for (let t = 0; t < n; t++) if (logWeights[t] > max) max = logWeights[t];
+  if (!Number.isFinite(max)) {
+    if (visit) for (let t = 0; t < n; t++) visit(t);
+    return { maxLog: 0, logTotal: Math.log(n) };
+  }
+  const floor = max - NEGLIGIBLE_LOG_GAP;
+  let total = 0;
+  // the visitor rides along this pass so a ranking reads each taxon's score once more, not twice
+  if (visit) {
+    for (let t = 0; t < n; t++) {
+      const log = logWeights[t];
+      if (log >= floor) total += Math.exp(log - max);
+      visit(t);
+    }
+  } else {
+    for (let t = 0; t < n; t++) {
+      const log = logWeights[t];
+      if (log >= floor) total += Math.exp(log - max);
+    }
+  }
+  return { maxLog: max, logTotal: Math.log(total) };
 }
 
 /**
- * Normalises log weights into probabilities that sum to 1 (max-shifted, so nothing overflows).
- * Math.exp is the dearest step of a ranking, so negligible weights are skipped; `exactProbability`
- * recovers their tiny values when a caller shows them.
+ * Probabilities that sum to 1 (max-shifted, so nothing overflows); weights more than
+ * NEGLIGIBLE_LOG_GAP below the best are 0 here, and `exactProbability` recovers their tiny values.
  */
-export function normalise(logWeights: Float64Array): Normalised {
+export function normalise(logWeights: Float64Array, normaliser = logNormaliser(logWeights)): Float64Array {
+  const { maxLog, logTotal } = normaliser;
   const n = logWeights.length;
   const probability = new Float64Array(n);
-  if (n === 0) return { probability, maxLog: 0, logTotal: 0 };
-  let max = -Infinity;
-  for (let t = 0; t < n; t++) if (logWeights[t] > max) max = logWeights[t];
-  if (!Number.isFinite(max)) return { probability: probability.fill(1 / n), maxLog: 0, logTotal: Math.log(n) };
-  const floor = max - NEGLIGIBLE_LOG_GAP;
-  let total = 0;
-  for (let t = 0; t < n; t++) {
-    const log = logWeights[t];
-    if (log < floor) continue;
-    const weight = Math.exp(log - max);
-    probability[t] = weight;
-    total += weight;
-  }
-  const scale = 1 / total;
-  for (let t = 0; t < n; t++) probability[t] *= scale;
-  return { probability, maxLog: max, logTotal: Math.log(total) };
+  const floor = maxLog - NEGLIGIBLE_LOG_GAP;
+  const shift = maxLog + logTotal;
+  for (let t = 0; t < n; t++) if (logWeights[t] >= floor) probability[t] = Math.exp(logWeights[t] - shift);
+  return probability;
 }
 
 /** The probability of one taxon, exact even where `normalise` left a negligible weight at 0. */
 export function exactProbability(scored: Scored, t: number): number {
-  if (!Number.isFinite(scored.maxLog)) return scored.probability[t];
-  return Math.exp(scored.logPosterior[t] - scored.maxLog - scored.logTotal);
+  // the log sum and the plain product of the same factors can differ in the last bit
+  return Math.min(1, Math.exp(scored.logPosterior[t] - scored.maxLog - scored.logTotal));
 }
 
 /** Scores prepared observations against every taxon. */
-export function scoreObservations(compiled: CompiledMatrix, prepared: readonly PreparedObservation[], priors?: Readonly<Record<string, number>>): Scored {
+/** Normalised prior weights (linear), cached like the log priors. */
+const defaultPriorWeights = new WeakMap<CompiledMatrix, Float64Array>();
+
+function priorWeights(compiled: CompiledMatrix, priors: Readonly<Record<string, number>> | undefined, logs: Float64Array): Float64Array {
+  const custom = priors !== undefined && Object.keys(priors).length > 0;
+  const cached = custom ? undefined : defaultPriorWeights.get(compiled);
+  if (cached) return cached;
+  const weights = Float64Array.from(logs, Math.exp);
+  if (!custom) defaultPriorWeights.set(compiled, weights);
+  return weights;
+}
+
+/**
+ * The smallest log weight any taxon could reach. Above LINEAR_SAFE_LOG the posterior weights are
+ * also kept as plain products, which normalise without a Math.exp per taxon; below it they could
+ * underflow, and the log sums alone are normalised.
+ */
+function lowestPossibleLog(compiled: CompiledMatrix, active: readonly PreparedObservation[], logPrior: Float64Array): number {
+  let lowest = 0;
+  for (const log of logPrior) if (log < lowest) lowest = log;
+  for (const observation of active) {
+    if (observation.kind === 'measure') {
+      lowest += Math.log(Math.min(MODEL.extremeScore, MODEL.unknownNumericScore, observation.trait.errorRate));
+      continue;
+    }
+    let smallest = Infinity;
+    const trait = observation.trait;
+    const row = compiled.likelihood.subarray(trait.likBase, trait.likBase + trait.patternCount * trait.answerCount);
+    for (const value of row) if (value < smallest) smallest = value;
+    lowest += Math.log(Math.min(1, smallest));
+  }
+  return lowest;
+}
+
+const LINEAR_SAFE_LOG = -600;
+
+/** Scores prepared observations against every taxon; `visit` is called for each taxon once its score is final. */
+export function scoreObservations(
+  compiled: CompiledMatrix,
+  prepared: readonly PreparedObservation[],
+  priors?: Readonly<Record<string, number>>,
+  withProbabilities = true,
+  visit?: (t: number, scored: Scored) => void,
+): Scored {
   const n = compiled.taxonCount;
-  const logPosterior = logPriors(compiled, priors).slice();
-  const conflicts = new Uint16Array(n);
+  const logPrior = logPriors(compiled, priors);
+  const logPosterior = logPrior.slice();
   const skipped = findSkipped(prepared);
+  // one byte per taxon is enough below 256 observations, and halves the traffic of counting
+  const conflicts = prepared.length < 256 ? new Uint8Array(n) : new Uint16Array(n);
   const active = prepared.filter((observation) => !skipped.has(observation.index));
-  addSets(compiled, active.filter((observation): observation is PreparedSet => observation.kind === 'set'), logPosterior, conflicts);
-  for (const observation of active) if (observation.kind === 'measure') addMeasure(compiled, observation, logPosterior, conflicts);
-  const { probability, maxLog, logTotal } = normalise(logPosterior);
-  return { logPosterior, probability, maxLog, logTotal, conflicts, active, skipped };
+  const linear = lowestPossibleLog(compiled, active, logPrior) > LINEAR_SAFE_LOG ? priorWeights(compiled, priors, logPrior).slice() : undefined;
+  addSets(compiled, active.filter((observation): observation is PreparedSet => observation.kind === 'set'), logPosterior, conflicts, linear);
+  for (const observation of active) if (observation.kind === 'measure') addMeasure(compiled, observation, logPosterior, conflicts, linear);
+  const scored: Scored = { logPosterior, probability: new Float64Array(0), maxLog: 0, logTotal: 0, conflicts, active, skipped };
+  if (linear && n > 0) {
+    let total = 0;
+    if (visit) {
+      for (let t = 0; t < n; t++) {
+        total += linear[t];
+        visit(t, scored);
+      }
+    } else {
+      for (let t = 0; t < n; t++) total += linear[t];
+    }
+    scored.logTotal = Math.log(total);
+    if (withProbabilities) {
+      const scale = 1 / total;
+      for (let t = 0; t < n; t++) linear[t] *= scale;
+      scored.probability = linear;
+    }
+    return scored;
+  }
+  const normaliser = logNormaliser(logPosterior, visit && ((t) => visit(t, scored)));
+  scored.maxLog = normaliser.maxLog;
+  scored.logTotal = normaliser.logTotal;
+  if (withProbabilities) scored.probability = normalise(logPosterior, normaliser);
+  return scored;
 }
