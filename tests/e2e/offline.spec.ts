@@ -1,7 +1,11 @@
+import crypto from 'node:crypto';
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import { expect } from 'chai';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { launchBrowser, requireChromium } from './support/browser';
-import { startBuiltApp, type RunningApp } from './support/server';
+import { WEB_ROOT, startBuiltApp, type RunningApp } from './support/server';
 import { openPart, seenSoFar, tapChip, waitForLeader, waitForSift } from './support/sift-page';
 
 /** Waits until a service worker controls the page and has the edition bundle in its data cache. */
@@ -99,5 +103,54 @@ describe('e2e: sifting offline', function () {
     await page.locator('h1', { hasText: 'Eastern white pine' }).waitFor();
     expect(await page.locator('.traits .row[data-trait="needles-per-fascicle"] dd').textContent()).to.match(/5 per bundle/);
     await context.setOffline(false);
+  });
+});
+
+describe('e2e: a new build of the app', function () {
+  this.timeout(90_000);
+  let browser: Browser;
+  let running: RunningApp;
+  let webRoot: string;
+
+  before(async function () {
+    requireChromium(this);
+    // A copy of the built app that the test can "redeploy" while a browser has the old one.
+    webRoot = fs.mkdtempSync(path.join(os.tmpdir(), 'sylvasift-web-'));
+    fs.cpSync(WEB_ROOT, webRoot, { recursive: true });
+    running = await startBuiltApp({ WEB_ROOT: webRoot });
+    browser = await launchBrowser();
+  });
+
+  after(async () => {
+    await browser?.close();
+    await running?.stop();
+    if (webRoot) fs.rmSync(webRoot, { recursive: true, force: true });
+  });
+
+  it('is offered to a page running the old one, which reloads into it', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    await page.goto(`${running.baseUrl}/sift`);
+    await waitForSift(page);
+    await waitForOfflineReady(page);
+
+    // Deploy: a changed index.html and a manifest listing its new hash, as `ng build` would write.
+    const index = path.join(webRoot, 'index.html');
+    const html = fs.readFileSync(index, 'utf8').replace('</body>', '<!-- build 2 --></body>');
+    fs.writeFileSync(index, html);
+    const manifestPath = path.join(webRoot, 'ngsw.json');
+    const manifest = JSON.parse(fs.readFileSync(manifestPath, 'utf8')) as { timestamp: number; hashTable: Record<string, string> };
+    manifest.timestamp += 1;
+    manifest.hashTable['/index.html'] = crypto.createHash('sha1').update(html).digest('hex');
+    fs.writeFileSync(manifestPath, JSON.stringify(manifest));
+
+    await page.reload();
+    const reload = page.getByRole('button', { name: 'Reload' });
+    await reload.waitFor({ timeout: 30_000 });
+    expect(await page.getByText('A new version of Sylvasift is ready.').count()).to.equal(1);
+    await reload.click();
+    await waitForSift(page);
+    expect(await page.content()).to.contain('<!-- build 2 -->');
+    await context.close();
   });
 });

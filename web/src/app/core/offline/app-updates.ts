@@ -6,6 +6,8 @@ import { EditionService } from '../edition/edition-service';
 
 /** How often an open app asks whether a newer edition has been published. */
 const EDITION_CHECK_MS = 10 * 60 * 1000;
+/** How often an open app asks the service worker to look for a new build of itself. */
+const APP_CHECK_MS = 30 * 60 * 1000;
 
 /**
  * Offers updates: a new build of the app (service worker VERSION_READY) and a newer published
@@ -28,7 +30,14 @@ export class AppUpdates {
             .onAction()
             .subscribe(() => document.location.reload());
         });
-      this.#destroyRef.onDestroy(() => subscription.unsubscribe());
+      // Look at start-up (a field laptop may keep one tab open for days) and then now and again.
+      const check = () => void this.#updates.checkForUpdate().catch(() => undefined);
+      check();
+      const appTimer = setInterval(check, APP_CHECK_MS);
+      this.#destroyRef.onDestroy(() => {
+        subscription.unsubscribe();
+        clearInterval(appTimer);
+      });
     }
     const timer = setInterval(() => this.#editions.checkForNewerEdition(), EDITION_CHECK_MS);
     this.#destroyRef.onDestroy(() => clearInterval(timer));

@@ -1,4 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
+import { RouterLink } from '@angular/router';
 import { MatButton } from '@angular/material/button';
 import { compare } from '@shared/engine';
 import type { CompiledMatrix } from '@shared/engine/compiled';
@@ -14,7 +15,7 @@ const VERDICT_LABELS: Readonly<Record<ComparisonVerdict, string>> = {
 
 @Component({
   selector: 'sv-side-by-side',
-  imports: [MatButton],
+  imports: [RouterLink, MatButton],
   template: `
     <div class="head">
       <h2 id="side-heading">Side by side</h2>
@@ -34,7 +35,7 @@ const VERDICT_LABELS: Readonly<Record<ComparisonVerdict, string>> = {
             <tr>
               <th scope="col">Trait</th>
               @for (taxon of taxa(); track taxon.id) {
-                <th scope="col">{{ taxon.name }}</th>
+                <th scope="col"><a [routerLink]="['/species', taxon.id]">{{ taxon.name }}</a></th>
               }
             </tr>
           </thead>
