@@ -26,6 +26,12 @@ describe('sift links (the query string of /sift)', () => {
     ]);
   });
 
+  it('drops counts outside what the trait allows, which the engine would refuse', () => {
+    // Flora of North America vol. 2: pines of eastern North America carry 1–5 needles per fascicle (from memory).
+    expect(parseObservations('needles-per-fascicle:0,3,9', compiled)).to.deep.equal([{ trait: 'needles-per-fascicle', values: [3] }]);
+    expect(parseObservations('needles-per-fascicle:9', compiled)).to.deep.equal([]);
+  });
+
   it('treats a bare length as centimetres, the matrix unit', () => {
     expect(parseObservations('needle-length:12', compiled)).to.deep.equal([{ trait: 'needle-length', value: 12, unit: 'cm' }]);
   });

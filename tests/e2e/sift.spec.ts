@@ -137,11 +137,16 @@ describe('e2e: sifting a tree', function () {
     const { page } = await freshSiftPage('?season=leaf-on&leeway=2');
     const search = page.getByRole('combobox', { name: 'Find a trait or value' });
     await search.fill('three needles');
-    await page.getByRole('option', { name: /Needles per bundle \(fascicle\): 3 per bundle/ }).click();
+    // Keyboard only: the best match comes first, arrow down and Enter jump to its chip, Space picks it.
+    const first = page.locator('mat-option').first();
+    await first.waitFor();
+    expect((await first.textContent())?.trim()).to.equal('Needles per bundle (fascicle): 3 per bundle');
+    await search.press('ArrowDown');
+    await search.press('Enter');
     const chip = page.locator('#chip-needles-per-fascicle-3 [role="option"]');
     await chip.waitFor();
-    expect(await chip.evaluate((element) => element === document.activeElement)).to.equal(true);
-    await page.keyboard.press('Enter');
+    await page.waitForFunction(() => document.activeElement?.closest('#chip-needles-per-fascicle-3') !== null);
+    await page.keyboard.press('Space');
     await page.locator('sv-seen-so-far mat-chip[data-trait="needles-per-fascicle"]').waitFor();
 
     await search.fill('peeling bark');

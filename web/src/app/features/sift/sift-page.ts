@@ -5,7 +5,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatIcon } from '@angular/material/icon';
 import { MatButton } from '@angular/material/button';
-import { rank, suggest } from '@shared/engine';
+import { rank, suggest, validateObservations } from '@shared/engine';
 import type { Observation, ObservingSeason } from '@shared/engine/types';
 import { EditionService } from '../../core/edition/edition-service';
 import { IDENTIFICATION_CAUTION } from '../../core/layout/cautions';
@@ -92,10 +92,20 @@ export default class SiftPage {
   protected readonly siftLeeway = linkedSignal<number>(() => parseLeeway(this.#source().leeway));
   protected readonly sideBySide = signal<string[]>([]);
 
+  /** Observations the engine accepts; anything it would refuse is set aside and said so, never thrown. */
+  protected readonly accepted = computed(() => {
+    const compiled = this.compiled();
+    const observations = this.observations();
+    if (!compiled) return { observations: [], refused: [] };
+    const problems = validateObservations(compiled, observations);
+    const refusedAt = new Set(problems.map((problem) => problem.index));
+    return { observations: observations.filter((_, index) => !refusedAt.has(index)), refused: problems.map((problem) => problem.message) };
+  });
+
   protected readonly outcome = computed(() => {
     const compiled = this.compiled();
     if (!compiled) return null;
-    const observations = this.observations();
+    const observations = this.accepted().observations;
     const season = this.siftSeason();
     const leeway = this.siftLeeway();
     const started = performance.now();

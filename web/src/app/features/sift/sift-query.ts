@@ -40,7 +40,8 @@ function parseOne(trait: CompiledTrait, tokens: string[]): Observation | null {
     return { trait: trait.code, value, unit: (match[2] as LengthUnit | undefined) ?? 'cm' };
   }
   if (trait.kind === 'count') {
-    const counts = tokens.map(Number).filter((count) => Number.isInteger(count) && count >= 0);
+    const highest = trait.countMin + trait.answerCount - 1;
+    const counts = tokens.map(Number).filter((count) => Number.isInteger(count) && count >= trait.countMin && count <= highest);
     const unique = [...new Set(counts)];
     return unique.length > 0 ? { trait: trait.code, values: unique } : null;
   }

@@ -171,9 +171,14 @@ export class TraitPicker {
     this.changed.emit({ trait: trait.code, observation: values.length > 0 ? { trait: trait.code, values } : null });
   }
 
+  /** The largest count an observer may report for a count trait. */
+  protected countMax(trait: CompiledTrait): number {
+    return trait.countMin + trait.answerCount - 1;
+  }
+
   protected enterCount(trait: CompiledTrait, text: string): void {
     const count = Number(text);
-    const valid = text.trim() !== '' && Number.isInteger(count) && count >= 0;
+    const valid = text.trim() !== '' && Number.isInteger(count) && count >= trait.countMin && count <= this.countMax(trait);
     this.changed.emit({ trait: trait.code, observation: valid ? { trait: trait.code, values: [count] } : null });
   }
 
