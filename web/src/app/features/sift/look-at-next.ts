@@ -48,7 +48,8 @@ import { commonName } from '../../shared/matrix-words';
       padding: 0;
       list-style: none;
       display: grid;
-      gap: 12px;
+      grid-template-columns: repeat(auto-fill, minmax(min(100%, 300px), 1fr));
+      gap: 12px 16px;
     }
     .previews {
       margin: 4px 0 0;
@@ -85,7 +86,7 @@ export class LookAtNext {
       label: suggestion.label,
       previews: suggestion.preview
         .filter((preview) => preview.probability > 0.001)
-        .slice(0, 4)
+        .slice(0, 3)
         .map((preview) => ({
           answer: preview.answer,
           label: preview.label,
