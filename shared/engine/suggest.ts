@@ -114,10 +114,20 @@ function discreteSums(compiled: CompiledMatrix, trait: CompiledTrait, set: Worki
   const patterns = compiled.cellPattern;
   const base = trait.index * n;
   const { members, weight, weightLog } = set;
-  for (let i = 0; i < members.length; i++) {
-    const pattern = patterns[base + members[i]];
-    patternWeight[pattern] += weight[i];
-    patternWeightLog[pattern] += weightLog[i];
+  if (members.length === n) {
+    // every taxon is in the set: members[i] = i, so read the column straight through
+    const column = patterns.subarray(base, base + n);
+    for (let t = 0; t < n; t++) {
+      const pattern = column[t];
+      patternWeight[pattern] += weight[t];
+      patternWeightLog[pattern] += weightLog[t];
+    }
+  } else {
+    for (let i = 0; i < members.length; i++) {
+      const pattern = patterns[base + members[i]];
+      patternWeight[pattern] += weight[i];
+      patternWeightLog[pattern] += weightLog[i];
+    }
   }
   const mass = new Float64Array(k);
   const logMass = new Float64Array(k);
@@ -205,16 +215,26 @@ function numericSums(compiled: CompiledMatrix, trait: CompiledTrait, set: Workin
   if (cuts === trait.bandCuts) {
     const table = editionBandTable(compiled, trait);
     const n = compiled.taxonCount;
+    const full = members.length === n;
     for (let b = 0; b < bands; b++) {
       const likelihood = table.likelihood.subarray(b * n, (b + 1) * n);
       const likelihoodLog = table.likelihoodLog.subarray(b * n, (b + 1) * n);
       let bandMass = 0;
       let bandLogMass = 0;
-      for (let i = 0; i < members.length; i++) {
-        const t = members[i];
-        const value = likelihood[t];
-        bandMass += weight[i] * value;
-        bandLogMass += weightLog[i] * value + weight[i] * likelihoodLog[t];
+      if (full) {
+        for (let t = 0; t < n; t++) {
+          const value = likelihood[t];
+          const w = weight[t];
+          bandMass += w * value;
+          bandLogMass += weightLog[t] * value + w * likelihoodLog[t];
+        }
+      } else {
+        for (let i = 0; i < members.length; i++) {
+          const t = members[i];
+          const value = likelihood[t];
+          bandMass += weight[i] * value;
+          bandLogMass += weightLog[i] * value + weight[i] * likelihoodLog[t];
+        }
       }
       mass[b] = bandMass;
       logMass[b] = bandLogMass;
@@ -303,20 +323,70 @@ function topThree(set: WorkingSet, row: Float64Array): number[] {
   return best;
 }
 
-function previewOf(compiled: CompiledMatrix, evaluated: Evaluated, set: WorkingSet, scored: Scored, leeway: number): SuggestionPreview[] {
-  const rows = answerRows(compiled, evaluated, set);
-  const trait = evaluated.trait;
+/** Who stays within the leeway whatever the answer, and who is one conflict from leaving. */
+interface LeewayCounts {
+  below: number;
+  atLeeway: number[];
+}
+
+function leewayCounts(scored: Scored, leeway: number): LeewayCounts {
+  let below = 0;
+  const atLeeway: number[] = [];
+  const conflicts = scored.conflicts;
+  for (let t = 0; t < conflicts.length; t++) {
+    if (conflicts[t] < leeway) below++;
+    else if (conflicts[t] === leeway) atLeeway.push(t);
+  }
+  return { below, atLeeway };
+}
+
+/** Leaders per answer of a discrete trait from the three heaviest members of each pattern (L depends only on the pattern). */
+function discreteLeaders(compiled: CompiledMatrix, trait: CompiledTrait, set: WorkingSet): number[][] {
   const n = compiled.taxonCount;
-  return rows.map((row, a) => {
-    const leaders = topThree(set, row).map((i) => compiled.taxa[set.members[i]].id);
-    let remaining = 0;
-    for (let t = 0; t < n; t++) {
-      const conflicts = scored.conflicts[t];
-      if (conflicts < leeway || (conflicts === leeway && !answerConflicts(compiled, evaluated, t, a))) remaining++;
+  const tops = new Map<number, number[]>();
+  for (let i = 0; i < set.members.length; i++) {
+    const pattern = compiled.cellPattern[trait.index * n + set.members[i]];
+    let list = tops.get(pattern);
+    if (!list) {
+      list = [];
+      tops.set(pattern, list);
     }
-    const isNumeric = trait.kind === 'numeric';
+    if (list.length === 3 && set.weight[i] <= set.weight[list[2]]) continue;
+    let at = list.length;
+    while (at > 0 && set.weight[i] > set.weight[list[at - 1]]) at--;
+    list.splice(at, 0, i);
+    if (list.length > 3) list.pop();
+  }
+  const k = trait.answerCount;
+  return Array.from({ length: k }, (_, a) => {
+    const scoredMembers: Array<[number, number]> = [];
+    for (const [pattern, list] of tops) {
+      const likelihood = compiled.likelihood[trait.likBase + pattern * k + a];
+      for (const i of list) scoredMembers.push([i, set.weight[i] * likelihood]);
+    }
+    return scoredMembers
+      .filter(([, value]) => value > 0)
+      .sort((x, y) => y[1] - x[1] || x[0] - y[0])
+      .slice(0, 3)
+      .map(([i]) => i);
+  });
+}
+
+function previewOf(compiled: CompiledMatrix, evaluated: Evaluated, set: WorkingSet, counts: LeewayCounts): SuggestionPreview[] {
+  const trait = evaluated.trait;
+  const isNumeric = trait.kind === 'numeric';
+  const leadersByAnswer = isNumeric ? answerRows(compiled, evaluated, set).map((row) => topThree(set, row)) : discreteLeaders(compiled, trait, set);
+  return leadersByAnswer.map((leaders, a) => {
+    let remaining = counts.below;
+    for (const t of counts.atLeeway) if (!answerConflicts(compiled, evaluated, t, a)) remaining++;
     const label = isNumeric ? bandLabel(evaluated.cuts ?? [], a) : answerLabel(trait, a);
-    return { answer: isNumeric ? label : trait.answerCodes[a], label, probability: evaluated.sums.mass[a], leaders, remaining };
+    return {
+      answer: isNumeric ? label : trait.answerCodes[a],
+      label,
+      probability: evaluated.sums.mass[a],
+      leaders: leaders.map((i) => compiled.taxa[set.members[i]].id),
+      remaining,
+    };
   });
 }
 
@@ -529,6 +599,7 @@ export function suggest(compiled: CompiledMatrix, observations: readonly Observa
     evaluated.splice(0, withCost.length, ...withCost);
   }
 
+  const counts = leewayCounts(scored, leeway);
   return evaluated.slice(0, limit).map((item) => {
     const effort = costs?.get(item);
     return {
@@ -536,7 +607,7 @@ export function suggest(compiled: CompiledMatrix, observations: readonly Observa
       label: item.trait.label,
       expectedGain: item.gain,
       score: item.score,
-      preview: previewOf(compiled, item, set, scored, leeway),
+      preview: previewOf(compiled, item, set, counts),
       ...(effort !== undefined && { expectedEffort: effort }),
     };
   });
