@@ -25,6 +25,7 @@ import { curationRoutes } from './curation/curation-routes';
 import { photoRoutes } from './uploads/photo-routes';
 import { importRoutes } from './imports/import-routes';
 import { compareRoutes } from './compare/compare-routes';
+import { studyRoutes } from './study/study-routes';
 
 /** Everything a route's domain service may need, built once per app. */
 export interface AppContext {
@@ -110,6 +111,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   app.use('/api/v1/editions', editionRoutes(context));
   app.use('/api/v1/curation/imports', importRoutes(context));
   app.use('/api/v1/curation', curationRoutes(context));
+  app.use('/api/v1/study-sets', studyRoutes(context));
   app.use('/api/v1', people.routes);
   if (people.devRoutes) app.use('/api/dev', people.devRoutes);
   app.use('/api', apiNotFound);

@@ -76,6 +76,17 @@ describe('api: permission table (every route × every caller)', function () {
     return res.body.id as number;
   }
 
+  /** A study set owned by `owner` (a fresh coach unless given); unshared unless asked. */
+  async function studySet(owner?: SignedInUser, shared = false): Promise<number> {
+    const coach = owner ?? (await freshUser('coach'));
+    const res = await request(created.app)
+      .post('/api/v1/study-sets')
+      .set('Authorization', `Bearer ${coach.token}`)
+      .send({ name: unique('Permission table set'), shared, taxa: ['pinus-taeda', 'quercus-alba'] })
+      .expect(201);
+    return res.body.id as number;
+  }
+
   async function oneTimeToken(purpose: 'password-reset' | 'invitation'): Promise<string> {
     const token = `svl_${unique('permission-table-link')}-${'x'.repeat(32)}`;
     const user = purpose === 'password-reset' ? await freshUser() : undefined;
@@ -248,6 +259,23 @@ describe('api: permission table (every route × every caller)', function () {
       prepare: async () => ({ url: `/api/v1/queries/${await openQuery()}/recode`, body: { value: 'unknown', version: 999, reason: 'stale on purpose' } }),
       // a reviewer gets through the guard to the cell's version check
       expect: users(409, ['reviewer']),
+    },
+
+    // study sets
+    { operation: 'GET /api/v1/study-sets', prepare: () => ({ url: '/api/v1/study-sets' }), expect: users(200, ['coach']) },
+    { operation: 'POST /api/v1/study-sets', prepare: () => ({ url: '/api/v1/study-sets', body: { name: unique('Permission table set'), taxa: ['pinus-taeda'] } }), expect: users(201, ['coach']) },
+    // another coach's unshared set: admins see it, other users are told it is not there
+    { operation: 'GET /api/v1/study-sets/{id}', prepare: async () => ({ url: `/api/v1/study-sets/${await studySet()}` }), expect: users(200, [], 404) },
+    {
+      operation: 'PATCH /api/v1/study-sets/{id}',
+      // a coach changes a set of their own; everyone else aims at another coach's
+      prepare: async (caller) => ({ url: `/api/v1/study-sets/${await studySet(caller === 'coach' ? people.coach : undefined)}`, body: { notes: 'Who may change it.' } }),
+      expect: users(200, ['coach']),
+    },
+    {
+      operation: 'DELETE /api/v1/study-sets/{id}',
+      prepare: async (caller) => ({ url: `/api/v1/study-sets/${await studySet(caller === 'coach' ? people.coach : undefined)}` }),
+      expect: users(204, ['coach']),
     },
   ];
 

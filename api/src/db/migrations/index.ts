@@ -2,6 +2,7 @@ import type { Step } from '../migrator';
 import { matrix } from './0001-matrix';
 import { curationAuditPhotos } from './0002-curation-audit-photos';
 import { accountsKeysQueries } from './0003-accounts-keys-queries';
+import { studySets } from './0004-study-sets';
 
 /** Every schema migration, oldest first. Add new ones at the end; never edit a landed one. */
-export const migrations: readonly Step[] = [matrix, curationAuditPhotos, accountsKeysQueries];
+export const migrations: readonly Step[] = [matrix, curationAuditPhotos, accountsKeysQueries, studySets];
