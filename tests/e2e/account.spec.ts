@@ -1,4 +1,5 @@
 import { expect } from 'chai';
+import sharp from 'sharp';
 import type { Browser } from 'playwright-core';
 import { launchBrowser, requireChromium } from './support/browser';
 import { startBuiltApp, type RunningApp } from './support/server';
@@ -111,6 +112,33 @@ describe('e2e: accounts and edition updates', function () {
     await page.locator('sv-edition-status [data-state="online"]', { hasText: `Edition ${current + 1}` }).waitFor();
     // The sift carries on with the same observations on the new edition.
     await page.locator('sv-shortlist .candidates > .candidate:first-child[data-taxon="pinus-strobus"]').waitFor();
+    await context.close();
+  });
+
+  it('shows a photo a curator attached on the species page', async () => {
+    const context = await browser.newContext({ serviceWorkers: 'block', viewport: { width: 1280, height: 900 } });
+    const page = await context.newPage();
+    const curator = demoAccount('curator');
+    const session = await page.request.post(`${running.baseUrl}/api/v1/sessions`, { data: { email: curator.email, password: DEMO_PASSWORD } });
+    const { token } = (await session.json()) as { token: string };
+    const image = await sharp({ create: { width: 96, height: 64, channels: 3, background: '#6b4f3a' } }).png().toBuffer();
+    const attached = await page.request.post(`${running.baseUrl}/api/v1/taxa/pinus-taeda/photos`, {
+      headers: { Authorization: `Bearer ${token}` },
+      multipart: { photo: { name: 'bark.png', mimeType: 'image/png', buffer: image }, caption: 'Bark plates on an old trunk', credit: 'Sylvasift test' },
+    });
+    expect(attached.status(), await attached.text()).to.equal(201);
+
+    await page.goto(`${running.baseUrl}/species/pinus-taeda`);
+    const figure = page.locator('.photos figure').first();
+    await figure.waitFor();
+    expect(await figure.locator('img').getAttribute('src')).to.match(/^\/api\/v1\/photos\//);
+    expect(await figure.locator('img').getAttribute('alt')).to.equal('Bark plates on an old trunk');
+    // The photo itself is served (the API re-encodes it) and decodes in the browser.
+    await page.waitForFunction(() => {
+      const img = document.querySelector<HTMLImageElement>('.photos img');
+      return img !== null && img.complete && img.naturalWidth === 96;
+    });
+    expect(await figure.locator('.credit').textContent()).to.contain('Sylvasift test');
     await context.close();
   });
 });

@@ -8,6 +8,7 @@ import { cellOf, diagnose } from '@shared/engine';
 import type { CompiledMatrix, CompiledTrait, TaxonInfo } from '@shared/engine/compiled';
 import type { Cell } from '@shared/engine/types';
 import { EditionService } from '../../core/edition/edition-service';
+import { TaxonPhotos } from './taxon-photos';
 import { USE_CAUTION, IDENTIFICATION_CAUTION } from '../../core/layout/cautions';
 import { EditionStatus } from '../../shared/edition-status';
 import { PART_LABELS, PART_ORDER, commonName, describeCell, illustrationUrl, isDiscreteCell } from '../../shared/matrix-words';
@@ -45,9 +46,18 @@ function comparisonSet(compiled: CompiledMatrix, taxon: TaxonInfo): string[] {
 export default class SpeciesPage {
   protected readonly editions = inject(EditionService);
   readonly #location = inject(Location);
+  readonly #photos = inject(TaxonPhotos);
 
   /** the taxon id from `/species/:id` */
   readonly id = input.required<string>();
+
+  /** server photos when reachable, else any the edition itself carries */
+  protected readonly photoResource = this.#photos.photosOf(this.id);
+  protected readonly photos = computed(() => {
+    const fromServer = this.photoResource.hasValue() ? this.photoResource.value() : [];
+    if (fromServer.length > 0) return fromServer;
+    return (this.taxon()?.photos ?? []).map((photo) => ({ url: photo.url, width: 0, height: 0, caption: photo.caption ?? null, credit: photo.credit ?? null }));
+  });
 
   protected readonly useCaution = USE_CAUTION;
   protected readonly identificationCaution = IDENTIFICATION_CAUTION;
