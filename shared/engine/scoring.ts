@@ -285,6 +285,9 @@ export function normalise(logWeights: Float64Array, normaliser = logNormaliser(l
   const { maxLog, logTotal } = normaliser;
   const n = logWeights.length;
   const probability = new Float64Array(n);
+  let anyFinite = false;
+  for (const log of logWeights) if (Number.isFinite(log)) anyFinite = true;
+  if (!anyFinite) return probability.fill(1 / Math.max(1, n));
   const floor = maxLog - NEGLIGIBLE_LOG_GAP;
   const shift = maxLog + logTotal;
   for (let t = 0; t < n; t++) if (logWeights[t] >= floor) probability[t] = Math.exp(logWeights[t] - shift);

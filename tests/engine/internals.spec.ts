@@ -1,0 +1,96 @@
+import { expect } from 'chai';
+import { compileMatrix, generateSyntheticMatrix, type Observation } from '@shared/engine';
+import { bandLabel, bandOf, bandProbabilities, niceBetween, weightedCuts } from '../../shared/engine/bands';
+import { countSpanOf, parseCount } from '../../shared/engine/count-span';
+import { prepareObservations } from '../../shared/engine/observations';
+import { exactProbability, logNormaliser, normalise, scoreObservations } from '../../shared/engine/scoring';
+import { seededRandom } from '../../shared/engine/synthetic';
+import { drawAnswer } from '../../scripts/lib/engine-sim';
+import { arithmeticMatrix } from './fixtures';
+
+describe('internals: numeric bands', () => {
+  it('puts every length in exactly one band', () => {
+    const cuts = [5, 10, 20];
+    expect([0, 4.99, 5, 9.99, 10, 19.99, 20, 1000].map((x) => bandOf(cuts, x))).to.deep.equal([0, 0, 1, 1, 2, 2, 3, 3]);
+    expect([0, 1, 2, 3].map((b) => bandLabel(cuts, b))).to.deep.equal(['< 5 cm', '5–10 cm', '10–20 cm', '≥ 20 cm']);
+  });
+
+  it('gives band probabilities that sum to 1, with the error spread evenly', () => {
+    const out = new Float64Array(4);
+    bandProbabilities(4, 6, 9, 12, [5, 10, 20], 0.8, 0.1, out);
+    expect(out.reduce((sum, value) => sum + value, 0)).to.be.closeTo(1, 1e-12);
+    // typical 6–9 lies in band 1 (5–10): 0.9 × (0.8 + tails 5–6 and 9–10 = 2 of 5 cm × 0.2) + 0.1 / 4
+    expect(out[1]).to.be.closeTo(0.9 * (0.8 + 0.2 * (2 / 5)) + 0.025, 1e-12);
+    expect(out[3]).to.be.closeTo(0.025, 1e-12);
+    bandProbabilities(7, 7, 7, 7, [5, 10], 0.8, 0, out.subarray(0, 3));
+    expect([...out.subarray(0, 3)]).to.deep.equal([0, 1, 0]);
+  });
+
+  it('cuts a small shortlist between its midpoints at round numbers', () => {
+    const cuts = weightedCuts([3, 8, 15, 40], [1, 1, 1, 1], 4);
+    // midway points 5.5, 11.5 and 27.5, each rounded to one significant digit that stays between its neighbours
+    expect(cuts).to.deep.equal([6, 10, 30]);
+    expect(weightedCuts([5, 5, 5], [1, 1, 1], 4)).to.deep.equal([]);
+    expect(niceBetween(12.34, 12.9)).to.be.within(12.34, 12.9);
+  });
+});
+
+describe('internals: count spans', () => {
+  it('reads counts written as numbers or digit strings only', () => {
+    expect([3, '3', 2.5, '2.5', '-1', 'three'].map(parseCount)).to.deep.equal([3, 3, undefined, undefined, undefined, undefined]);
+  });
+
+  it('prefers countRange, else spans labelled and coded counts', () => {
+    const trait = { code: 'leaflet-count', label: 'Leaflets', part: 'leaf' as const, kind: 'count' as const, season: 'any' as const, ease: 1, errorRate: 0.1 };
+    const taxa = [{ id: 'a', scientificName: 'a', authority: '', family: 'f', commonNames: [], cells: { 'leaflet-count': { usual: [5, 7], rare: [11] } } }];
+    expect(countSpanOf({ ...trait, countRange: { min: 1, max: 3 } }, taxa)).to.deep.equal({ min: 1, max: 3 });
+    expect(countSpanOf({ ...trait, values: [{ code: '3', label: 'three' }] }, taxa)).to.deep.equal({ min: 3, max: 11 });
+    expect(countSpanOf(trait, [])).to.equal(undefined);
+  });
+});
+
+describe('internals: normalising', () => {
+  it('normalises log weights without overflow and copes with -Infinity', () => {
+    const probabilities = normalise(Float64Array.from([1000, 1000 + Math.log(3)]));
+    expect(probabilities[0]).to.be.closeTo(0.25, 1e-12);
+    expect(probabilities[1]).to.be.closeTo(0.75, 1e-12);
+    expect([...normalise(Float64Array.from([-Infinity, -Infinity]))]).to.deep.equal([0.5, 0.5]);
+    expect(logNormaliser(new Float64Array(0))).to.deep.equal({ maxLog: 0, logTotal: 0 });
+  });
+
+  it('gives the same probabilities from plain products as from log sums', () => {
+    // few observations: the plain-product normaliser is used; compare it with normalising the log sums
+    const compiled = compileMatrix(generateSyntheticMatrix({ taxa: 300, traits: 30, seed: 5 }));
+    const random = seededRandom(3);
+    const observations = compiled.traits
+      .slice(0, 12)
+      .map((trait) => drawAnswer(compiled, trait.index, 17, random, 0.1))
+      .filter((answer): answer is Observation => answer !== undefined);
+    const scored = scoreObservations(compiled, prepareObservations(compiled, observations));
+    const fromLogs = normalise(scored.logPosterior);
+    for (let t = 0; t < compiled.taxonCount; t++) {
+      expect(scored.probability[t]).to.be.closeTo(fromLogs[t], 1e-12);
+      expect(exactProbability(scored, t)).to.be.closeTo(fromLogs[t], 1e-12);
+    }
+  });
+
+  it('falls back to log sums when plain products could underflow', () => {
+    // 200 observations of traits with a 0.001 error floor could multiply to below 1e-600
+    const doc = generateSyntheticMatrix({ taxa: 50, traits: 200, seed: 8, errorRate: 0, numericShare: 0, countShare: 0, conditionalShare: 0 });
+    const compiled = compileMatrix(doc);
+    const random = seededRandom(4);
+    const observations = compiled.traits.map((trait) => drawAnswer(compiled, trait.index, 0, random, 0.3)).filter((answer): answer is Observation => answer !== undefined);
+    const scored = scoreObservations(compiled, prepareObservations(compiled, observations));
+    expect(scored.maxLog).to.not.equal(0);
+    const total = scored.probability.reduce((sum, value) => sum + value, 0);
+    expect(total).to.be.closeTo(1, 1e-12);
+    for (const value of scored.probability) expect(Number.isFinite(value)).to.equal(true);
+  });
+
+  it('counts conflicts per taxon', () => {
+    const compiled = compileMatrix(arithmeticMatrix());
+    const scored = scoreObservations(compiled, prepareObservations(compiled, [{ trait: 'leaf-arrangement', values: ['whorled'] }, { trait: 'needle-length', value: 30 }]));
+    // whorled is coded for nobody (d is unknown); 30 cm is outside a and c, inside b, unknown for d
+    expect([...scored.conflicts]).to.deep.equal([2, 1, 2, 0]);
+  });
+});
