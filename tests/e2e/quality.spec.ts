@@ -73,6 +73,19 @@ describe('e2e: accessibility and performance', function () {
     expect(await page.locator('.diagnostic ol li').count()).to.be.greaterThan(0);
     expect(await page.locator('.diagnostic ol').textContent()).to.contain('Eastern white pine');
     expect(await seriousViolations(page)).to.deep.equal([]);
+
+    // Poison sumac's own cautions lead its page: all parts carry urushiol and blister the skin
+    // (Gillis, Rhodora 73, 1971, on Toxicodendron; from memory).
+    await page.goto(`${running.baseUrl}/species/toxicodendron-vernix`);
+    await page.locator('h1', { hasText: /sumac/i }).waitFor();
+    expect(await page.locator('.cautions li.species-caution').first().textContent()).to.match(/rash/i);
+    // Atlantic white-cedar's page also warns about its look-alike northern white-cedar, whose foliage
+    // oil holds thujone (PDR for Herbal Medicines, Thuja occidentalis; from memory).
+    await page.goto(`${running.baseUrl}/species/chamaecyparis-thyoides`);
+    await page.locator('h1', { hasText: /white-cedar/i }).waitFor();
+    const lookAlike = page.locator('.cautions li.look-alike-caution', { hasText: /thujone/ });
+    expect(await lookAlike.count()).to.equal(1);
+    expect(await lookAlike.textContent()).to.match(/^Look-alike Northern white-cedar: /);
     await context.close();
   });
 
