@@ -76,13 +76,13 @@ describe('api: permission table (every route × every caller)', function () {
     return res.body.id as number;
   }
 
-  /** A study set owned by `owner` (a fresh coach unless given); unshared unless asked. */
-  async function studySet(owner?: SignedInUser, shared = false): Promise<number> {
+  /** An unshared study set owned by `owner` (a fresh coach unless given). */
+  async function studySet(owner?: SignedInUser): Promise<number> {
     const coach = owner ?? (await freshUser('coach'));
     const res = await request(created.app)
       .post('/api/v1/study-sets')
       .set('Authorization', `Bearer ${coach.token}`)
-      .send({ name: unique('Permission table set'), shared, taxa: ['pinus-taeda', 'quercus-alba'] })
+      .send({ name: unique('Permission table set'), shared: false, taxa: ['pinus-taeda', 'quercus-alba'] })
       .expect(201);
     return res.body.id as number;
   }

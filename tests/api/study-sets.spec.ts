@@ -1,9 +1,13 @@
+import fs from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
 import { expect } from 'chai';
 import request from 'supertest';
 import type { CreatedApp } from '../../api/src/app';
 import { studyModels } from '../../api/src/study/study-models';
 import { DEMO_ACCOUNTS, DEMO_EVENT, DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 import { DEMO_STUDY_SET } from '../../api/src/db/seeders/0003-demo-study-set';
+import { createSeeder } from '../../api/src/db/migrator';
 import { assertContractKept, startTestApp } from './support/test-app';
 import { signUpAndSignIn, type SignedInUser } from './support/accounts';
 
@@ -264,6 +268,29 @@ describe('api: study sets', () => {
       const student = await signInDemo('learner');
       const read = await request(created.app).get(`/api/v1/study-sets/${demo?.id}`).set(auth(student)).expect(200);
       expect(read.body.taxa).to.have.length(DEMO_STUDY_SET.taxa.length);
+    });
+
+    it('reaches a database seeded before study sets existed when it next starts', async () => {
+      const dir = fs.mkdtempSync(path.join(os.tmpdir(), 'sylvasift-study-'));
+      const env = { DATABASE_URL: `sqlite:${path.join(dir, 'older.sqlite')}` };
+      try {
+        const older = await startTestApp(env);
+        // undo the study set seeder, as if the database predated it
+        await createSeeder(older.context.sequelize, older.context.models).down({ to: '0003-demo-study-set' });
+        expect(await studyModels(older.context.sequelize).StudySet.count()).to.equal(0);
+        await older.close();
+
+        const upgraded = await startTestApp(env);
+        try {
+          const sets = await studyModels(upgraded.context.sequelize).StudySet.findAll();
+          expect(sets.map((s) => s.name)).to.deep.equal([DEMO_STUDY_SET.name]);
+          expect(await upgraded.context.models.User.count(), 'the demo accounts are not seeded twice').to.equal(DEMO_ACCOUNTS.length);
+        } finally {
+          await upgraded.close();
+        }
+      } finally {
+        fs.rmSync(dir, { recursive: true, force: true });
+      }
     });
 
     it('is not added where the demo scenario is not seeded', async () => {
