@@ -8,6 +8,7 @@ import { ValueStatus, type CompiledMatrix } from './compiled';
 import { RANK_DEFAULTS, type RankOptions } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
 import { effectiveCellOf } from './lookup';
+import { rangeOf } from './separation';
 import { prepareObservations, type PreparedObservation } from './observations';
 import { exactProbability, measureRegion, regionLikelihood, scoreObservations, type Scored, type SkipCause } from './scoring';
 import { codedText, observedText, reasonTexts } from './texts';
@@ -75,20 +76,13 @@ function measureReason(compiled: CompiledMatrix, observation: PreparedObservatio
   const region = measureRegion(compiled, observation, t);
   const likelihood = regionLikelihood(region, trait.errorRate);
   const seen = observedText(observation);
-  const cell = effectiveCellOf(compiled, trait, t);
-  const range = typeof cell === 'object' && 'min' in cell ? cell : undefined;
-  switch (region) {
-    case 'typical':
-      return { trait: trait.code, status: 'matched', likelihood, text: reasonTexts.typical(trait, seen, range!.low, range!.high) };
-    case 'extreme':
-      return { trait: trait.code, status: 'partial', likelihood, text: reasonTexts.extreme(trait, seen, range!) };
-    case 'outside':
-      return { trait: trait.code, status: 'conflict', likelihood, text: reasonTexts.outside(trait, seen, range!.min, range!.max) };
-    case 'unknown':
-      return { trait: trait.code, status: 'not-coded', likelihood, text: reasonTexts.notCoded(trait) };
-    case 'inapplicable':
-      return { trait: trait.code, status: 'conflict', likelihood, text: reasonTexts.doesNotApply(trait) };
-  }
+  if (region === 'unknown') return { trait: trait.code, status: 'not-coded', likelihood, text: reasonTexts.notCoded(trait) };
+  if (region === 'inapplicable') return { trait: trait.code, status: 'conflict', likelihood, text: reasonTexts.doesNotApply(trait) };
+  // the three remaining regions only arise for a coded range
+  const range = rangeOf(compiled, trait, t);
+  if (region === 'typical') return { trait: trait.code, status: 'matched', likelihood, text: reasonTexts.typical(trait, seen, range.low, range.high) };
+  if (region === 'extreme') return { trait: trait.code, status: 'partial', likelihood, text: reasonTexts.extreme(trait, seen, range) };
+  return { trait: trait.code, status: 'conflict', likelihood, text: reasonTexts.outside(trait, seen, range.min, range.max) };
 }
 
 /** Reasons of set observations depend only on the cell's pattern, so one ranking builds each once. */
