@@ -197,10 +197,12 @@ describe('e2e: sifting a tree', function () {
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
     const page = await context.newPage();
     let failing = true;
+    let release: () => void = () => undefined;
+    const seenLoading = new Promise<void>((resolve) => (release = resolve));
     await page.route('**/api/v1/editions/current/bundle', async (route) => {
       if (!failing) return route.continue();
-      // Hold the answer a moment so the loading state can be seen, then fail as a down API would.
-      await new Promise((resolve) => setTimeout(resolve, 400));
+      // Hold the answer until the loading state has been seen, then fail as a down API would.
+      await seenLoading;
       return route.fulfill({
         status: 503,
         contentType: 'application/problem+json',
@@ -209,6 +211,7 @@ describe('e2e: sifting a tree', function () {
     });
     await page.goto(`${running.baseUrl}/sift?o=needles-per-fascicle:5;cone-length:30cm&season=leaf-on&leeway=0`);
     await page.getByText('Downloading the current edition').waitFor();
+    release();
     const alert = page.getByRole('alert');
     await alert.waitFor();
     expect(await alert.textContent()).to.contain('The API is down for maintenance.');
