@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { Router, RouterLink } from '@angular/router';
 import { MatFormField, MatLabel, MatError } from '@angular/material/form-field';
@@ -12,12 +12,20 @@ export function safeNext(next: string | undefined): string {
   return next && next.startsWith('/') && !next.startsWith('//') ? next : '/account';
 }
 
+const DONE_NOTICES: Readonly<Record<string, string>> = {
+  reset: 'Your password is changed. Sign in with the new one.',
+  invitation: 'Your account is ready. Sign in with the invited e-mail address and the password you chose.',
+};
+
 @Component({
   selector: 'sv-sign-in-page',
   imports: [ReactiveFormsModule, RouterLink, MatFormField, MatLabel, MatError, MatInput, MatButton],
   template: `
     <h1>Sign in</h1>
     <p>Anyone can sift without an account. Sign in to keep study sets, drills and curator work.</p>
+    @if (notice(); as message) {
+      <p class="notice" role="status">{{ message }}</p>
+    }
     <form [formGroup]="form" (ngSubmit)="signIn()" novalidate>
       <mat-form-field appearance="outline">
         <mat-label>E-mail</mat-label>
@@ -40,6 +48,7 @@ export function safeNext(next: string | undefined): string {
       }
       <div class="actions">
         <button mat-flat-button type="submit" [disabled]="busy()">Sign in</button>
+        <a routerLink="/forgot-password">Forgot your password?</a>
         <a routerLink="/sign-up">Create an account</a>
       </div>
     </form>
@@ -54,6 +63,10 @@ export default class SignInPage {
 
   /** where to go after signing in (`?next=`) */
   readonly next = input<string>();
+  /** what the visitor has just finished elsewhere (`?done=`), confirmed above the form */
+  readonly done = input<string>();
+
+  protected readonly notice = computed(() => DONE_NOTICES[this.done() ?? ''] ?? null);
 
   protected readonly form = this.#fb.group({
     email: ['', [Validators.required, Validators.email]],
