@@ -6,28 +6,40 @@
  */
 import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
 import { effectiveCellOf, requireTaxon } from './lookup';
-import { relation, separates } from './separation';
+import { relation, separationStrength, separatesCompletely } from './separation';
 import { codedText, joinAnd } from './texts';
-import type { ComparisonResult, ComparisonVerdict, DiagnosisResult, DiagnosticTrait, HealthReport, TraitComparison } from './types';
+import type {
+  ComparisonResult,
+  ComparisonVerdict,
+  DiagnosisResult,
+  DiagnosticSeparation,
+  DiagnosticTrait,
+  HealthReport,
+  SeparationStrength,
+  TraitComparison,
+} from './types';
 
 function uniqueIndexes(compiled: CompiledMatrix, ids: readonly string[]): number[] {
   return [...new Set(ids)].map((id) => requireTaxon(compiled, id));
 }
 
-function verdictFor(compiled: CompiledMatrix, trait: CompiledTrait, taxa: readonly number[]): ComparisonVerdict {
+/** The verdict of one trait over a set, and for `separates` the weakest pair's strength. */
+function verdictFor(compiled: CompiledMatrix, trait: CompiledTrait, taxa: readonly number[]): { verdict: ComparisonVerdict; strength?: SeparationStrength } {
   let allSame = true;
   let allSeparate = true;
+  let allReliable = true;
   for (let x = 0; x < taxa.length; x++) {
     for (let y = x + 1; y < taxa.length; y++) {
       const found = relation(compiled, trait, taxa[x], taxa[y]);
-      if (found === 'unknown') return 'not-coded';
+      if (found === 'unknown') return { verdict: 'not-coded' };
       if (found !== 'same') allSame = false;
-      if (found !== 'separates') allSeparate = false;
+      if (found !== 'reliable') allReliable = false;
+      if (found !== 'reliable' && found !== 'usual') allSeparate = false;
     }
   }
-  if (taxa.length < 2) return 'same';
-  if (allSeparate) return 'separates';
-  return allSame ? 'same' : 'overlaps';
+  if (taxa.length < 2) return { verdict: 'same' };
+  if (allSeparate) return { verdict: 'separates', strength: allReliable ? 'reliable' : 'usual' };
+  return { verdict: allSame ? 'same' : 'overlaps' };
 }
 
 const verdictTexts: Record<ComparisonVerdict, (label: string) => string> = {
@@ -37,20 +49,47 @@ const verdictTexts: Record<ComparisonVerdict, (label: string) => string> = {
   'not-coded': (label) => `${label} is not coded for every one of these yet.`,
 };
 
-/** Side by side: which traits separate the given taxa reliably, which overlap, which are the same. */
+/** What a usual-strength separation can still share, in words. */
+function sharedWords(trait: CompiledTrait): string {
+  return trait.kind === 'numeric' ? 'lengths near the recorded extremes' : 'less common values';
+}
+
+function comparisonText(trait: CompiledTrait, verdict: ComparisonVerdict, strength: SeparationStrength | undefined): string {
+  if (verdict === 'separates' && strength === 'usual') {
+    return `${trait.label} usually tells every one of these apart, though some of them share ${sharedWords(trait)}.`;
+  }
+  return verdictTexts[verdict](trait.label);
+}
+
+/**
+ * Side by side: which traits separate the given taxa (reliably first, then by their usual values or
+ * typical ranges only), which overlap, which are the same and which are not coded for all of them.
+ */
 export function compare(compiled: CompiledMatrix, ids: readonly string[]): ComparisonResult {
   const taxa = uniqueIndexes(compiled, ids);
   const result: ComparisonResult = { taxa: taxa.map((t) => compiled.taxa[t].id), separating: [], overlapping: [], same: [], notCoded: [] };
+  const usually: TraitComparison[] = [];
   for (const trait of compiled.traits) {
-    const verdict = verdictFor(compiled, trait, taxa);
+    const { verdict, strength } = verdictFor(compiled, trait, taxa);
     const cells = Object.fromEntries(taxa.map((t) => [compiled.taxa[t].id, effectiveCellOf(compiled, trait, t)]));
-    const entry: TraitComparison = { trait: trait.code, label: trait.label, verdict, cells, text: verdictTexts[verdict](trait.label) };
-    if (verdict === 'separates') result.separating.push(entry);
+    const entry: TraitComparison = { trait: trait.code, label: trait.label, verdict, ...(strength && { strength }), cells, text: comparisonText(trait, verdict, strength) };
+    if (verdict === 'separates') (strength === 'reliable' ? result.separating : usually).push(entry);
     else if (verdict === 'overlaps') result.overlapping.push(entry);
     else if (verdict === 'same') result.same.push(entry);
     else result.notCoded.push(entry);
   }
+  result.separating.push(...usually);
   return result;
+}
+
+function diagnosticText(compiled: CompiledMatrix, trait: CompiledTrait, target: number, separations: readonly DiagnosticSeparation[]): string {
+  const coding = codedText(trait, effectiveCellOf(compiled, trait, target));
+  const reliably = separations.filter((item) => item.strength === 'reliable').map((item) => item.taxonId);
+  const usually = separations.filter((item) => item.strength === 'usual').map((item) => item.taxonId);
+  const caveat = `they can share ${sharedWords(trait)}`;
+  if (usually.length === 0) return `${trait.label} (${coding}) sets it apart from ${joinAnd(reliably)}.`;
+  if (reliably.length === 0) return `${trait.label} (${coding}) usually sets it apart from ${joinAnd(usually)}; ${caveat}.`;
+  return `${trait.label} (${coding}) sets it apart from ${joinAnd(reliably)}, and usually from ${joinAnd(usually)} (${caveat}).`;
 }
 
 /**
@@ -59,42 +98,72 @@ export function compare(compiled: CompiledMatrix, ids: readonly string[]): Compa
  * "A greedy heuristic for the set-covering problem"): repeatedly take the trait that separates the
  * most not-yet-separated taxa (ties: easier, then more reliable), which uses at most ln(n) + 1 times
  * as many traits as the smallest set.
+ *
+ * It runs in two rounds. The first covers with reliable separations only. What is left is then
+ * separated by usual values or typical ranges: first by the traits already chosen (they cost
+ * nothing more), then greedily by the others. Each chosen trait reports the taxa it set apart and
+ * how firmly; `unseparated` lists those no trait separates even by its usual values.
  */
 export function diagnose(compiled: CompiledMatrix, id: string, amongIds?: readonly string[]): DiagnosisResult {
   const target = requireTaxon(compiled, id);
   const among = amongIds ? uniqueIndexes(compiled, amongIds) : compiled.taxa.map((_, t) => t);
   const others = among.filter((t) => t !== target);
-  const separatedBy = compiled.traits.map((trait) => new Set(others.filter((t) => separates(compiled, trait, target, t))));
+  const strengths = compiled.traits.map((trait) => new Map(others.map((t) => [t, separationStrength(compiled, trait, target, t)])));
   const uncovered = new Set(others);
-  const chosen: DiagnosticTrait[] = [];
+  const picks: Array<{ trait: number; separations: Array<{ taxon: number; strength: SeparationStrength }> }> = [];
   const used = new Set<number>();
-  while (uncovered.size > 0) {
-    let best = -1;
-    let bestCount = 0;
-    compiled.traits.forEach((trait, j) => {
-      if (used.has(j)) return;
-      let count = 0;
-      for (const t of separatedBy[j]) if (uncovered.has(t)) count++;
-      if (count === 0) return;
-      const incumbent = best >= 0 ? compiled.traits[best] : undefined;
-      const better =
-        !incumbent ||
-        count > bestCount ||
-        (count === bestCount && (trait.ease < incumbent.ease || (trait.ease === incumbent.ease && trait.errorRate < incumbent.errorRate)));
-      if (better) {
-        best = j;
-        bestCount = count;
-      }
-    });
-    if (best < 0 || bestCount === 0) break;
-    used.add(best);
-    const trait = compiled.traits[best];
-    const newly = [...separatedBy[best]].filter((t) => uncovered.has(t));
-    for (const t of newly) uncovered.delete(t);
-    const separatedIds = newly.map((t) => compiled.taxa[t].id);
-    const coding = codedText(trait, effectiveCellOf(compiled, trait, target));
-    chosen.push({ trait: trait.code, label: trait.label, separates: separatedIds, text: `${trait.label} (${coding}) sets it apart from ${joinAnd(separatedIds)}.` });
-  }
+  const covers = (j: number, t: number, round: SeparationStrength): boolean => {
+    const found = strengths[j].get(t);
+    return round === 'reliable' ? found === 'reliable' : found !== null && found !== undefined;
+  };
+  const take = (pick: (typeof picks)[number], j: number, round: SeparationStrength): void => {
+    for (const t of others) {
+      if (!uncovered.has(t) || !covers(j, t, round)) continue;
+      pick.separations.push({ taxon: t, strength: strengths[j].get(t)! });
+      uncovered.delete(t);
+    }
+  };
+  const greedy = (round: SeparationStrength): void => {
+    while (uncovered.size > 0) {
+      let best = -1;
+      let bestCount = 0;
+      compiled.traits.forEach((trait, j) => {
+        if (used.has(j)) return;
+        let count = 0;
+        for (const t of uncovered) if (covers(j, t, round)) count++;
+        if (count === 0) return;
+        const incumbent = best >= 0 ? compiled.traits[best] : undefined;
+        const better =
+          !incumbent ||
+          count > bestCount ||
+          (count === bestCount && (trait.ease < incumbent.ease || (trait.ease === incumbent.ease && trait.errorRate < incumbent.errorRate)));
+        if (better) {
+          best = j;
+          bestCount = count;
+        }
+      });
+      if (best < 0) return;
+      used.add(best);
+      const pick = { trait: best, separations: [] };
+      take(pick, best, round);
+      picks.push(pick);
+    }
+  };
+  greedy('reliable');
+  for (const pick of picks) take(pick, pick.trait, 'usual');
+  greedy('usual');
+  const chosen: DiagnosticTrait[] = picks.map((pick) => {
+    const trait = compiled.traits[pick.trait];
+    const separations = pick.separations.map((item) => ({ taxonId: compiled.taxa[item.taxon].id, strength: item.strength }));
+    return {
+      trait: trait.code,
+      label: trait.label,
+      separates: separations.map((item) => item.taxonId),
+      text: diagnosticText(compiled, trait, target, separations),
+      separations,
+      strength: separations.every((item) => item.strength === 'reliable') ? 'reliable' : 'usual',
+    };
+  });
   return { taxonId: compiled.taxa[target].id, traits: chosen, unseparated: [...uncovered].map((t) => compiled.taxa[t].id) };
 }
 
@@ -115,7 +184,7 @@ export function health(compiled: CompiledMatrix): HealthReport {
     for (let b = a + 1; b < n; b++) {
       let separated = false;
       for (const trait of traits) {
-        if (separates(compiled, trait, a, b)) {
+        if (separatesCompletely(compiled, trait, a, b)) {
           separated = true;
           separatesAnything[trait.index] = 1;
           break;
@@ -133,7 +202,7 @@ export function health(compiled: CompiledMatrix): HealthReport {
     if (separatesAnything[trait.index]) continue;
     search: for (let a = 0; a < n; a++) {
       for (let b = a + 1; b < n; b++) {
-        if (separates(compiled, trait, a, b)) {
+        if (separatesCompletely(compiled, trait, a, b)) {
           separatesAnything[trait.index] = 1;
           break search;
         }

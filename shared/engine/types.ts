@@ -216,10 +216,23 @@ export interface SkippedObservation {
 /** How one trait relates a set of taxa in a side-by-side comparison. */
 export type ComparisonVerdict = 'separates' | 'overlaps' | 'same' | 'not-coded';
 
+/**
+ * How firmly a trait tells two taxa apart. `reliable`: what either usually shows never turns up in
+ * the other (no usual value of one is coded for the other at any frequency; no typical range reaches
+ * into the other's extreme range), or the trait applies to only one of them. `usual`: the usual value
+ * sets (typical ranges) are disjoint, but an occasional or rare value (an extreme length) is shared.
+ */
+export type SeparationStrength = 'reliable' | 'usual';
+
 export interface TraitComparison {
   trait: string;
   label: string;
   verdict: ComparisonVerdict;
+  /**
+   * with verdict `separates` only: `reliable` when every pair of the set is separated reliably,
+   * `usual` when at least one pair is separated only by its usual values or typical ranges
+   */
+  strength?: SeparationStrength;
   /** taxon id → the coded cell, for display */
   cells: Record<string, Cell>;
   /** one plain sentence */
@@ -228,7 +241,10 @@ export interface TraitComparison {
 
 export interface ComparisonResult {
   taxa: string[];
-  /** every pair of the set has disjoint codings on these traits */
+  /**
+   * every pair of the set is separated on these traits, at least by its usual values or typical
+   * ranges; the reliable ones first, then the usual ones, each group in matrix order
+   */
   separating: TraitComparison[];
   /** some codings differ but at least one pair overlaps */
   overlapping: TraitComparison[];
@@ -238,19 +254,29 @@ export interface ComparisonResult {
   notCoded: TraitComparison[];
 }
 
+/** One taxon a diagnostic trait tells apart from the diagnosed one, and how firmly. */
+export interface DiagnosticSeparation {
+  taxonId: string;
+  strength: SeparationStrength;
+}
+
 export interface DiagnosticTrait {
   trait: string;
   label: string;
-  /** ids of the other taxa this trait tells apart from the diagnosed one */
+  /** ids of the other taxa this trait tells apart from the diagnosed one (not already set apart by an earlier trait) */
   separates: string[];
   text: string;
+  /** the taxa of `separates`, in the same order, each with how firmly this trait separates it */
+  separations: DiagnosticSeparation[];
+  /** `reliable` when every separation of this trait is reliable, otherwise `usual` */
+  strength: SeparationStrength;
 }
 
 export interface DiagnosisResult {
   taxonId: string;
   /** a small set of traits that together separate the taxon from the others, in the order chosen */
   traits: DiagnosticTrait[];
-  /** taxa of the set that no trait separates from the diagnosed one */
+  /** taxa of the set that no trait separates from the diagnosed one, not even by usual values or typical ranges */
   unseparated: string[];
 }
 

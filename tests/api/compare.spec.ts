@@ -9,6 +9,7 @@ const COMPARE = '/api/v1/compare';
 interface ComparedTrait {
   trait: string;
   verdict: string;
+  strength?: string;
   text: string;
   taxa: Array<{ id: string; cell: unknown; coded: string }>;
 }
@@ -18,7 +19,8 @@ interface DiagnosticTrait {
   separates: string[];
   text: string;
   coded: string;
-  lookAlikes: Array<{ id: string; coded: string; separated: boolean }>;
+  strength: string;
+  lookAlikes: Array<{ id: string; coded: string; separated: boolean; strength?: string }>;
 }
 
 describe('api: Side by side and the species-page diagnosis', () => {
@@ -109,13 +111,20 @@ describe('api: Side by side and the species-page diagnosis', () => {
         for (const id of trait.separates) {
           const other = trait.lookAlikes.find((l) => l.id === id)!;
           expect(other.separated, `${trait.trait} separates ${id}`).to.equal(true);
+          expect(other.strength, `${trait.trait} grades ${id}`).to.be.oneOf(['reliable', 'usual']);
           expect(other.coded).to.not.equal(trait.coded);
         }
+        const allReliable = trait.separates.every((id) => trait.lookAlikes.find((l) => l.id === id)!.strength === 'reliable');
+        expect(trait.strength, trait.trait).to.equal(allReliable ? 'reliable' : 'usual');
+        for (const other of trait.lookAlikes) if (!other.separated) expect(other).to.not.have.property('strength');
       }
+      expect(toldApart).to.include('acer-saccharum');
       // red maple leaves are serrate, sugar maple's entire between the lobes: common practice, no source
-      const margin = diagnostic.traits.find((t) => t.trait === 'leaf-margin');
-      expect(margin?.separates).to.include('acer-saccharum');
-      expect(margin!.coded.toLowerCase()).to.contain('serrate');
+      const maples = await sideBySide(['acer-rubrum', 'acer-saccharum']).expect(200);
+      const margin = (maples.body.separating as ComparedTrait[]).find((entry) => entry.trait === 'leaf-margin');
+      expect(margin, 'leaf-margin separates red from sugar maple').to.not.equal(undefined);
+      expect(margin!.strength).to.equal('reliable');
+      expect(margin!.taxa[0]!.coded.toLowerCase()).to.contain('serrate');
     });
 
     it('is null for a taxon with no look-alikes in the edition', async () => {

@@ -22,7 +22,12 @@ describe('compare', () => {
       [...result.separating, ...result.overlapping, ...result.same, ...result.notCoded].find((item) => item.trait === code)?.verdict;
     // loblolly 3 needles vs white pine 5 (Flora of North America vol. 2, from memory)
     expect(verdict('needles-per-fascicle')).to.equal('separates');
-    expect(verdict('needle-length')).to.equal('overlaps');
+    // typical lengths 12–18 vs 6–10 cm are disjoint, but loblolly's typical range reaches white pine's recorded 13 cm
+    expect(verdict('needle-length')).to.equal('separates');
+    const entry = (code: string) => result.separating.find((item) => item.trait === code);
+    expect(entry('needles-per-fascicle')?.strength).to.equal('reliable');
+    expect(entry('needle-length')?.strength).to.equal('usual');
+    expect(result.separating.map((item) => item.strength)).to.deep.equal(['reliable', 'reliable', 'usual']);
     expect(verdict('foliage')).to.equal('same');
     expect(verdict('terminal-bud')).to.equal('same');
     expect(result.separating.find((item) => item.trait === 'needles-per-fascicle')?.cells['pinus-strobus']).to.deep.equal({ usual: [5] });
@@ -48,10 +53,26 @@ describe('diagnose', () => {
     expect(result.traits.map((item) => item.trait)).to.deep.equal(['needles-per-fascicle']);
   });
 
-  it('names the taxa nothing separates', () => {
+  it('separates by usual values what nothing separates reliably', () => {
     const result = diagnose(compiled, 'pinus-taeda', ['pinus-taeda', 'pinus-echinata', 'quercus-rubra']);
+    expect(result.unseparated).to.deep.equal([]);
+    // foliage: needles against broad leaves, the easiest reliable separator
+    expect(result.traits[0]).to.include({ trait: 'foliage', strength: 'reliable' });
+    expect(result.traits[0].separations).to.deep.equal([{ taxonId: 'quercus-rubra', strength: 'reliable' }]);
+    // shortleaf shows loblolly's 3 needles occasionally, and loblolly's typical length reaches shortleaf's recorded extreme
+    expect(result.traits[1].separations).to.deep.equal([{ taxonId: 'pinus-echinata', strength: 'usual' }]);
+    expect(result.traits[1].strength).to.equal('usual');
+    expect(result.traits[1].text).to.match(/usually sets it apart from pinus-echinata/);
+    expect(result.traits).to.have.length(2);
+  });
+
+  it('names the taxa nothing separates, not even by usual values', () => {
+    const doc = southernTreesMatrix();
+    doc.taxa[1].cells['needles-per-fascicle'] = { usual: [2, 3] };
+    doc.taxa[1].cells['needle-length'] = { min: 6, low: 7, high: 12, max: 13 };
+    const result = diagnose(compileMatrix(doc), 'pinus-taeda', ['pinus-taeda', 'pinus-echinata', 'quercus-rubra']);
     expect(result.unseparated).to.deep.equal(['pinus-echinata']);
-    expect(result.traits[0].separates).to.deep.equal(['quercus-rubra']);
+    expect(result.traits.map((item) => item.separates)).to.deep.equal([['quercus-rubra']]);
   });
 });
 

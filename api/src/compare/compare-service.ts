@@ -1,4 +1,4 @@
-import { compare, type Cell, type ComparisonVerdict, type TraitComparison } from '@shared/engine';
+import { compare, type Cell, type ComparisonVerdict, type SeparationStrength, type TraitComparison } from '@shared/engine';
 import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog';
 import { problems, type InvalidParam } from '../http/problem';
 import { cellInWords } from '../taxa/cell-words';
@@ -17,6 +17,8 @@ export interface ComparedTrait {
   part: string;
   kind: string;
   verdict: ComparisonVerdict;
+  /** with verdict `separates`: `reliable`, or `usual` when some pair is told apart only by its usual values or typical ranges */
+  strength?: SeparationStrength;
   text: string;
   taxa: Array<{ id: string; cell: Cell; coded: string }>;
 }
@@ -24,7 +26,7 @@ export interface ComparedTrait {
 export interface Comparison {
   edition: { id: number; publishedAt: string };
   taxa: Array<{ id: string; scientificName: string; commonNames: string[] }>;
-  /** every pair of the taxa is coded apart on these traits */
+  /** every pair of the taxa is coded apart on these traits: the reliable ones first, then those apart only by usual values or typical ranges */
   separating: ComparedTrait[];
   /** coded differently for some, but at least one pair overlaps */
   overlapping: ComparedTrait[];
@@ -64,6 +66,7 @@ export async function compareTaxa(editions: EditionCatalog, request: CompareRequ
       part: trait.part,
       kind: trait.kind,
       verdict: entry.verdict,
+      ...(entry.strength && { strength: entry.strength }),
       text: entry.text,
       taxa: request.taxa.map((id) => {
         const cell = entry.cells[id] ?? 'unknown';

@@ -1,4 +1,4 @@
-import { compare, diagnose } from '@shared/engine';
+import { compare, diagnose, type SeparationStrength } from '@shared/engine';
 import type { Models } from '../db/models';
 import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog';
 import { problems } from '../http/problem';
@@ -47,10 +47,12 @@ export interface Diagnostic {
     /** the look-alikes this trait sets the taxon apart from (those not already set apart by an earlier trait) */
     separates: string[];
     text: string;
+    /** `reliable` when it sets every one of `separates` apart reliably; `usual` when some only by their usual values or typical ranges */
+    strength: SeparationStrength;
     /** this taxon's coding, in words */
     coded: string;
     /** how each look-alike is coded on this trait, and whether the trait tells it apart */
-    lookAlikes: Array<{ id: string; coded: string; separated: boolean }>;
+    lookAlikes: Array<{ id: string; coded: string; separated: boolean; strength?: SeparationStrength }>;
   }>;
   /** look-alikes that no trait of the edition tells apart */
   unseparated: string[];
@@ -66,7 +68,7 @@ function diagnoseAmongLookAlikes(edition: LoadedEdition, taxonId: string, lookAl
     lookAlikeIds.map((id) => {
       const pair = compare(compiled, [taxonId, id]);
       const cells = new Map([...pair.separating, ...pair.overlapping, ...pair.same, ...pair.notCoded].map((entry) => [entry.trait, entry.cells]));
-      return [id, { cells, separating: new Set(pair.separating.map((entry) => entry.trait)) }];
+      return [id, { cells, separating: new Map(pair.separating.map((entry) => [entry.trait, entry.strength ?? 'reliable'])) }];
     }),
   );
   return {
@@ -75,9 +77,16 @@ function diagnoseAmongLookAlikes(edition: LoadedEdition, taxonId: string, lookAl
       // the taxon's own cell is in every pair; take it from the first
       const coded = (id: string) => cellInWords(trait, pairs.get(id === taxonId ? lookAlikeIds[0]! : id)?.cells.get(chosen.trait)?.[id] ?? 'unknown');
       return {
-        ...chosen,
+        trait: chosen.trait,
+        label: chosen.label,
+        separates: chosen.separates,
+        text: chosen.text,
+        strength: chosen.strength,
         coded: coded(taxonId),
-        lookAlikes: lookAlikeIds.map((id) => ({ id, coded: coded(id), separated: pairs.get(id)?.separating.has(chosen.trait) ?? false })),
+        lookAlikes: lookAlikeIds.map((id) => {
+          const strength = pairs.get(id)?.separating.get(chosen.trait);
+          return { id, coded: coded(id), separated: strength !== undefined, ...(strength && { strength }) };
+        }),
       };
     }),
     unseparated: diagnosis.unseparated,

@@ -3,7 +3,7 @@ import { RouterLink } from '@angular/router';
 import { MatButton } from '@angular/material/button';
 import { compare } from '@shared/engine';
 import type { CompiledMatrix } from '@shared/engine/compiled';
-import type { ComparisonVerdict, TraitComparison } from '@shared/engine/types';
+import type { ComparisonVerdict, SeparationStrength, TraitComparison } from '@shared/engine/types';
 import { commonName, describeCell } from '../../shared/matrix-words';
 
 const VERDICT_LABELS: Readonly<Record<ComparisonVerdict, string>> = {
@@ -12,6 +12,9 @@ const VERDICT_LABELS: Readonly<Record<ComparisonVerdict, string>> = {
   same: 'Same',
   'not-coded': 'Not coded for all',
 };
+
+/** a separator whose less common values (or extreme lengths) can still be shared */
+const USUALLY_SEPARATES = 'Usually separates';
 
 @Component({
   selector: 'sv-side-by-side',
@@ -41,10 +44,10 @@ const VERDICT_LABELS: Readonly<Record<ComparisonVerdict, string>> = {
           </thead>
           <tbody>
             @for (row of rows(); track row.trait) {
-              <tr [attr.data-verdict]="row.verdict" [attr.data-trait]="row.trait">
+              <tr [attr.data-verdict]="row.verdict" [attr.data-strength]="row.strength ?? null" [attr.data-trait]="row.trait">
                 <th scope="row">
                   {{ row.label }}
-                  <span class="verdict">{{ verdictLabel(row.verdict) }}</span>
+                  <span class="verdict">{{ verdictLabel(row.verdict, row.strength) }}</span>
                 </th>
                 @for (cell of row.cells; track $index) {
                   <td>{{ cell }}</td>
@@ -132,6 +135,7 @@ export class SideBySide {
         trait: comparison.trait,
         label: comparison.label,
         verdict: comparison.verdict,
+        strength: comparison.strength,
         cells: result.taxa.map((id) => describeCell(trait, comparison.cells[id] ?? 'unknown')),
       };
     };
@@ -146,7 +150,7 @@ export class SideBySide {
       .join(', '),
   );
 
-  protected verdictLabel(verdict: ComparisonVerdict): string {
-    return VERDICT_LABELS[verdict];
+  protected verdictLabel(verdict: ComparisonVerdict, strength?: SeparationStrength): string {
+    return verdict === 'separates' && strength === 'usual' ? USUALLY_SEPARATES : VERDICT_LABELS[verdict];
   }
 }

@@ -105,7 +105,9 @@ export default class SpeciesPage {
           trait: diagnostic.trait,
           label: diagnostic.label,
           here: describeCell(trait, cellOf(compiled, taxon.id, diagnostic.trait)),
-          separatesNames: diagnostic.separates.map(nameOf).join(', '),
+          strength: diagnostic.strength,
+          reliablyNames: diagnostic.separations.filter((item) => item.strength === 'reliable').map((item) => nameOf(item.taxonId)).join(', '),
+          usuallyNames: diagnostic.separations.filter((item) => item.strength === 'usual').map((item) => nameOf(item.taxonId)).join(', '),
         };
       }),
       unseparated: result.unseparated.map(nameOf).join(', '),
