@@ -192,6 +192,18 @@ function addMeasure(compiled: CompiledMatrix, observation: PreparedMeasure, logP
 /** observations added per pass over the taxa */
 const GROUP = 5;
 
+/** A column of unknown cells per matrix, shared by every ranking (it is only ever read). */
+const unknownColumns = new WeakMap<CompiledMatrix, Uint16Array>();
+
+function unknownColumnOf(compiled: CompiledMatrix): Uint16Array {
+  let column = unknownColumns.get(compiled);
+  if (!column) {
+    column = new Uint16Array(compiled.taxonCount);
+    unknownColumns.set(compiled, column);
+  }
+  return column;
+}
+
 /**
  * Adds every set observation in as few passes over the taxa as possible, five columns at a time
  * (a short last group is padded with a column of unknown cells that adds nothing): each taxon's
@@ -204,7 +216,7 @@ function addSets(compiled: CompiledMatrix, observations: readonly PreparedSet[],
   const tables = observations.map((observation) => setTables(compiled, observation));
   const padding = (GROUP - (observations.length % GROUP)) % GROUP;
   if (padding > 0) {
-    const unknownColumn = new Uint16Array(n);
+    const unknownColumn = unknownColumnOf(compiled);
     const nothing = { logs: new Float64Array(1), conflict: new Uint8Array(1), likelihood: new Float64Array([1]) };
     for (let i = 0; i < padding; i++) {
       columns.push(unknownColumn);
@@ -326,13 +338,26 @@ function lowestPossibleLog(compiled: CompiledMatrix, active: readonly PreparedOb
       lowest += Math.log(Math.min(MODEL.extremeScore, MODEL.unknownNumericScore, observation.trait.errorRate));
       continue;
     }
-    let smallest = Infinity;
-    const trait = observation.trait;
-    const row = compiled.likelihood.subarray(trait.likBase, trait.likBase + trait.patternCount * trait.answerCount);
-    for (const value of row) if (value < smallest) smallest = value;
-    lowest += Math.log(Math.min(1, smallest));
+    lowest += smallestLogLikelihoods(compiled)[observation.trait.index];
   }
   return lowest;
+}
+
+const smallestLogs = new WeakMap<CompiledMatrix, Float64Array>();
+
+/** Per trait, log of the smallest P(value | pattern) of any value and pattern (capped at 0); computed once per matrix. */
+function smallestLogLikelihoods(compiled: CompiledMatrix): Float64Array {
+  let logs = smallestLogs.get(compiled);
+  if (logs) return logs;
+  logs = new Float64Array(compiled.traits.length);
+  for (const trait of compiled.traits) {
+    let smallest = Infinity;
+    const end = trait.likBase + trait.patternCount * trait.answerCount;
+    for (let i = trait.likBase; i < end; i++) if (compiled.likelihood[i] < smallest) smallest = compiled.likelihood[i];
+    logs[trait.index] = Math.log(Math.min(1, smallest));
+  }
+  smallestLogs.set(compiled, logs);
+  return logs;
 }
 
 const LINEAR_SAFE_LOG = -600;
