@@ -109,7 +109,8 @@ export function readPeopleConfig(env: NodeJS.ProcessEnv, nodeEnv: Environment, p
     signInPerIpPer15Min: readInteger(env, 'SIGNIN_PER_IP_PER_15MIN', isTest ? 1000 : 30, 1, 1_000_000, problems),
     keyPerMinute: readInteger(env, 'KEY_PER_MINUTE', 120, 1, 1_000_000, problems),
     keyDailyQuota: readInteger(env, 'KEY_DAILY_QUOTA', 5000, 1, 100_000_000, problems),
-    anonymousBundlePerHour: readInteger(env, 'ANON_BUNDLE_PER_HOUR', isTest ? 1000 : 12, 1, 1_000_000, problems),
+    // A whole class often shares one school address, so the hourly bundle allowance is per room, not per pupil.
+    anonymousBundlePerHour: readInteger(env, 'ANON_BUNDLE_PER_HOUR', isTest ? 1000 : 300, 1, 1_000_000, problems),
     anonymousPerMinute: readInteger(env, 'ANON_PER_MINUTE', isTest ? 100_000 : 300, 1, 1_000_000, problems),
     redisUrl,
     smtpUrl,
