@@ -4,6 +4,7 @@ import type { Sequelize } from 'sequelize';
 import type { AppConfig } from '../config';
 import type { Models } from '../db/models';
 import { authenticate } from '../auth/authenticate';
+import { PrincipalCache } from '../auth/principal-cache';
 import { startMailer, type Mailer } from '../mail/mailer';
 import { devMailRoutes } from '../mail/dev-mail-routes';
 import { createLimiterStores, createRateLimiters, type LimiterStores } from '../keys/rate-limits';
@@ -50,10 +51,11 @@ export async function startPeople(deps: PeopleDeps): Promise<People> {
   const limiterStores = createLimiterStores(config.people, logger);
   const limiters = createRateLimiters(config.people, limiterStores);
   const accounts = accountService({ sequelize, models, config: config.people, mailer, logger });
-  const keys = keyService(models);
+  const keys = keyService(models, logger);
+  const principals = new PrincipalCache().watch(models);
 
-  const countKeyUse: RequestHandler = async (req, _res, next) => {
-    if (req.principal?.kind === 'key') await keys.recordUse(req.principal.keyId);
+  const countKeyUse: RequestHandler = (req, _res, next) => {
+    if (req.principal?.kind === 'key') keys.recordUse(req.principal.keyId);
     next();
   };
 
@@ -62,7 +64,11 @@ export async function startPeople(deps: PeopleDeps): Promise<People> {
   routes.use('/keys', keyRoutes(keys));
   routes.use('/admin/keys', adminKeyRoutes(keys));
   routes.use('/admin/users', userAdminRoutes(userAdminService(sequelize, models)));
-  routes.use('/admin/backups', backupRoutes(backupService(sequelize, config.people.backupDir, () => deps.afterRestore?.())));
+  routes.use('/admin/backups', backupRoutes(backupService(sequelize, config.people.backupDir, () => {
+    // a restore rewrites the tables directly, past the model hooks that keep the principal cache honest
+    principals.clear();
+    deps.afterRestore?.();
+  })));
   routes.use('/queries', queryRoutes(queryService({ sequelize, models, mailer, logger, publicUrl: config.people.publicUrl })));
 
   let devRoutes: Router | undefined;
@@ -76,11 +82,12 @@ export async function startPeople(deps: PeopleDeps): Promise<People> {
     limiterStores,
     accounts,
     keys,
-    gate: [authenticate(models), limiters.anonymous, ...limiters.partnerKey, countKeyUse],
+    gate: [authenticate(models, principals), limiters.anonymous, ...limiters.partnerKey, countKeyUse],
     anonymousBundleLimit: limiters.anonymousBundle,
     routes,
     devRoutes,
     async close() {
+      await keys.close();
       await mailer.close();
       await limiterStores.close();
     },

@@ -4,12 +4,19 @@ import { Strategy as BearerStrategy } from 'passport-http-bearer';
 import type { Models } from '../db/models';
 import { unauthorized } from './challenge';
 import type { Principal } from './principal';
+import type { PrincipalCache } from './principal-cache';
 import { findKeyPrincipal, findSessionPrincipal } from './principal-store';
 import { hashToken, KEY_PREFIX, SESSION_PREFIX } from './tokens';
 
-async function principalFor(models: Models, token: string): Promise<Principal | undefined> {
-  if (token.startsWith(SESSION_PREFIX)) return findSessionPrincipal(models, hashToken(token), new Date());
-  if (token.startsWith(KEY_PREFIX)) return findKeyPrincipal(models, hashToken(token));
+async function principalFor(models: Models, principals: PrincipalCache, token: string): Promise<Principal | undefined> {
+  if (token.startsWith(SESSION_PREFIX)) {
+    const tokenHash = hashToken(token);
+    return principals.resolve(tokenHash, () => findSessionPrincipal(models, tokenHash, new Date()));
+  }
+  if (token.startsWith(KEY_PREFIX)) {
+    const keyHash = hashToken(token);
+    return principals.resolve(keyHash, () => findKeyPrincipal(models, keyHash));
+  }
   return undefined;
 }
 
@@ -19,14 +26,15 @@ function isPrincipal(value: unknown): value is Principal {
 
 /**
  * Reads `Authorization: Bearer <token>` (a session token or a partner key) and sets req.principal.
- * No header means anonymous; a header that does not name a live token is a 401.
+ * No header means anonymous; a header that does not name a live token is a 401. Principals found
+ * are kept in `principals` for a few seconds (see PrincipalCache for how writes invalidate them).
  */
-export function authenticate(models: Models): RequestHandler {
+export function authenticate(models: Models, principals: PrincipalCache): RequestHandler {
   // One authenticator per app, so test apps with their own databases never share a strategy.
   const authenticator = new passport.Passport();
   authenticator.use(
     new BearerStrategy((token, done) => {
-      principalFor(models, token).then(
+      principalFor(models, principals, token).then(
         (principal) => done(null, principal ?? false),
         (error: unknown) => done(error),
       );

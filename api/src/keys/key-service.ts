@@ -1,8 +1,10 @@
+import type { Logger } from 'pino';
 import type { Models } from '../db/models';
 import type { Principal, Scope } from '../auth/principal';
 import { hashToken, KEY_PREFIX, newPartnerKey } from '../auth/tokens';
 import { problems } from '../http/problem';
-import { findKey, insertKey, listKeys, markRevoked, usageSince, countUse, type DailyUsage, type PartnerKey } from './key-store';
+import { UsageCounter } from './usage-counter';
+import { findKey, insertKey, listKeys, markRevoked, usageSince, type DailyUsage, type PartnerKey } from './key-store';
 
 /** How many days of usage a key listing shows, today included. */
 export const USAGE_DAYS = 7;
@@ -13,7 +15,9 @@ export interface KeyWithUsage extends PartnerKey {
 
 const utcDay = (date: Date) => date.toISOString().slice(0, 10);
 
-export function keyService(models: Models) {
+export function keyService(models: Models, logger?: Logger) {
+  const counter = new UsageCounter(models, logger);
+
   async function withUsage(keys: PartnerKey[]): Promise<KeyWithUsage[]> {
     const now = new Date();
     const today = utcDay(now);
@@ -52,10 +56,14 @@ export function keyService(models: Models) {
       await markRevoked(models, key.id, actor.userId, new Date());
     },
 
-    /** Counts one admitted request against the key's day. */
-    recordUse(keyId: number): Promise<void> {
-      const now = new Date();
-      return countUse(models, keyId, utcDay(now), now);
+    /** Counts one admitted request against the key's day (written within about a second). */
+    recordUse(keyId: number): void {
+      counter.record(keyId);
+    },
+
+    /** Writes the usage counted so far; the app calls it on close so no count is lost. */
+    close(): Promise<void> {
+      return counter.close();
     },
   };
 }

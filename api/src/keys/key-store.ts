@@ -64,16 +64,33 @@ export async function revokeKeysOf(models: Models, ownerId: number, revokedBy: n
   await models.PartnerKey.update({ revokedAt: now, revokedBy }, { where: { ownerId, revokedAt: null } });
 }
 
-/** Counts one request against a key's day in one statement, so concurrent requests never lose a count. */
-export async function countUse(models: Models, keyId: number, day: string, now: Date): Promise<void> {
+/** Requests counted against one key's UTC day, and when the last of them came in. */
+export interface UsageCount {
+  keyId: number;
+  day: string;
+  count: number;
+  lastUsedAt: Date;
+}
+
+/**
+ * Adds counted requests to key_usage in one statement (concurrent writers add, never overwrite) and
+ * moves each key's last-used time forward.
+ */
+export async function addUsage(models: Models, counts: readonly UsageCount[], now: Date): Promise<void> {
+  if (counts.length === 0) return;
   const sequelize = models.KeyUsage.sequelize;
   if (!sequelize) throw new Error('KeyUsage model is not bound to a database');
+  const rows = counts.map(() => '(?, ?, ?, ?, ?)').join(', ');
   await sequelize.query(
-    `INSERT INTO key_usage (key_id, day, count, created_at, updated_at) VALUES (:keyId, :day, 1, :now, :now)
-     ON CONFLICT (key_id, day) DO UPDATE SET count = key_usage.count + 1, updated_at = :now`,
-    { replacements: { keyId, day, now: now.toISOString() } },
+    `INSERT INTO key_usage (key_id, day, count, created_at, updated_at) VALUES ${rows}
+     ON CONFLICT (key_id, day) DO UPDATE SET count = key_usage.count + excluded.count, updated_at = excluded.updated_at`,
+    { replacements: counts.flatMap((c) => [c.keyId, c.day, c.count, now.toISOString(), now.toISOString()]) },
   );
-  await models.PartnerKey.update({ lastUsedAt: now }, { where: { id: keyId } });
+  const lastUse = new Map<number, Date>();
+  for (const c of counts) if ((lastUse.get(c.keyId)?.getTime() ?? -Infinity) < c.lastUsedAt.getTime()) lastUse.set(c.keyId, c.lastUsedAt);
+  for (const [id, lastUsedAt] of lastUse) {
+    await models.PartnerKey.update({ lastUsedAt }, { where: { id, lastUsedAt: { [Op.or]: [{ [Op.is]: null }, { [Op.lt]: lastUsedAt }] } } });
+  }
 }
 
 /** Usage per key for the days from `sinceDay` on (YYYY-MM-DD, UTC), oldest first. */
