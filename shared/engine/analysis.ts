@@ -6,7 +6,7 @@
  */
 import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
 import { effectiveCellOf, requireTaxon } from './lookup';
-import { relation, separationStrength, separatesCompletely } from './separation';
+import { relation, separationStrength } from './separation';
 import { codedText, joinAnd } from './texts';
 import type {
   ComparisonResult,
@@ -173,36 +173,52 @@ function describeCondition(trait: CompiledTrait): string {
     .join(' and ');
 }
 
-/** Data-quality report of an edition: what the curators should look at. */
+/**
+ * Data-quality report of an edition: what the curators should look at.
+ *
+ * Separation is graded as in `compare` and `diagnose` (see separation.ts): a pair is inseparable
+ * when no trait separates it even by its usual values or typical ranges, and weakly separated when
+ * some trait does so but none reliably; a trait separates nothing when it separates no pair at
+ * either strength.
+ */
 export function health(compiled: CompiledMatrix): HealthReport {
   const n = compiled.taxonCount;
   const traits = compiled.traits;
   const separatesAnything = new Uint8Array(traits.length);
   const known = new Map(compiled.inseparable.map((pair) => [[...pair.taxa].sort().join('\u0000'), pair.reason]));
   const inseparablePairs: HealthReport['inseparablePairs'] = [];
+  const weaklySeparated: HealthReport['weaklySeparated'] = [];
+  const usually: string[] = [];
   for (let a = 0; a < n; a++) {
     for (let b = a + 1; b < n; b++) {
-      let separated = false;
+      let reliably = false;
+      usually.length = 0;
       for (const trait of traits) {
-        if (separatesCompletely(compiled, trait, a, b)) {
-          separated = true;
-          separatesAnything[trait.index] = 1;
+        const strength = separationStrength(compiled, trait, a, b);
+        if (strength === null) continue;
+        separatesAnything[trait.index] = 1;
+        if (strength === 'reliable') {
+          reliably = true;
           break;
         }
+        usually.push(trait.code);
       }
-      if (!separated) {
-        const taxa: [string, string] = [compiled.taxa[a].id, compiled.taxa[b].id];
-        const reason = known.get([...taxa].sort().join('\u0000'));
-        inseparablePairs.push({ taxa, known: reason !== undefined, ...(reason !== undefined && { reason }) });
+      if (reliably) continue;
+      const taxa: [string, string] = [compiled.taxa[a].id, compiled.taxa[b].id];
+      if (usually.length > 0) {
+        weaklySeparated.push({ taxa, traits: [...usually] });
+        continue;
       }
+      const reason = known.get([...taxa].sort().join('\u0000'));
+      inseparablePairs.push({ taxa, known: reason !== undefined, ...(reason !== undefined && { reason }) });
     }
   }
-  // a trait not found first for any pair may still separate some pair
+  // a trait after the first reliable separator of every pair it separates is not marked yet
   for (const trait of traits) {
     if (separatesAnything[trait.index]) continue;
     search: for (let a = 0; a < n; a++) {
       for (let b = a + 1; b < n; b++) {
-        if (separatesCompletely(compiled, trait, a, b)) {
+        if (separationStrength(compiled, trait, a, b) !== null) {
           separatesAnything[trait.index] = 1;
           break search;
         }
@@ -225,6 +241,7 @@ export function health(compiled: CompiledMatrix): HealthReport {
   });
   return {
     inseparablePairs,
+    weaklySeparated,
     emptyCells,
     emptyShare: n * traits.length > 0 ? empty / (n * traits.length) : 0,
     traitsSeparatingNothing: n < 2 ? traits.map((trait) => trait.code) : traits.filter((trait) => !separatesAnything[trait.index]).map((trait) => trait.code),

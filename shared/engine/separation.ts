@@ -96,7 +96,7 @@ export function separationStrength(compiled: CompiledMatrix, trait: CompiledTrai
 
 /**
  * True when no value (any frequency) and no extreme-range length is shared, or the trait applies to
- * exactly one of the two: the strictest sense, which the health report uses.
+ * exactly one of the two: the strictest sense. Every such separation is also graded `reliable`.
  */
 export function separatesCompletely(compiled: CompiledMatrix, trait: CompiledTrait, a: number, b: number): boolean {
   const n = compiled.taxonCount;

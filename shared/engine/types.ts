@@ -281,13 +281,22 @@ export interface DiagnosisResult {
 }
 
 export interface HealthReport {
-  /** pairs of taxa that no trait separates; `known` when the document records the pair as inseparable */
+  /**
+   * pairs of taxa that no trait separates, not even by usual values or typical ranges; `known` when
+   * the document records the pair as inseparable
+   */
   inseparablePairs: Array<{ taxa: [string, string]; known: boolean; reason?: string }>;
+  /**
+   * pairs that no trait separates reliably but some separate by their usual values or typical ranges
+   * only (an occasional or rare value, or an extreme length, is shared); `traits` are those traits,
+   * in matrix order. A softer warning: coding one firm difference would make the pair reliable.
+   */
+  weaklySeparated: Array<{ taxa: [string, string]; traits: string[] }>;
   /** unknown cells, per taxon */
   emptyCells: Array<{ taxon: string; traits: string[] }>;
   /** share of cells that are unknown, in [0, 1] */
   emptyShare: number;
-  /** traits on which no two taxa have disjoint codings */
+  /** traits that separate no two taxa, not even by their usual values or typical ranges */
   traitsSeparatingNothing: string[];
   /** numeric cells whose min ≤ low ≤ high ≤ max order was broken in the document (compiled sorted) */
   rangesOutOfOrder: Array<{ taxon: string; trait: string; cell: NumericCell }>;

@@ -1,6 +1,8 @@
 import { expect } from 'chai';
+import fc from 'fast-check';
 import { buildKey, compare, compileMatrix, diagnose, health, keyToLines, type KeyNode, type MatrixDocument } from '@shared/engine';
 import { generateSyntheticMatrix } from '../../shared/engine/synthetic';
+import { loadReferenceMatrix } from '../../seeds/load-matrix';
 import { southernTreesMatrix, taxon } from './fixtures';
 
 function leaves(node: KeyNode): string[][] {
@@ -77,30 +79,106 @@ describe('diagnose', () => {
 });
 
 describe('health', () => {
-  it('finds inseparable pairs, empty cells, useless traits, out-of-order ranges and appliesWhen violations', () => {
+  it('finds inseparable and weakly separated pairs, empty cells, useless traits, out-of-order ranges and appliesWhen violations', () => {
     const doc = southernTreesMatrix();
     doc.taxa[0].cells['needle-length'] = { min: 10, low: 18, high: 12, max: 23 };
+    // longleaf's typical range now overlaps loblolly's, and nothing else tells them apart
+    doc.taxa[2].cells['needle-length'] = { min: 10, low: 15, high: 38, max: 45 };
     doc.taxa[4].cells['needles-per-fascicle'] = { usual: [3] };
+    // a twin of northern red oak whose only difference is bark, which is not coded for the red oak
+    doc.taxa.push(taxon('quercus-falcata', structuredClone(doc.taxa[5].cells)));
     delete doc.taxa[5].cells['bark-texture'];
     doc.traits.push({ code: 'crown-form', label: 'Crown form', part: 'form', kind: 'state', season: 'any', ease: 1, errorRate: 0.1, values: [{ code: 'vase', label: 'Vase' }] });
-    for (const entry of doc.taxa) entry.cells['crown-form'] = { usual: ['vase'] };
-    doc.inseparable = [{ taxa: ['pinus-echinata', 'pinus-taeda'], reason: 'overlapping codings in this test' }];
+    // bark colour separates the two white oaks by usual value only: each shows the other's colour occasionally
+    doc.traits.push({
+      code: 'bark-color', label: 'Bark colour', part: 'bark', kind: 'state', season: 'any', ease: 1, errorRate: 0.2,
+      values: [{ code: 'grey', label: 'Grey' }, { code: 'brown', label: 'Brown' }],
+    });
+    for (const entry of doc.taxa) {
+      entry.cells['crown-form'] = { usual: ['vase'] };
+      entry.cells['bark-color'] = { usual: ['grey'], occasional: ['brown'] };
+    }
+    doc.taxa[4].cells['bark-color'] = { usual: ['brown'], occasional: ['grey'] };
+    doc.inseparable = [{ taxa: ['quercus-falcata', 'quercus-rubra'], reason: 'overlapping codings in this test' }];
     const report = health(compileMatrix(doc));
     expect(report.inseparablePairs).to.deep.equal([
-      { taxa: ['pinus-taeda', 'pinus-echinata'], known: true, reason: 'overlapping codings in this test' },
       { taxa: ['pinus-taeda', 'pinus-palustris'], known: false },
+      { taxa: ['quercus-rubra', 'quercus-falcata'], known: true, reason: 'overlapping codings in this test' },
+    ]);
+    // shortleaf shows 3 needles occasionally and its recorded extremes reach the others' typical lengths
+    expect(report.weaklySeparated).to.deep.equal([
+      { taxa: ['pinus-taeda', 'pinus-echinata'], traits: ['needles-per-fascicle', 'needle-length'] },
+      { taxa: ['pinus-echinata', 'pinus-palustris'], traits: ['needles-per-fascicle', 'needle-length'] },
     ]);
     expect(report.emptyCells).to.deep.equal([{ taxon: 'quercus-rubra', traits: ['bark-texture'] }]);
+    // bark colour separates only by usual values and still counts; crown form separates nobody
     expect(report.traitsSeparatingNothing).to.deep.equal(['crown-form']);
     expect(report.rangesOutOfOrder).to.deep.equal([{ taxon: 'pinus-taeda', trait: 'needle-length', cell: { min: 10, low: 18, high: 12, max: 23 } }]);
     expect(report.appliesWhenViolations).to.deep.equal([{ taxon: 'quercus-alba', trait: 'needles-per-fascicle', condition: 'foliage is needle' }]);
     expect(report.warnings.map((warning) => warning.code)).to.include.members(['range-out-of-order', 'applies-when-violation']);
   });
 
+  it('lists a trait that separates nothing even by usual values', () => {
+    const doc = southernTreesMatrix();
+    doc.traits.push({
+      code: 'bark-color', label: 'Bark colour', part: 'bark', kind: 'state', season: 'any', ease: 1, errorRate: 0.2,
+      values: [{ code: 'grey', label: 'Grey' }, { code: 'brown', label: 'Brown' }],
+    });
+    // every taxon usually grey: the occasional brown of some is no separation at all
+    for (const entry of doc.taxa) entry.cells['bark-color'] = { usual: ['grey'] };
+    doc.taxa[0].cells['bark-color'] = { usual: ['grey'], occasional: ['brown'] };
+    doc.taxa[6].cells['bark-color'] = 'unknown';
+    expect(health(compileMatrix(doc)).traitsSeparatingNothing).to.deep.equal(['bark-color']);
+  });
+
+  it('sorts every pair of a random matrix the way compare and diagnose do', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 2 ** 31 - 1 }), fc.integer({ min: 2, max: 10 }), fc.integer({ min: 1, max: 6 }), (seed, taxa, traits) => {
+        const compiled = compileMatrix(generateSyntheticMatrix({ seed, taxa, traits, unknownRate: 0.2, multiValueRate: 0.5, conditionalShare: 0.2 }));
+        const report = health(compiled);
+        const key = (ids: readonly string[]): string => ids.join('/');
+        const inseparable = new Set(report.inseparablePairs.map((pair) => key(pair.taxa)));
+        const weakly = new Map(report.weaklySeparated.map((pair) => [key(pair.taxa), pair.traits]));
+        const useful = new Set<string>();
+        for (let a = 0; a < compiled.taxonCount; a++) {
+          for (let b = a + 1; b < compiled.taxonCount; b++) {
+            const ids = [compiled.taxa[a].id, compiled.taxa[b].id];
+            const result = compare(compiled, ids);
+            for (const entry of result.separating) useful.add(entry.trait);
+            const reliable = result.separating.filter((entry) => entry.strength === 'reliable');
+            const usual = result.separating.filter((entry) => entry.strength === 'usual').map((entry) => entry.trait);
+            expect(inseparable.has(key(ids)), key(ids)).to.equal(result.separating.length === 0);
+            expect(inseparable.has(key(ids))).to.equal(diagnose(compiled, ids[0], [ids[1]]).unseparated.length === 1);
+            expect(weakly.get(key(ids)), key(ids)).to.deep.equal(reliable.length === 0 && usual.length > 0 ? usual : undefined);
+          }
+        }
+        expect(report.traitsSeparatingNothing).to.deep.equal(compiled.traits.map((trait) => trait.code).filter((code) => !useful.has(code)));
+      }),
+      { numRuns: 40 },
+    );
+  });
+
+  it('finds no inseparable pair in the reference matrix that the matrix does not list', () => {
+    const doc = loadReferenceMatrix();
+    const listed = new Set((doc.inseparable ?? []).map((pair) => [...pair.taxa].sort().join('/')));
+    const compiled = compileMatrix(doc);
+    const report = health(compiled);
+    const unlisted = report.inseparablePairs.filter((pair) => !listed.has([...pair.taxa].sort().join('/')));
+    expect(unlisted, 'inseparable pairs not in inseparable.json').to.deep.equal([]);
+    expect(report.inseparablePairs.every((pair) => pair.known)).to.equal(true);
+    // every weakly separated pair really has a usual-strength separator and no reliable one
+    for (const pair of report.weaklySeparated) {
+      const strengths = compare(compiled, pair.taxa).separating.map((entry) => entry.strength);
+      expect(strengths, pair.taxa.join(' / ')).to.not.include('reliable');
+      expect(pair.traits, pair.taxa.join(' / ')).to.not.be.empty;
+    }
+  });
+
   it('copes with an empty matrix', () => {
     const empty: MatrixDocument = { format: 'sylvasift-matrix', version: 1, title: 'Empty', traits: [], taxa: [] };
     const report = health(compileMatrix(empty));
     expect(report.inseparablePairs).to.deep.equal([]);
+    expect(report.weaklySeparated).to.deep.equal([]);
     expect(report.emptyShare).to.equal(0);
   });
 });
