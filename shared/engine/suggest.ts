@@ -339,35 +339,42 @@ function leewayCounts(scored: Scored, leeway: number): LeewayCounts {
   return { below, atLeeway };
 }
 
+/** Inserts member i with `value` into `best` (positions, best first, -1 = empty) when it is among the top; ties go to the lower position. */
+function insertTop(best: Int32Array, at: number, values: Float64Array, i: number, value: number, size: number): void {
+  let slot = size;
+  while (slot > 0 && (best[at + slot - 1] < 0 || value > values[at + slot - 1] || (value === values[at + slot - 1] && i < best[at + slot - 1]))) slot--;
+  if (slot >= size) return;
+  for (let s = size - 1; s > slot; s--) {
+    best[at + s] = best[at + s - 1];
+    values[at + s] = values[at + s - 1];
+  }
+  best[at + slot] = i;
+  values[at + slot] = value;
+}
+
 /** Leaders per answer of a discrete trait from the three heaviest members of each pattern (L depends only on the pattern). */
 function discreteLeaders(compiled: CompiledMatrix, trait: CompiledTrait, set: WorkingSet): number[][] {
   const n = compiled.taxonCount;
-  const tops = new Map<number, number[]>();
-  for (let i = 0; i < set.members.length; i++) {
-    const pattern = compiled.cellPattern[trait.index * n + set.members[i]];
-    let list = tops.get(pattern);
-    if (!list) {
-      list = [];
-      tops.set(pattern, list);
-    }
-    if (list.length === 3 && set.weight[i] <= set.weight[list[2]]) continue;
-    let at = list.length;
-    while (at > 0 && set.weight[i] > set.weight[list[at - 1]]) at--;
-    list.splice(at, 0, i);
-    if (list.length > 3) list.pop();
-  }
+  const base = trait.index * n;
+  const patterns = trait.patternCount;
+  const tops = new Int32Array(patterns * 3).fill(-1);
+  const topWeights = new Float64Array(patterns * 3);
+  for (let i = 0; i < set.members.length; i++) insertTop(tops, compiled.cellPattern[base + set.members[i]] * 3, topWeights, i, set.weight[i], 3);
   const k = trait.answerCount;
+  const leaders = new Int32Array(3);
+  const leaderValues = new Float64Array(3);
   return Array.from({ length: k }, (_, a) => {
-    const scoredMembers: Array<[number, number]> = [];
-    for (const [pattern, list] of tops) {
+    leaders.fill(-1);
+    for (let pattern = 0; pattern < patterns; pattern++) {
       const likelihood = compiled.likelihood[trait.likBase + pattern * k + a];
-      for (const i of list) scoredMembers.push([i, set.weight[i] * likelihood]);
+      for (let s = 0; s < 3; s++) {
+        const i = tops[pattern * 3 + s];
+        if (i < 0) break;
+        const value = set.weight[i] * likelihood;
+        if (value > 0) insertTop(leaders, 0, leaderValues, i, value, 3);
+      }
     }
-    return scoredMembers
-      .filter(([, value]) => value > 0)
-      .sort((x, y) => y[1] - x[1] || x[0] - y[0])
-      .slice(0, 3)
-      .map(([i]) => i);
+    return Array.from(leaders).filter((i) => i >= 0);
   });
 }
 
