@@ -7,7 +7,11 @@
  * Pass bar: identify reaches at least half the floor's requests/s, with p99 under 50 ms, at
  * CONNECTIONS concurrent connections. Load generator and server share the machine's cores, so the
  * ratio matters more than the absolute numbers.
+ *
+ *   npm run bench:api -- --profile   also writes a CPU profile of the identify run to bench-identify.cpuprofile
  */
+import { writeFile } from 'node:fs/promises';
+import { Session } from 'node:inspector/promises';
 import { createRequire } from 'node:module';
 import type { AddressInfo } from 'node:net';
 import type { Server } from 'node:http';
@@ -18,6 +22,7 @@ const CONNECTIONS = 16;
 const DURATION_S = Number(process.env['BENCH_SECONDS'] ?? 8);
 const LIMITER_QUOTA = 50;
 const LIMITER_REQUESTS = 80;
+const PROFILE = process.argv.includes('--profile');
 
 interface AutocannonResult {
   requests: { average: number; total: number };
@@ -86,6 +91,23 @@ function describe(name: string, result: AutocannonResult): string {
   return `${name.padEnd(24)} ${result.requests.average.toFixed(0).padStart(6)} req/s   p50 ${String(result.latency.p50).padStart(3)} ms   p99 ${String(result.latency.p99).padStart(3)} ms   non-2xx ${result.non2xx}   errors ${result.errors}`;
 }
 
+/** Runs `work`, recording a CPU profile of this process (server and load generator) when --profile is given. */
+async function profiled<T>(file: string, work: () => Promise<T>): Promise<T> {
+  if (!PROFILE) return work();
+  const session = new Session();
+  session.connect();
+  await session.post('Profiler.enable');
+  await session.post('Profiler.start');
+  try {
+    return await work();
+  } finally {
+    const { profile } = await session.post('Profiler.stop');
+    await writeFile(file, JSON.stringify(profile));
+    session.disconnect();
+    console.log(`CPU profile of the identify run written to ${file}`);
+  }
+}
+
 async function throughput(): Promise<boolean> {
   const created = await createApp(
     loadConfig({ NODE_ENV: 'test', LOG_LEVEL: 'silent', VALIDATE_RESPONSES: 'false', KEY_PER_MINUTE: '1000000', KEY_DAILY_QUOTA: '100000000' }),
@@ -99,7 +121,9 @@ async function throughput(): Promise<boolean> {
     await autocannon({ url: `${base}/api/health`, connections: 4, amount: 400 });
 
     const floor = await autocannon({ url: `${base}/api/health`, connections: CONNECTIONS, duration: DURATION_S });
-    const identify = await autocannon({ url: `${base}/api/v1/identify`, connections: CONNECTIONS, duration: DURATION_S, method: 'POST', headers, body: TYPICAL_SIFT });
+    const identify = await profiled('bench-identify.cpuprofile', () =>
+      autocannon({ url: `${base}/api/v1/identify`, connections: CONNECTIONS, duration: DURATION_S, method: 'POST', headers, body: TYPICAL_SIFT }),
+    );
     const ratio = identify.requests.average / floor.requests.average;
     console.log(`\nconcurrency ${CONNECTIONS} connections, ${DURATION_S} s each, one process on loopback\n`);
     console.log(describe('GET /api/health (floor)', floor));
