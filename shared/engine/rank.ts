@@ -10,7 +10,7 @@ import { EngineUsageError, usageMessages } from './errors';
 import { effectiveCellOf } from './lookup';
 import { rangeOf } from './separation';
 import { prepareObservations, type PreparedObservation } from './observations';
-import { exactProbability, measureRegion, regionLikelihood, scoreObservations, type Scored, type SkipCause } from './scoring';
+import { exactProbability, measureRegion, regionLikelihood, scoreObservations, scoringScratch, type Scored, type SkipCause } from './scoring';
 import { codedText, observedText, reasonTexts } from './texts';
 import type { Candidate, Observation, RankResult, Reason, ReasonStatus } from './types';
 
@@ -156,9 +156,6 @@ class BestList {
   }
 }
 
-/** The best `limit` taxa within the leeway and the best `limit` beyond it, in one pass. */
-
-
 function toCandidate(compiled: CompiledMatrix, scored: Scored, prepared: readonly PreparedObservation[], t: number, cache: ReasonCache): Candidate {
   return {
     taxonId: compiled.taxa[t].id,
@@ -178,11 +175,12 @@ export function rank(compiled: CompiledMatrix, observations: readonly Observatio
   const limit = resolveCount('limit', options.limit, RANK_DEFAULTS.limit);
   const prepared = prepareObservations(compiled, observations);
   let lists: { kept: BestList; dropped: BestList } | undefined;
+  // the scored arrays are this matrix's scratch: everything needed from them is read before returning
   const scored = scoreObservations(compiled, prepared, options.priors, false, (t, partial) => {
     lists ??= { kept: new BestList(partial, limit), dropped: new BestList(partial, limit) };
     if (partial.conflicts[t] <= leeway) lists.kept.offer(t);
     else lists.dropped.offer(t);
-  });
+  }, scoringScratch(compiled));
   const kept = lists?.kept ?? new BestList(scored, limit);
   const dropped = lists?.dropped ?? new BestList(scored, limit);
   const skipped = [...scored.skipped.entries()].map(([index, cause]) => {

@@ -362,24 +362,78 @@ function smallestLogLikelihoods(compiled: CompiledMatrix): Float64Array {
 
 const LINEAR_SAFE_LOG = -600;
 
-/** Scores prepared observations against every taxon; `visit` is called for each taxon once its score is final. */
+/**
+ * Per-taxon working arrays of one matrix, reused by every ranking of it instead of allocating
+ * fresh ones per call.
+ *
+ * Invariant: the engine is synchronous and single-threaded, and a scoring that uses the scratch
+ * finishes (and its caller has read everything it needs from the Scored) before the next scoring
+ * of the same matrix can start; nothing that holds on to a Scored past its call (suggest, anything
+ * returning probabilities) may use it. A Worker gets its own module instance, hence its own scratch.
+ */
+export interface ScoringScratch {
+  logPosterior: Float64Array;
+  linear: Float64Array;
+  conflicts8: Uint8Array;
+  conflicts16: Uint16Array | undefined;
+}
+
+const scratches = new WeakMap<CompiledMatrix, ScoringScratch>();
+
+export function scoringScratch(compiled: CompiledMatrix): ScoringScratch {
+  let scratch = scratches.get(compiled);
+  if (!scratch) {
+    const n = compiled.taxonCount;
+    scratch = { logPosterior: new Float64Array(n), linear: new Float64Array(n), conflicts8: new Uint8Array(n), conflicts16: undefined };
+    scratches.set(compiled, scratch);
+  }
+  return scratch;
+}
+
+/**
+ * Scores prepared observations against every taxon; `visit` is called for each taxon once its score
+ * is final. With a `scratch`, the returned arrays are the scratch's and only valid until the next
+ * scoring with it (see ScoringScratch); without, they are fresh.
+ */
 export function scoreObservations(
   compiled: CompiledMatrix,
   prepared: readonly PreparedObservation[],
   priors?: Readonly<Record<string, number>>,
   withProbabilities = true,
   visit?: (t: number, scored: Scored) => void,
+  scratch?: ScoringScratch,
 ): Scored {
   const n = compiled.taxonCount;
   const logPrior = logPriors(compiled, priors);
-  const logPosterior = logPrior.slice();
-  const skipped = findSkipped(prepared);
+  let logPosterior: Float64Array;
+  let conflicts: Uint8Array | Uint16Array;
   // one byte per taxon is enough below 256 observations, and halves the traffic of counting
-  const conflicts = prepared.length < 256 ? new Uint8Array(n) : new Uint16Array(n);
+  const narrow = prepared.length < 256;
+  if (scratch) {
+    logPosterior = scratch.logPosterior;
+    logPosterior.set(logPrior);
+    if (narrow) conflicts = scratch.conflicts8.fill(0);
+    else conflicts = (scratch.conflicts16 ??= new Uint16Array(n)).fill(0);
+  } else {
+    logPosterior = logPrior.slice();
+    conflicts = narrow ? new Uint8Array(n) : new Uint16Array(n);
+  }
+  const skipped = findSkipped(prepared);
   const active = prepared.filter((observation) => !skipped.has(observation.index));
-  const linear = lowestPossibleLog(compiled, active, logPrior) > LINEAR_SAFE_LOG ? priorWeights(compiled, priors, logPrior).slice() : undefined;
-  addSets(compiled, active.filter((observation): observation is PreparedSet => observation.kind === 'set'), logPosterior, conflicts, linear);
-  for (const observation of active) if (observation.kind === 'measure') addMeasure(compiled, observation, logPosterior, conflicts, linear);
+  let linear: Float64Array | undefined;
+  if (lowestPossibleLog(compiled, active, logPrior) > LINEAR_SAFE_LOG) {
+    const weights = priorWeights(compiled, priors, logPrior);
+    if (scratch) {
+      linear = scratch.linear;
+      linear.set(weights);
+    } else {
+      linear = weights.slice();
+    }
+  }
+  // with no linear weights to keep, the set and measure passes multiply a throwaway array of zeros
+  const throwaway = linear ?? (scratch ? scratch.linear.fill(0) : undefined);
+  addSets(compiled, active.filter((observation): observation is PreparedSet => observation.kind === 'set'), logPosterior, conflicts, throwaway);
+  for (const observation of active) if (observation.kind === 'measure') addMeasure(compiled, observation, logPosterior, conflicts, throwaway);
   const scored: Scored = { logPosterior, probability: new Float64Array(0), maxLog: 0, logTotal: 0, conflicts, active, skipped };
   if (linear && n > 0) {
     let total = 0;

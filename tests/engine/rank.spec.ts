@@ -1,5 +1,10 @@
 import { expect } from 'chai';
-import { compileMatrix, ObservationError, rank, type Candidate, type MatrixDocument, type RankResult } from '@shared/engine';
+import fc from 'fast-check';
+import { compileMatrix, generateSyntheticMatrix, ObservationError, rank, type Candidate, type MatrixDocument, type Observation, type RankResult } from '@shared/engine';
+import { prepareObservations } from '../../shared/engine/observations';
+import { exactProbability, scoreObservations } from '../../shared/engine/scoring';
+import { seededRandom } from '../../shared/engine/synthetic';
+import { drawAnswer } from '../../scripts/lib/engine-sim';
 import { arithmeticMatrix, southernTreesMatrix, taxon } from './fixtures';
 
 function probabilities(result: RankResult): Record<string, number> {
@@ -211,5 +216,35 @@ describe('rank: edge cases', () => {
     expect(result.candidates).to.have.length(7);
     for (const candidate of result.candidates) expect(Number.isFinite(candidate.probability)).to.equal(true);
     expect(total).to.be.closeTo(1, 1e-12);
+  });
+});
+
+describe('rank reusing its per-matrix scratch', () => {
+  it('gives bit-identical results to a scoring with fresh arrays, whatever was ranked before', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 1, max: 2 ** 31 - 1 }), fc.integer({ min: 1, max: 60 }), fc.integer({ min: 1, max: 12 }), (seed, taxa, traits) => {
+        const compiled = compileMatrix(generateSyntheticMatrix({ seed, taxa, traits, unknownRate: 0.1, multiValueRate: 0.4, conditionalShare: 0.2 }));
+        const random = seededRandom(seed);
+        const draw = (): Observation[] => {
+          const t = Math.floor(random() * compiled.taxonCount);
+          return compiled.traits.flatMap((trait) => (random() < 0.6 ? [drawAnswer(compiled, trait.index, t, random, 0.2)] : [])).filter((item): item is Observation => item !== undefined);
+        };
+        const first = draw();
+        const second = draw();
+        const options = { leeway: Infinity, limit: Infinity };
+        const once = rank(compiled, first, options);
+        // a ranking in between leaves other numbers in the scratch
+        rank(compiled, second, { leeway: 0, limit: 3 });
+        const again = rank(compiled, first, options);
+        expect(JSON.stringify(again)).to.equal(JSON.stringify(once));
+        const fresh = scoreObservations(compiled, prepareObservations(compiled, first), undefined, false);
+        for (const candidate of [...again.candidates, ...again.ruledOut]) {
+          const t = compiled.taxonIndexById.get(candidate.taxonId)!;
+          expect(Object.is(candidate.probability, exactProbability(fresh, t)), candidate.taxonId).to.equal(true);
+          expect(candidate.conflicts).to.equal(fresh.conflicts[t]);
+        }
+      }),
+      { numRuns: 60 },
+    );
   });
 });
