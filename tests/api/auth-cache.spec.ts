@@ -118,6 +118,19 @@ describe('api: cached principals and batched key usage', () => {
       expect(await countInTable()).to.equal(4);
     });
 
+    it('drops the counts of a key deleted since, so they do not hold back the others', async () => {
+      const owner = await signUpAndSignIn(created, 'learner');
+      const { id } = await createPartnerKey(created, owner.token, ['lookup']);
+      const counter = new UsageCounter(created.context.models, undefined, 60_000);
+      counter.record(id);
+      counter.record(id + 1000);
+      await counter.flush(); // fails on the missing key; the live key's count is kept
+      await counter.flush();
+      const [rows] = await created.context.sequelize.query('SELECT key_id AS keyId, count FROM key_usage ORDER BY key_id');
+      expect(rows).to.deep.equal([{ keyId: id, count: 1 }]);
+      await counter.close();
+    });
+
     it('counts usage in memory and lists it complete, last use included', async () => {
       const owner = await signUpAndSignIn(created, 'learner');
       const { key, id } = await createPartnerKey(created, owner.token, ['lookup']);

@@ -1,4 +1,4 @@
-import { Op } from 'sequelize';
+import { Op, QueryTypes } from 'sequelize';
 import type { Models } from '../db/models';
 import { isScope, type Scope } from '../auth/principal';
 
@@ -72,10 +72,7 @@ export interface UsageCount {
   lastUsedAt: Date;
 }
 
-/**
- * Adds counted requests to key_usage in one statement (concurrent writers add, never overwrite) and
- * moves each key's last-used time forward.
- */
+/** Adds counted requests to key_usage in one statement (concurrent writers add, never overwrite). */
 export async function addUsage(models: Models, counts: readonly UsageCount[], now: Date): Promise<void> {
   if (counts.length === 0) return;
   const sequelize = models.KeyUsage.sequelize;
@@ -86,11 +83,24 @@ export async function addUsage(models: Models, counts: readonly UsageCount[], no
      ON CONFLICT (key_id, day) DO UPDATE SET count = key_usage.count + excluded.count, updated_at = excluded.updated_at`,
     { replacements: counts.flatMap((c) => [c.keyId, c.day, c.count, now.toISOString(), now.toISOString()]) },
   );
+}
+
+/** Moves each counted key's last-used time forward (never back, whatever order processes write in). */
+export async function touchLastUsed(models: Models, counts: readonly UsageCount[]): Promise<void> {
   const lastUse = new Map<number, Date>();
   for (const c of counts) if ((lastUse.get(c.keyId)?.getTime() ?? -Infinity) < c.lastUsedAt.getTime()) lastUse.set(c.keyId, c.lastUsedAt);
   for (const [id, lastUsedAt] of lastUse) {
     await models.PartnerKey.update({ lastUsedAt }, { where: { id, lastUsedAt: { [Op.or]: [{ [Op.is]: null }, { [Op.lt]: lastUsedAt }] } } });
   }
+}
+
+/** Which of the keys counted still exist (read directly, so it never waits for pending usage). */
+export async function liveKeyIds(models: Models, counts: readonly UsageCount[]): Promise<Set<number>> {
+  const sequelize = models.PartnerKey.sequelize;
+  if (!sequelize) throw new Error('PartnerKey model is not bound to a database');
+  const ids = [...new Set(counts.map((c) => c.keyId))];
+  const rows = await sequelize.query<{ id: number }>('SELECT id FROM partner_keys WHERE id IN (:ids)', { replacements: { ids }, type: QueryTypes.SELECT });
+  return new Set(rows.map((row) => row.id));
 }
 
 /** Usage per key for the days from `sinceDay` on (YYYY-MM-DD, UTC), oldest first. */

@@ -2,13 +2,13 @@
  * Partner-key usage counted in memory per (key, UTC day) and written in one statement about every
  * second, so a busy key costs no database write per request.
  *
- * Invariant: every counted request reaches key_usage. A failed write puts its counts back for the
- * next flush; close() writes what is left; and any read of key usage or of partner keys through the
+ * Invariant: every counted request of a key that still exists reaches key_usage. A failed write
+ * puts its counts back for the next flush; close() writes what is left; and any read of key usage or of partner keys through the
  * models waits for the counts so far (outside a transaction), so a listing never misses a request.
  */
 import type { Logger } from 'pino';
 import type { Models } from '../db/models';
-import { addUsage, type UsageCount } from './key-store';
+import { addUsage, liveKeyIds, touchLastUsed, type UsageCount } from './key-store';
 
 /** How often pending counts are written. */
 export const USAGE_FLUSH_MS = 1000;
@@ -67,17 +67,29 @@ export class UsageCounter {
     try {
       await addUsage(this.models, batch, new Date());
     } catch (error) {
-      // keep the counts for the next flush rather than lose them
-      for (const counted of batch) {
-        const slot = `${counted.keyId} ${counted.day}`;
-        const later = this.#pending.get(slot);
-        if (later) {
-          later.count += counted.count;
-        } else {
-          this.#pending.set(slot, counted);
-        }
-      }
-      this.logger?.error({ err: error }, 'could not write partner-key usage; retrying');
+      await this.#putBack(batch, error);
+      return;
     }
+    // a missed last-used time is only bookkeeping: the counts above are in, so it is not retried
+    await touchLastUsed(this.models, batch).catch((error: unknown) => this.logger?.error({ err: error }, 'could not record when partner keys were last used'));
+  }
+
+  /**
+   * Keeps a batch that could not be written for the next flush, except the counts of keys deleted
+   * since (a restore or a cleanup): those can never be written and would hold back everyone else's.
+   */
+  async #putBack(batch: readonly UsageCount[], error: unknown): Promise<void> {
+    const live = await liveKeyIds(this.models, batch).catch(() => undefined);
+    for (const counted of batch) {
+      if (live && !live.has(counted.keyId)) continue;
+      const slot = `${counted.keyId} ${counted.day}`;
+      const later = this.#pending.get(slot);
+      if (later) {
+        later.count += counted.count;
+      } else {
+        this.#pending.set(slot, counted);
+      }
+    }
+    this.logger?.error({ err: error }, 'could not write partner-key usage; kept for the next flush');
   }
 }
