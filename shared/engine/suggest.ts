@@ -20,13 +20,13 @@ const LN2 = Math.LN2;
 /** shortlists up to this size get numeric bands cut at their own midpoints; larger ones use the edition's */
 const ADAPTIVE_BAND_LIMIT = 300;
 /** first traits compared by lookahead */
-const LOOKAHEAD_TRAITS = 8;
+const LOOKAHEAD_TRAITS = 4;
 /** traits the greedy continuation chooses from inside a lookahead */
-const LOOKAHEAD_POOL = 12;
+const LOOKAHEAD_POOL = 8;
 /** most nodes one lookahead rollout expands before estimating the rest */
 const ROLLOUT_NODE_BUDGET = 1500;
 /** branches reached with less probability than this are estimated instead of expanded */
-const ROLLOUT_MIN_PATH = 0.01;
+const ROLLOUT_MIN_PATH = 0.05;
 /** expected efforts closer than this are treated as equal */
 const COST_TIE = 2e-3;
 /** deepest question a rollout expands */
