@@ -8,6 +8,7 @@
  * CONNECTIONS concurrent connections. Load generator and server share the machine's cores, so the
  * ratio matters more than the absolute numbers.
  *
+ *   BENCH_CONNECTIONS=8 npm run bench:api    measures at another concurrency (default 16)
  *   npm run bench:api -- --profile   also writes a CPU profile of the identify run to bench-identify.cpuprofile
  */
 import { writeFile } from 'node:fs/promises';
@@ -18,7 +19,8 @@ import type { Server } from 'node:http';
 import { createApp, type CreatedApp } from '../api/src/app';
 import { loadConfig } from '../api/src/config';
 
-const CONNECTIONS = 16;
+/** Concurrent connections for both measurements (BENCH_CONNECTIONS overrides). */
+const CONNECTIONS = Number(process.env['BENCH_CONNECTIONS'] ?? 16);
 const DURATION_S = Number(process.env['BENCH_SECONDS'] ?? 8);
 const LIMITER_QUOTA = 50;
 const LIMITER_REQUESTS = 80;
