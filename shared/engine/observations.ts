@@ -45,15 +45,20 @@ function answerOf(trait: CompiledTrait, value: unknown): number {
   return typeof value === 'string' ? trait.answerCodes.indexOf(value) : -1;
 }
 
-function checkDiscrete(raw: Raw, index: number, trait: CompiledTrait, problem: (field: ObservationField, code: string, message: string) => void): number[] {
-  if (raw['unit'] !== undefined) problem('unit', 'bad-unit', m.unitOnDiscrete(index, trait.code));
+/** Records one problem of observation `index` (a plain function, so checking creates no closures). */
+function report(problems: ObservationProblem[], index: number, field: ObservationField, code: string, message: string): void {
+  problems.push({ index, field, code, message });
+}
+
+function checkDiscrete(raw: Raw, index: number, trait: CompiledTrait, problems: ObservationProblem[]): number[] {
+  if (raw['unit'] !== undefined) report(problems, index, 'unit', 'bad-unit', m.unitOnDiscrete(index, trait.code));
   const values = raw['values'];
   if (!Array.isArray(values)) {
-    problem(raw['value'] !== undefined ? 'value' : 'values', 'wrong-kind', m.discreteNeedsValues(index, trait.code, trait.kind));
+    report(problems, index, raw['value'] !== undefined ? 'value' : 'values', 'wrong-kind', m.discreteNeedsValues(index, trait.code, trait.kind));
     return [];
   }
   if (values.length === 0) {
-    problem('values', 'empty-values', m.emptyValues(index, trait.code));
+    report(problems, index, 'values', 'empty-values', m.emptyValues(index, trait.code));
     return [];
   }
   const answers: number[] = [];
@@ -61,22 +66,22 @@ function checkDiscrete(raw: Raw, index: number, trait: CompiledTrait, problem: (
     if (trait.kind === 'count') {
       const count = parseCount(value);
       if (count === undefined) {
-        problem('values', 'not-an-integer', m.countNotInteger(index, trait.code, value));
+        report(problems, index, 'values', 'not-an-integer', m.countNotInteger(index, trait.code, value));
         continue;
       }
       const max = trait.countMin + trait.answerCount - 1;
       if (count < trait.countMin || count > max) {
-        problem('values', 'unknown-value', m.countOutOfRange(index, trait.code, count, trait.countMin, max));
+        report(problems, index, 'values', 'unknown-value', m.countOutOfRange(index, trait.code, count, trait.countMin, max));
         continue;
       }
     }
     const answer = answerOf(trait, value);
     if (answer < 0) {
-      problem('values', 'unknown-value', m.unknownValue(index, trait.code, value, trait.answerCodes));
+      report(problems, index, 'values', 'unknown-value', m.unknownValue(index, trait.code, value, trait.answerCodes));
       continue;
     }
     if (answers.includes(answer)) {
-      problem('values', 'duplicate-value', m.duplicateValue(index, trait.code, value));
+      report(problems, index, 'values', 'duplicate-value', m.duplicateValue(index, trait.code, value));
       continue;
     }
     answers.push(answer);
@@ -84,23 +89,23 @@ function checkDiscrete(raw: Raw, index: number, trait: CompiledTrait, problem: (
   return answers;
 }
 
-function checkMeasure(raw: Raw, index: number, trait: CompiledTrait, problem: (field: ObservationField, code: string, message: string) => void): { value: number; unit: LengthUnit } | undefined {
+function checkMeasure(raw: Raw, index: number, trait: CompiledTrait, problems: ObservationProblem[]): { value: number; unit: LengthUnit } | undefined {
   if (raw['values'] !== undefined) {
-    problem('values', 'wrong-kind', m.numericNeedsValue(index, trait.code));
+    report(problems, index, 'values', 'wrong-kind', m.numericNeedsValue(index, trait.code));
     return undefined;
   }
   const value = raw['value'];
   if (typeof value !== 'number' || !Number.isFinite(value)) {
-    problem('value', 'not-finite', m.notFinite(index, trait.code, value));
+    report(problems, index, 'value', 'not-finite', m.notFinite(index, trait.code, value));
     return undefined;
   }
   if (value < 0) {
-    problem('value', 'negative', m.negative(index, trait.code, value));
+    report(problems, index, 'value', 'negative', m.negative(index, trait.code, value));
     return undefined;
   }
   const unit = raw['unit'] ?? trait.unit ?? 'cm';
   if (!isLengthUnit(unit)) {
-    problem('unit', 'bad-unit', m.badUnit(index, trait.code, unit, LENGTH_UNITS));
+    report(problems, index, 'unit', 'bad-unit', m.badUnit(index, trait.code, unit, LENGTH_UNITS));
     return undefined;
   }
   return { value, unit };
@@ -119,46 +124,44 @@ function check(compiled: CompiledMatrix, observations: unknown): Checked {
     return { problems, prepared };
   }
   const firstIndexOfTrait = new Map<string, number>();
-  observations.forEach((raw: unknown, index: number) => {
+  for (let index = 0; index < observations.length; index++) {
+    const raw: unknown = observations[index];
     const before = problems.length;
-    const problem = (field: ObservationField, code: string, message: string): void => {
-      problems.push({ index, field, code, message });
-    };
     if (!isObject(raw)) {
-      problem('observation', 'not-an-object', m.notAnObject(index));
-      return;
+      report(problems, index, 'observation', 'not-an-object', m.notAnObject(index));
+      continue;
     }
     const code = raw['trait'];
     if (typeof code !== 'string' || code.length === 0) {
-      problem('trait', 'missing-trait', m.missingTrait(index));
-      return;
+      report(problems, index, 'trait', 'missing-trait', m.missingTrait(index));
+      continue;
     }
     const traitIndex = compiled.traitIndexByCode.get(code);
     if (traitIndex === undefined) {
-      problem('trait', 'unknown-trait', m.unknownTrait(index, code));
-      return;
+      report(problems, index, 'trait', 'unknown-trait', m.unknownTrait(index, code));
+      continue;
     }
     const trait = compiled.traits[traitIndex];
     const first = firstIndexOfTrait.get(code);
     if (first !== undefined) {
-      problem('trait', 'duplicate-trait', m.duplicateTrait(index, code, first));
-      return;
+      report(problems, index, 'trait', 'duplicate-trait', m.duplicateTrait(index, code, first));
+      continue;
     }
     firstIndexOfTrait.set(code, index);
     if (raw['value'] !== undefined && raw['values'] !== undefined) {
-      problem('observation', 'both-value-and-values', m.bothValueAndValues(index));
-      return;
+      report(problems, index, 'observation', 'both-value-and-values', m.bothValueAndValues(index));
+      continue;
     }
     if (trait.kind === 'numeric') {
-      const measure = checkMeasure(raw, index, trait, problem);
+      const measure = checkMeasure(raw, index, trait, problems);
       if (measure && problems.length === before) {
         prepared.push({ kind: 'measure', index, trait, centimetres: toCentimetres(measure.value, measure.unit), shownValue: measure.value, shownUnit: measure.unit });
       }
     } else {
-      const answers = checkDiscrete(raw, index, trait, problem);
+      const answers = checkDiscrete(raw, index, trait, problems);
       if (problems.length === before) prepared.push({ kind: 'set', index, trait, answers });
     }
-  });
+  }
   return { problems, prepared };
 }
 

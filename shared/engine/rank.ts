@@ -7,11 +7,10 @@
 import { ValueStatus, type CompiledMatrix } from './compiled';
 import { RANK_DEFAULTS, type RankOptions } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
-import { effectiveCellOf } from './lookup';
 import { rangeOf } from './separation';
 import { prepareObservations, type PreparedObservation } from './observations';
 import { exactProbability, measureRegion, regionLikelihood, scoreObservations, scoringScratch, type Scored, type SkipCause } from './scoring';
-import { codedText, observedText, reasonTexts } from './texts';
+import { observedText, patternText, reasonTexts } from './texts';
 import type { Candidate, Observation, RankResult, Reason, ReasonStatus } from './types';
 
 export function resolveCount(name: string, value: number | undefined, fallback: number): number {
@@ -21,16 +20,13 @@ export function resolveCount(name: string, value: number | undefined, fallback: 
   return value;
 }
 
-const STATUS_RANK: Record<number, number> = {
-  [ValueStatus.Usual]: 0,
-  [ValueStatus.Occasional]: 1,
-  [ValueStatus.Rare]: 2,
-  [ValueStatus.Unknown]: 3,
-  [ValueStatus.NotCoded]: 4,
-  [ValueStatus.Inapplicable]: 5,
-};
+/** how well each value status supports an observation, best first, indexed by ValueStatus */
+const STATUS_RANK = new Uint8Array(8);
+[ValueStatus.Usual, ValueStatus.Occasional, ValueStatus.Rare, ValueStatus.Unknown, ValueStatus.NotCoded, ValueStatus.Inapplicable].forEach((status, rank) => {
+  STATUS_RANK[status] = rank;
+});
 
-function setReason(compiled: CompiledMatrix, observation: PreparedObservation & { kind: 'set' }, t: number): Reason {
+function setReason(compiled: CompiledMatrix, observation: PreparedObservation & { kind: 'set' }, t: number, seen: string): Reason {
   const trait = observation.trait;
   const pattern = compiled.cellPattern[trait.index * compiled.taxonCount + t];
   const base = trait.likBase + pattern * trait.answerCount;
@@ -42,8 +38,6 @@ function setReason(compiled: CompiledMatrix, observation: PreparedObservation & 
     sum += compiled.likelihood[base + answer];
   }
   const likelihood = Math.min(1, sum);
-  const seen = observedText(observation);
-  const cell = effectiveCellOf(compiled, trait, t);
   let status: ReasonStatus;
   let text: string;
   switch (best) {
@@ -54,7 +48,7 @@ function setReason(compiled: CompiledMatrix, observation: PreparedObservation & 
     case ValueStatus.Occasional:
     case ValueStatus.Rare:
       status = 'partial';
-      text = reasonTexts.partial(trait, seen, codedText(trait, cell));
+      text = reasonTexts.partial(trait, seen, patternText(compiled, trait, pattern));
       break;
     case ValueStatus.Unknown:
       status = 'not-coded';
@@ -62,7 +56,7 @@ function setReason(compiled: CompiledMatrix, observation: PreparedObservation & 
       break;
     case ValueStatus.NotCoded:
       status = 'conflict';
-      text = reasonTexts.conflict(trait, seen, codedText(trait, cell));
+      text = reasonTexts.conflict(trait, seen, patternText(compiled, trait, pattern));
       break;
     default:
       status = 'conflict';
@@ -71,11 +65,10 @@ function setReason(compiled: CompiledMatrix, observation: PreparedObservation & 
   return { trait: trait.code, status, likelihood, text };
 }
 
-function measureReason(compiled: CompiledMatrix, observation: PreparedObservation & { kind: 'measure' }, t: number): Reason {
+function measureReason(compiled: CompiledMatrix, observation: PreparedObservation & { kind: 'measure' }, t: number, seen: string): Reason {
   const trait = observation.trait;
   const region = measureRegion(compiled, observation, t);
   const likelihood = regionLikelihood(region, trait.errorRate);
-  const seen = observedText(observation);
   if (region === 'unknown') return { trait: trait.code, status: 'not-coded', likelihood, text: reasonTexts.notCoded(trait) };
   if (region === 'inapplicable') return { trait: trait.code, status: 'conflict', likelihood, text: reasonTexts.doesNotApply(trait) };
   // the three remaining regions only arise for a coded range
@@ -85,35 +78,52 @@ function measureReason(compiled: CompiledMatrix, observation: PreparedObservatio
   return { trait: trait.code, status: 'conflict', likelihood, text: reasonTexts.outside(trait, seen, range.min, range.max) };
 }
 
-/** Reasons of set observations depend only on the cell's pattern, so one ranking builds each once. */
-export type ReasonCache = Map<number, Map<number, Reason>>;
+/**
+ * What one ranking builds once and shares between its candidates, per observation: its text, its
+ * reason when it was set aside, and the reasons of a set observation, which depend only on the
+ * cell's pattern (shared objects: read only).
+ */
+export class ReasonCache {
+  private readonly seen: Array<string | undefined> = [];
+  private readonly setAside: Array<Reason | undefined> = [];
+  private readonly byPattern: Array<Array<Reason | undefined> | undefined> = [];
+
+  seenText(observation: PreparedObservation): string {
+    return (this.seen[observation.index] ??= observedText(observation));
+  }
+
+  skippedReason(compiled: CompiledMatrix, observation: PreparedObservation, cause: SkipCause): Reason {
+    return (this.setAside[observation.index] ??= { trait: observation.trait.code, status: 'not-applicable', likelihood: 1, text: reasonTexts.skipped(compiled, observation.trait, cause) });
+  }
+
+  patternReasons(observation: PreparedObservation): Array<Reason | undefined> {
+    return (this.byPattern[observation.index] ??= []);
+  }
+}
 
 /** Per-observation reasons for one taxon, in the order the observations were given. */
-export function reasonsFor(compiled: CompiledMatrix, prepared: readonly PreparedObservation[], skipped: ReadonlyMap<number, SkipCause>, t: number, cache: ReasonCache = new Map()): Reason[] {
-  return prepared.map((observation) => {
-    const cause = skipped.get(observation.index);
-    if (cause) return { trait: observation.trait.code, status: 'not-applicable', likelihood: 1, text: reasonTexts.skipped(compiled, observation.trait, cause) };
-    if (observation.kind === 'measure') return measureReason(compiled, observation, t);
-    let byPattern = cache.get(observation.index);
-    if (!byPattern) {
-      byPattern = new Map();
-      cache.set(observation.index, byPattern);
+export function reasonsFor(compiled: CompiledMatrix, prepared: readonly PreparedObservation[], skipped: ReadonlyMap<number, SkipCause>, t: number, cache = new ReasonCache()): Reason[] {
+  const reasons: Reason[] = [];
+  const n = compiled.taxonCount;
+  for (const observation of prepared) {
+    const cause = skipped.size > 0 ? skipped.get(observation.index) : undefined;
+    if (cause) {
+      reasons.push(cache.skippedReason(compiled, observation, cause));
+    } else if (observation.kind === 'measure') {
+      reasons.push(measureReason(compiled, observation, t, cache.seenText(observation)));
+    } else {
+      const byPattern = cache.patternReasons(observation);
+      const pattern = compiled.cellPattern[observation.trait.index * n + t];
+      reasons.push((byPattern[pattern] ??= setReason(compiled, observation, t, cache.seenText(observation))));
     }
-    const pattern = compiled.cellPattern[observation.trait.index * compiled.taxonCount + t];
-    let reason = byPattern.get(pattern);
-    if (!reason) {
-      // frozen, so taxa with the same coding can share one reason object safely
-      reason = Object.freeze(setReason(compiled, observation, t));
-      byPattern.set(pattern, reason);
-    }
-    return reason;
-  });
+  }
+  return reasons;
 }
 
 /** True when taxon a ranks before taxon b. */
 function before(scored: Scored, a: number, b: number): boolean {
-  const pa = scored.logPosterior[a];
-  const pb = scored.logPosterior[b];
+  const pa = scored.score[a];
+  const pb = scored.score[b];
   if (pa !== pb) return pa > pb;
   const ca = scored.conflicts[a];
   const cb = scored.conflicts[b];
@@ -124,36 +134,64 @@ function before(scored: Scored, a: number, b: number): boolean {
 /** above this limit a full sort beats keeping a sorted short list */
 const INSERTION_LIMIT = 64;
 
-/** The best `limit` taxa offered, best first; most offers are turned away by one comparison. */
+/**
+ * The best `limit` taxa offered, best first. `worst` is the score a taxon must reach to be worth
+ * offering, so the caller turns most taxa away with one comparison and no call.
+ */
 class BestList {
   readonly items: number[] = [];
   total = 0;
-  private worst = -Infinity;
+  worst: number;
   constructor(
     private readonly scored: Scored,
     private readonly limit: number,
-  ) {}
+  ) {
+    this.worst = limit === 0 ? Infinity : -Infinity;
+  }
 
   offer(t: number): void {
-    this.total++;
     const items = this.items;
     if (this.limit > INSERTION_LIMIT) {
       items.push(t);
       return;
     }
-    if (items.length === this.limit && (this.limit === 0 || this.scored.logPosterior[t] < this.worst)) return;
     if (items.length === this.limit && !before(this.scored, t, items[items.length - 1])) return;
     let at = items.length;
     while (at > 0 && before(this.scored, t, items[at - 1])) at--;
     items.splice(at, 0, t);
     if (items.length > this.limit) items.pop();
-    this.worst = this.scored.logPosterior[items[items.length - 1]];
+    if (items.length === this.limit) this.worst = this.scored.score[items[items.length - 1]];
   }
 
   best(): number[] {
     if (this.limit <= INSERTION_LIMIT) return this.items;
     return this.items.sort((a, b) => (before(this.scored, a, b) ? -1 : before(this.scored, b, a) ? 1 : 0)).slice(0, this.limit);
   }
+}
+
+/**
+ * Sorts every taxon into the kept or the dropped list by its conflicts, in one tight pass: the list
+ * is picked by index rather than by a branch (whether a taxon is kept is unpredictable), and most
+ * taxa fall below their list's bar and cost one predictable comparison.
+ */
+function select(scored: Scored, leeway: number, kept: BestList, dropped: BestList): void {
+  const score = scored.score;
+  const conflicts = scored.conflicts;
+  const n = score.length;
+  const lists = [dropped, kept];
+  const bars = Float64Array.of(dropped.worst, kept.worst);
+  let keptTotal = 0;
+  for (let t = 0; t < n; t++) {
+    const isKept = +(conflicts[t] <= leeway);
+    keptTotal += isKept;
+    if (score[t] >= bars[isKept]) {
+      const list = lists[isKept];
+      list.offer(t);
+      bars[isKept] = list.worst;
+    }
+  }
+  kept.total = keptTotal;
+  dropped.total = n - keptTotal;
 }
 
 function toCandidate(compiled: CompiledMatrix, scored: Scored, prepared: readonly PreparedObservation[], t: number, cache: ReasonCache): Candidate {
@@ -174,20 +212,16 @@ export function rank(compiled: CompiledMatrix, observations: readonly Observatio
   const leeway = resolveCount('leeway', options.leeway, RANK_DEFAULTS.leeway);
   const limit = resolveCount('limit', options.limit, RANK_DEFAULTS.limit);
   const prepared = prepareObservations(compiled, observations);
-  let lists: { kept: BestList; dropped: BestList } | undefined;
   // the scored arrays are this matrix's scratch: everything needed from them is read before returning
-  const scored = scoreObservations(compiled, prepared, options.priors, false, (t, partial) => {
-    lists ??= { kept: new BestList(partial, limit), dropped: new BestList(partial, limit) };
-    if (partial.conflicts[t] <= leeway) lists.kept.offer(t);
-    else lists.dropped.offer(t);
-  }, scoringScratch(compiled));
-  const kept = lists?.kept ?? new BestList(scored, limit);
-  const dropped = lists?.dropped ?? new BestList(scored, limit);
+  const scored = scoreObservations(compiled, prepared, options.priors, { withProbabilities: false, scratch: scoringScratch(compiled) });
+  const kept = new BestList(scored, limit);
+  const dropped = new BestList(scored, limit);
+  select(scored, leeway, kept, dropped);
   const skipped = [...scored.skipped.entries()].map(([index, cause]) => {
     const observation = prepared.find((item) => item.index === index)!;
     return { trait: observation.trait.code, reason: reasonTexts.skipped(compiled, observation.trait, cause) };
   });
-  const cache: ReasonCache = new Map();
+  const cache = new ReasonCache();
   return {
     candidates: kept.best().map((t) => toCandidate(compiled, scored, prepared, t, cache)),
     ruledOut: dropped.best().map((t) => toCandidate(compiled, scored, prepared, t, cache)),

@@ -4,9 +4,10 @@
  * Invariant: `probability` is finite, non-negative and sums to 1 over all taxa (or is empty for an
  * empty matrix); every log term added is finite because every likelihood is > 0.
  */
-import { CODED_RANGE_PATTERN, INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledCondition, type CompiledMatrix } from './compiled';
+import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledCondition, type CompiledMatrix } from './compiled';
 import { MODEL } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
+import { ConflictCounter, paddedCounts, setConflictBits } from './conflict-bits';
 import type { PreparedMeasure, PreparedObservation, PreparedSet } from './observations';
 
 /** Why an observation was set aside: the condition it failed and the observation that contradicts it. */
@@ -16,12 +17,20 @@ export interface SkipCause {
 }
 
 export interface Scored {
-  /** unnormalised log posterior per taxon */
-  logPosterior: Float64Array;
+  /**
+   * Unnormalised posterior weight per taxon, higher is better: a plain product of prior and
+   * likelihoods when `linear`, else its natural log (see LINEAR_SAFE_LOG).
+   */
+  score: Float64Array;
+  linear: boolean;
   /** normalised posterior per taxon (0 where negligible; see exactProbability); empty when not asked for */
   probability: Float64Array;
+  /** log scale: the largest score; linear: 0 */
   maxLog: number;
+  /** log scale: log Σ exp(score − maxLog); linear: log Σ score */
   logTotal: number;
+  /** linear scale: the factor that turns a score into a probability */
+  scale: number;
   /** observed traits conflicting with each taxon's coding */
   conflicts: Uint8Array | Uint16Array;
   /** observations that were scored */
@@ -149,16 +158,55 @@ export function regionLikelihood(region: MeasureRegion, errorRate: number): numb
   }
 }
 
-function addMeasure(compiled: CompiledMatrix, observation: PreparedMeasure, logPosterior: Float64Array, conflicts: Uint8Array | Uint16Array, weights: Float64Array | undefined): void {
+/** A column of small codes per taxon and, per code, the factor it multiplies (or adds). */
+interface ScoreColumn {
+  codes: Uint16Array;
+  factor: Float64Array;
+}
+
+const answerFactors = new WeakMap<CompiledMatrix, Map<number, { likelihood: Float64Array; logs: Float64Array }>>();
+
+/** The factor tables of a set observation; those of a single answer are derived once per matrix and kept with it. */
+function factorTables(compiled: CompiledMatrix, observation: PreparedSet): { likelihood: Float64Array; logs: Float64Array } {
+  if (observation.answers.length !== 1) return setTables(compiled, observation);
+  let byKey = answerFactors.get(compiled);
+  if (!byKey) {
+    byKey = new Map();
+    answerFactors.set(compiled, byKey);
+  }
+  const key = observation.trait.likBase + observation.answers[0];
+  let tables = byKey.get(key);
+  if (!tables) {
+    tables = setTables(compiled, observation);
+    byKey.set(key, tables);
+  }
+  return tables;
+}
+
+/** A set observation's column is its trait's pattern column; its factors are indexed by pattern. */
+function setColumn(compiled: CompiledMatrix, observation: PreparedSet, linear: boolean): ScoreColumn {
+  const n = compiled.taxonCount;
+  const index = observation.trait.index;
+  const tables = factorTables(compiled, observation);
+  return { codes: compiled.cellPattern.subarray(index * n, (index + 1) * n), factor: linear ? tables.likelihood : tables.logs };
+}
+
+// measurement codes: pattern * 3 + region, rows by pattern (unknown, inapplicable, coded range),
+// columns by region (typical, extreme, outside)
+const MEASURE_CONFLICT = Uint8Array.from([0, 0, 0, 1, 1, 1, 0, 0, 1]);
+
+/**
+ * A measurement's column: where it falls for each taxon, as pattern * 3 + region, and its conflict
+ * bits. Branch-free on purpose (where a measurement falls is unpredictable from taxon to taxon); the
+ * range comparisons of a cell that is not a coded range are made but their region is scored like the
+ * others of its row. A numeric trait's patterns are only UNKNOWN_PATTERN (0), INAPPLICABLE_PATTERN (1)
+ * and CODED_RANGE_PATTERN (2).
+ */
+function measureColumn(compiled: CompiledMatrix, observation: PreparedMeasure, linear: boolean, codes: Uint16Array, bits: Uint32Array): ScoreColumn {
   const n = compiled.taxonCount;
   const e = observation.trait.errorRate;
-  // indexed by region: 0 typical, 1 extreme, 2 outside
-  const regionLogs = new Float64Array([Math.log(MODEL.typicalScore), Math.log(MODEL.extremeScore), Math.log(e)]);
-  const regionScores = new Float64Array([MODEL.typicalScore, MODEL.extremeScore, e]);
-  const logUnknown = Math.log(MODEL.unknownNumericScore);
-  const logOutside = regionLogs[2];
-  // with no linear weights to keep, multiply a scratch array instead of branching in the loop
-  const linear = weights ?? new Float64Array(n);
+  const u = MODEL.unknownNumericScore;
+  const plain = [u, u, u, e, e, e, MODEL.typicalScore, MODEL.extremeScore, e];
   const columnBase = observation.trait.index * n;
   const block = observation.trait.numericIndex * 4 * n;
   const minBase = block + RangeField.Min * n;
@@ -168,25 +216,19 @@ function addMeasure(compiled: CompiledMatrix, observation: PreparedMeasure, logP
   const x = observation.centimetres;
   const patterns = compiled.cellPattern;
   const ranges = compiled.ranges;
-  for (let t = 0; t < n; t++) {
-    const pattern = patterns[columnBase + t];
-    if (pattern === CODED_RANGE_PATTERN) {
-      // branch-free on purpose: where a measurement falls is unpredictable from taxon to taxon
+  for (let w = 0, start = 0; start < n; w++, start += 32) {
+    const end = Math.min(n, start + 32);
+    let word = 0;
+    for (let t = start; t < end; t++) {
       const typical = +(x >= ranges[lowBase + t]) & +(x <= ranges[highBase + t]);
       const extreme = +(x >= ranges[minBase + t]) & +(x <= ranges[maxBase + t]);
-      const region = 2 - extreme - typical;
-      logPosterior[t] += regionLogs[region];
-      linear[t] *= regionScores[region];
-      conflicts[t] += region >>> 1;
-    } else if (pattern === UNKNOWN_PATTERN) {
-      logPosterior[t] += logUnknown;
-      linear[t] *= MODEL.unknownNumericScore;
-    } else {
-      logPosterior[t] += logOutside;
-      linear[t] *= e;
-      conflicts[t]++;
+      const code = patterns[columnBase + t] * 3 + 2 - extreme - typical;
+      codes[t] = code;
+      word |= MEASURE_CONFLICT[code] << (t - start);
     }
+    bits[w] = word;
   }
+  return { codes, factor: linear ? Float64Array.from(plain) : Float64Array.from(plain, Math.log) };
 }
 
 /** observations added per pass over the taxa */
@@ -205,55 +247,35 @@ function unknownColumnOf(compiled: CompiledMatrix): Uint16Array {
 }
 
 /**
- * Adds every set observation in as few passes over the taxa as possible, five columns at a time
- * (a short last group is padded with a column of unknown cells that adds nothing): each taxon's
- * running sum is read and written once per group instead of once per observation.
+ * Adds every column in as few passes over the taxa as possible, five at a time (a short last group
+ * is padded with a column of unknown cells that adds nothing): each taxon's running score is read
+ * and written once per group instead of once per observation. Multiplies plain likelihoods when
+ * `linear`, else adds their logs.
  */
-function addSets(compiled: CompiledMatrix, observations: readonly PreparedSet[], logPosterior: Float64Array, conflicts: Uint8Array | Uint16Array, weights: Float64Array | undefined): void {
+function addColumns(compiled: CompiledMatrix, columns: ScoreColumn[], score: Float64Array, linear: boolean): void {
   const n = compiled.taxonCount;
-  if (observations.length === 0) return;
-  const columns = observations.map((observation) => compiled.cellPattern.subarray(observation.trait.index * n, (observation.trait.index + 1) * n));
-  const tables = observations.map((observation) => setTables(compiled, observation));
-  const padding = (GROUP - (observations.length % GROUP)) % GROUP;
+  if (columns.length === 0) return;
+  const padding = (GROUP - (columns.length % GROUP)) % GROUP;
   if (padding > 0) {
-    const unknownColumn = unknownColumnOf(compiled);
-    const nothing = { logs: new Float64Array(1), conflict: new Uint8Array(1), likelihood: new Float64Array([1]) };
-    for (let i = 0; i < padding; i++) {
-      columns.push(unknownColumn);
-      tables.push(nothing);
-    }
+    const nothing: ScoreColumn = { codes: unknownColumnOf(compiled), factor: new Float64Array([linear ? 1 : 0]) };
+    columns = [...columns, ...Array.from({ length: padding }, () => nothing)];
   }
-  const linear = weights ?? new Float64Array(n);
   for (let o = 0; o < columns.length; o += GROUP) {
-    const c0 = columns[o];
-    const c1 = columns[o + 1];
-    const c2 = columns[o + 2];
-    const c3 = columns[o + 3];
-    const c4 = columns[o + 4];
-    const l0 = tables[o].logs;
-    const l1 = tables[o + 1].logs;
-    const l2 = tables[o + 2].logs;
-    const l3 = tables[o + 3].logs;
-    const l4 = tables[o + 4].logs;
-    const m0 = tables[o].likelihood;
-    const m1 = tables[o + 1].likelihood;
-    const m2 = tables[o + 2].likelihood;
-    const m3 = tables[o + 3].likelihood;
-    const m4 = tables[o + 4].likelihood;
-    const f0 = tables[o].conflict;
-    const f1 = tables[o + 1].conflict;
-    const f2 = tables[o + 2].conflict;
-    const f3 = tables[o + 3].conflict;
-    const f4 = tables[o + 4].conflict;
-    for (let t = 0; t < n; t++) {
-      const p0 = c0[t];
-      const p1 = c1[t];
-      const p2 = c2[t];
-      const p3 = c3[t];
-      const p4 = c4[t];
-      logPosterior[t] += l0[p0] + l1[p1] + l2[p2] + l3[p3] + l4[p4];
-      linear[t] *= m0[p0] * m1[p1] * m2[p2] * m3[p3] * m4[p4];
-      conflicts[t] += f0[p0] + f1[p1] + f2[p2] + f3[p3] + f4[p4];
+    const c0 = columns[o].codes;
+    const c1 = columns[o + 1].codes;
+    const c2 = columns[o + 2].codes;
+    const c3 = columns[o + 3].codes;
+    const c4 = columns[o + 4].codes;
+    const v0 = columns[o].factor;
+    const v1 = columns[o + 1].factor;
+    const v2 = columns[o + 2].factor;
+    const v3 = columns[o + 3].factor;
+    const v4 = columns[o + 4].factor;
+    // two copies of one loop, so neither branches on the scale per taxon
+    if (linear) {
+      for (let t = 0; t < n; t++) score[t] *= v0[c0[t]] * v1[c1[t]] * v2[c2[t]] * v3[c3[t]] * v4[c4[t]];
+    } else {
+      for (let t = 0; t < n; t++) score[t] += v0[c0[t]] + v1[c1[t]] + v2[c2[t]] + v3[c3[t]] + v4[c4[t]];
     }
   }
 }
@@ -262,29 +284,17 @@ function addSets(compiled: CompiledMatrix, observations: readonly PreparedSet[],
 const NEGLIGIBLE_LOG_GAP = 36;
 
 /** The largest log weight and the log of Σ exp(weight − largest): all a ranking needs to normalise. */
-export function logNormaliser(logWeights: Float64Array, visit?: (t: number) => void): { maxLog: number; logTotal: number } {
+export function logNormaliser(logWeights: Float64Array): { maxLog: number; logTotal: number } {
   const n = logWeights.length;
   if (n === 0) return { maxLog: 0, logTotal: 0 };
   let max = -Infinity;
   for (let t = 0; t < n; t++) if (logWeights[t] > max) max = logWeights[t];
-  if (!Number.isFinite(max)) {
-    if (visit) for (let t = 0; t < n; t++) visit(t);
-    return { maxLog: 0, logTotal: Math.log(n) };
-  }
+  if (!Number.isFinite(max)) return { maxLog: 0, logTotal: Math.log(n) };
   const floor = max - NEGLIGIBLE_LOG_GAP;
   let total = 0;
-  // the visitor rides along this pass so a ranking reads each taxon's score once more, not twice
-  if (visit) {
-    for (let t = 0; t < n; t++) {
-      const log = logWeights[t];
-      if (log >= floor) total += Math.exp(log - max);
-      visit(t);
-    }
-  } else {
-    for (let t = 0; t < n; t++) {
-      const log = logWeights[t];
-      if (log >= floor) total += Math.exp(log - max);
-    }
+  for (let t = 0; t < n; t++) {
+    const log = logWeights[t];
+    if (log >= floor) total += Math.exp(log - max);
   }
   return { maxLog: max, logTotal: Math.log(total) };
 }
@@ -308,11 +318,10 @@ export function normalise(logWeights: Float64Array, normaliser = logNormaliser(l
 
 /** The probability of one taxon, exact even where `normalise` left a negligible weight at 0. */
 export function exactProbability(scored: Scored, t: number): number {
-  // the log sum and the plain product of the same factors can differ in the last bit
-  return Math.min(1, Math.exp(scored.logPosterior[t] - scored.maxLog - scored.logTotal));
+  if (scored.linear) return Math.min(1, scored.score[t] * scored.scale);
+  return Math.min(1, Math.exp(scored.score[t] - scored.maxLog - scored.logTotal));
 }
 
-/** Scores prepared observations against every taxon. */
 /** Normalised prior weights (linear), cached like the log priors. */
 const defaultPriorWeights = new WeakMap<CompiledMatrix, Float64Array>();
 
@@ -331,8 +340,7 @@ function priorWeights(compiled: CompiledMatrix, priors: Readonly<Record<string, 
  * underflow, and the log sums alone are normalised.
  */
 function lowestPossibleLog(compiled: CompiledMatrix, active: readonly PreparedObservation[], logPrior: Float64Array): number {
-  let lowest = 0;
-  for (const log of logPrior) if (log < lowest) lowest = log;
+  let lowest = smallestOf(logPrior);
   for (const observation of active) {
     if (observation.kind === 'measure') {
       lowest += Math.log(Math.min(MODEL.extremeScore, MODEL.unknownNumericScore, observation.trait.errorRate));
@@ -340,6 +348,18 @@ function lowestPossibleLog(compiled: CompiledMatrix, active: readonly PreparedOb
     }
     lowest += smallestLogLikelihoods(compiled)[observation.trait.index];
   }
+  return lowest;
+}
+
+const smallestPriors = new WeakMap<Float64Array, number>();
+
+/** The smallest log prior (capped at 0); remembered for the cached default priors. */
+function smallestOf(logPrior: Float64Array): number {
+  const known = smallestPriors.get(logPrior);
+  if (known !== undefined) return known;
+  let lowest = 0;
+  for (const log of logPrior) if (log < lowest) lowest = log;
+  smallestPriors.set(logPrior, lowest);
   return lowest;
 }
 
@@ -372,10 +392,15 @@ const LINEAR_SAFE_LOG = -600;
  * returning probabilities) may use it. A Worker gets its own module instance, hence its own scratch.
  */
 export interface ScoringScratch {
-  logPosterior: Float64Array;
-  linear: Float64Array;
+  score: Float64Array;
   conflicts8: Uint8Array;
   conflicts16: Uint16Array | undefined;
+  /** one code column per measurement, grown as needed */
+  measureCodes: Uint16Array[];
+  /** one bitset per observation that needs its own (measurements, several answers), grown as needed */
+  bitsets: Uint32Array[];
+  /** the conflict counter's planes */
+  planes: Uint32Array | undefined;
 }
 
 const scratches = new WeakMap<CompiledMatrix, ScoringScratch>();
@@ -384,78 +409,94 @@ export function scoringScratch(compiled: CompiledMatrix): ScoringScratch {
   let scratch = scratches.get(compiled);
   if (!scratch) {
     const n = compiled.taxonCount;
-    scratch = { logPosterior: new Float64Array(n), linear: new Float64Array(n), conflicts8: new Uint8Array(n), conflicts16: undefined };
+    scratch = { score: new Float64Array(n), conflicts8: paddedCounts(n), conflicts16: undefined, measureCodes: [], bitsets: [], planes: undefined };
     scratches.set(compiled, scratch);
   }
   return scratch;
 }
 
+export interface ScoringOptions {
+  /** also fill `probability` (default true) */
+  withProbabilities?: boolean;
+  /** reuse these arrays (see ScoringScratch) */
+  scratch?: ScoringScratch;
+  /** keep log sums even where plain products would be safe (to check one against the other) */
+  forceLogs?: boolean;
+}
+
 /**
- * Scores prepared observations against every taxon; `visit` is called for each taxon once its score
- * is final. With a `scratch`, the returned arrays are the scratch's and only valid until the next
- * scoring with it (see ScoringScratch); without, they are fresh.
+ * Scores prepared observations against every taxon. Where no taxon's weight can fall below
+ * e^LINEAR_SAFE_LOG the weights are plain products, normalised without a Math.exp per taxon;
+ * otherwise they are log sums. With a `scratch`, the returned arrays are the scratch's and only
+ * valid until the next scoring with it (see ScoringScratch); without, they are fresh.
  */
-export function scoreObservations(
-  compiled: CompiledMatrix,
-  prepared: readonly PreparedObservation[],
-  priors?: Readonly<Record<string, number>>,
-  withProbabilities = true,
-  visit?: (t: number, scored: Scored) => void,
-  scratch?: ScoringScratch,
-): Scored {
+export function scoreObservations(compiled: CompiledMatrix, prepared: readonly PreparedObservation[], priors?: Readonly<Record<string, number>>, options: ScoringOptions = {}): Scored {
+  const { withProbabilities = true, scratch, forceLogs = false } = options;
   const n = compiled.taxonCount;
   const logPrior = logPriors(compiled, priors);
-  let logPosterior: Float64Array;
+  const skipped = findSkipped(prepared);
+  const active = prepared.filter((observation) => !skipped.has(observation.index));
+  const linear = !forceLogs && lowestPossibleLog(compiled, active, logPrior) > LINEAR_SAFE_LOG;
+  const start = linear ? priorWeights(compiled, priors, logPrior) : logPrior;
+  let score: Float64Array;
   let conflicts: Uint8Array | Uint16Array;
   // one byte per taxon is enough below 256 observations, and halves the traffic of counting
   const narrow = prepared.length < 256;
   if (scratch) {
-    logPosterior = scratch.logPosterior;
-    logPosterior.set(logPrior);
+    score = scratch.score;
+    score.set(start);
     if (narrow) conflicts = scratch.conflicts8.fill(0);
     else conflicts = (scratch.conflicts16 ??= new Uint16Array(n)).fill(0);
   } else {
-    logPosterior = logPrior.slice();
-    conflicts = narrow ? new Uint8Array(n) : new Uint16Array(n);
+    score = start.slice();
+    conflicts = narrow ? paddedCounts(n) : new Uint16Array(n);
   }
-  const skipped = findSkipped(prepared);
-  const active = prepared.filter((observation) => !skipped.has(observation.index));
-  let linear: Float64Array | undefined;
-  if (lowestPossibleLog(compiled, active, logPrior) > LINEAR_SAFE_LOG) {
-    const weights = priorWeights(compiled, priors, logPrior);
-    if (scratch) {
-      linear = scratch.linear;
-      linear.set(weights);
-    } else {
-      linear = weights.slice();
+  const counter = new ConflictCounter(n, active.length, scratch?.planes);
+  if (scratch) scratch.planes = counter.storage;
+  let measures = 0;
+  let bitsets = 0;
+  const nextBitset = (): Uint32Array => {
+    const bits = scratch ? (scratch.bitsets[bitsets] ??= new Uint32Array(counter.words)) : new Uint32Array(counter.words);
+    bitsets++;
+    return bits;
+  };
+  const columns: ScoreColumn[] = [];
+  for (const observation of active) {
+    if (observation.kind === 'set') {
+      columns.push(setColumn(compiled, observation, linear));
+      counter.add(setConflictBits(compiled, observation, nextBitset));
+      continue;
     }
+    const codes = scratch ? (scratch.measureCodes[measures] ??= new Uint16Array(n)) : new Uint16Array(n);
+    measures++;
+    const bits = nextBitset();
+    columns.push(measureColumn(compiled, observation, linear, codes, bits));
+    counter.add(bits);
   }
-  // with no linear weights to keep, the set and measure passes multiply a throwaway array of zeros
-  const throwaway = linear ?? (scratch ? scratch.linear.fill(0) : undefined);
-  addSets(compiled, active.filter((observation): observation is PreparedSet => observation.kind === 'set'), logPosterior, conflicts, throwaway);
-  for (const observation of active) if (observation.kind === 'measure') addMeasure(compiled, observation, logPosterior, conflicts, throwaway);
-  const scored: Scored = { logPosterior, probability: new Float64Array(0), maxLog: 0, logTotal: 0, conflicts, active, skipped };
+  addColumns(compiled, columns, score, linear);
+  counter.spreadInto(conflicts);
+  const scored: Scored = { score, linear, probability: new Float64Array(0), maxLog: 0, logTotal: 0, scale: 1, conflicts, active, skipped };
   if (linear && n > 0) {
     let total = 0;
-    if (visit) {
-      for (let t = 0; t < n; t++) {
-        total += linear[t];
-        visit(t, scored);
-      }
-    } else {
-      for (let t = 0; t < n; t++) total += linear[t];
-    }
+    for (let t = 0; t < n; t++) total += score[t];
     scored.logTotal = Math.log(total);
+    scored.scale = 1 / total;
     if (withProbabilities) {
-      const scale = 1 / total;
-      for (let t = 0; t < n; t++) linear[t] *= scale;
-      scored.probability = linear;
+      // the scores become the probabilities; the order of taxa and exactProbability are unchanged
+      probabilitiesInPlace(scored);
     }
     return scored;
   }
-  const normaliser = logNormaliser(logPosterior, visit && ((t) => visit(t, scored)));
+  const normaliser = logNormaliser(score);
   scored.maxLog = normaliser.maxLog;
   scored.logTotal = normaliser.logTotal;
-  if (withProbabilities) scored.probability = normalise(logPosterior, normaliser);
+  if (withProbabilities) scored.probability = normalise(score, normaliser);
   return scored;
+}
+
+function probabilitiesInPlace(scored: Scored): void {
+  const { score, scale } = scored;
+  for (let t = 0; t < score.length; t++) score[t] *= scale;
+  scored.scale = 1;
+  scored.probability = score;
 }

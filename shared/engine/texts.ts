@@ -4,13 +4,22 @@
  * Invariant: every sentence is built from the edition's own labels, so the UI shows it as is.
  */
 import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { cellFromPattern } from './lookup';
 import type { PreparedMeasure, PreparedObservation } from './observations';
 import type { SkipCause } from './scoring';
 import type { Cell } from './types';
 
+/** A number rounded to at most two decimals, without trailing zeros: 12, 12.5, 12.05. */
 export function formatNumber(value: number): string {
   if (!Number.isFinite(value)) return String(value);
-  return String(Math.round(value * 100) / 100);
+  const hundredths = Math.round(value * 100);
+  // the digits are put together by hand (several times faster than number-to-string), where exact
+  if (hundredths < 0 || hundredths > Number.MAX_SAFE_INTEGER) return String(hundredths / 100);
+  const whole = Math.floor(hundredths / 100);
+  const rest = hundredths - whole * 100;
+  if (rest === 0) return `${whole}`;
+  if (rest % 10 === 0) return `${whole}.${rest / 10}`;
+  return `${whole}.${rest < 10 ? '0' : ''}${rest}`;
 }
 
 export function formatLength(centimetres: number): string {
@@ -48,15 +57,21 @@ export function codedText(trait: CompiledTrait, cell: Cell): string {
   if (cell === 'unknown') return 'not coded';
   if (cell === 'inapplicable') return 'not applicable';
   if ('min' in cell) return `typically ${formatNumber(cell.low)}–${formatNumber(cell.high)} cm, recorded ${formatNumber(cell.min)}–${formatNumber(cell.max)} cm`;
-  const label = (value: string | number): string => {
-    const index = trait.answerCodes.indexOf(value);
-    return index >= 0 ? answerLabel(trait, index) : String(value);
-  };
   const parts: string[] = [];
-  if (cell.usual?.length) parts.push(`usually ${joinOr(cell.usual.map(label))}`);
-  if (cell.occasional?.length) parts.push(`occasionally ${joinOr(cell.occasional.map(label))}`);
-  if (cell.rare?.length) parts.push(`rarely ${joinOr(cell.rare.map(label))}`);
+  if (cell.usual?.length) parts.push(`usually ${labelsOf(trait, cell.usual)}`);
+  if (cell.occasional?.length) parts.push(`occasionally ${labelsOf(trait, cell.occasional)}`);
+  if (cell.rare?.length) parts.push(`rarely ${labelsOf(trait, cell.rare)}`);
   return parts.join(', ');
+}
+
+/** "a or b" of coded values' labels (a value the trait does not list is shown as coded). */
+function labelsOf(trait: CompiledTrait, values: ReadonlyArray<string | number>): string {
+  const labels: string[] = [];
+  for (const value of values) {
+    const index = trait.answerCodes.indexOf(value);
+    labels.push(index >= 0 ? answerLabel(trait, index) : String(value));
+  }
+  return joinOr(labels);
 }
 
 export const reasonTexts = {
@@ -78,6 +93,22 @@ export const reasonTexts = {
     return `${trait.label} was set aside: it only applies when ${condition.label} is ${allowed}, and you saw ${seen}.`;
   },
 } as const;
+
+const patternTexts = new WeakMap<CompiledMatrix, Array<Array<string | undefined>>>();
+
+/**
+ * codedText of a discrete trait's pattern (which stands for the same cell whichever taxon has it),
+ * built once per matrix, trait and pattern.
+ */
+export function patternText(compiled: CompiledMatrix, trait: CompiledTrait, pattern: number): string {
+  let byTrait = patternTexts.get(compiled);
+  if (!byTrait) {
+    byTrait = [];
+    patternTexts.set(compiled, byTrait);
+  }
+  const texts = (byTrait[trait.index] ??= []);
+  return (texts[pattern] ??= codedText(trait, cellFromPattern(compiled, trait, pattern, 0)));
+}
 
 /** A short description of a pattern, for conflicts: "usually 2 or 3" or "not coded". */
 export function patternPhrase(trait: CompiledTrait, pattern: number, cell: Cell): string {

@@ -7,6 +7,9 @@ import { exactProbability, logNormaliser, normalise, scoreObservations } from '.
 import { seededRandom } from '../../shared/engine/synthetic';
 import { drawAnswer } from '../../scripts/lib/engine-sim';
 import { arithmeticMatrix } from './fixtures';
+import fc from 'fast-check';
+import { formatNumber } from '../../shared/engine/texts';
+import { ConflictCounter, paddedCounts } from '../../shared/engine/conflict-bits';
 
 describe('internals: numeric bands', () => {
   it('puts every length in exactly one band', () => {
@@ -66,8 +69,12 @@ describe('internals: normalising', () => {
       .slice(0, 12)
       .map((trait) => drawAnswer(compiled, trait.index, 17, random, 0.1))
       .filter((answer): answer is Observation => answer !== undefined);
-    const scored = scoreObservations(compiled, prepareObservations(compiled, observations));
-    const fromLogs = normalise(scored.logPosterior);
+    const prepared = prepareObservations(compiled, observations);
+    const scored = scoreObservations(compiled, prepared);
+    const logs = scoreObservations(compiled, prepared, undefined, { forceLogs: true });
+    expect(scored.linear).to.equal(true);
+    expect(logs.linear).to.equal(false);
+    const fromLogs = normalise(logs.score);
     for (let t = 0; t < compiled.taxonCount; t++) {
       expect(scored.probability[t]).to.be.closeTo(fromLogs[t], 1e-12);
       expect(exactProbability(scored, t)).to.be.closeTo(fromLogs[t], 1e-12);
@@ -81,6 +88,7 @@ describe('internals: normalising', () => {
     const random = seededRandom(4);
     const observations = compiled.traits.map((trait) => drawAnswer(compiled, trait.index, 0, random, 0.3)).filter((answer): answer is Observation => answer !== undefined);
     const scored = scoreObservations(compiled, prepareObservations(compiled, observations));
+    expect(scored.linear).to.equal(false);
     expect(scored.maxLog).to.not.equal(0);
     const total = scored.probability.reduce((sum, value) => sum + value, 0);
     expect(total).to.be.closeTo(1, 1e-12);
@@ -92,5 +100,44 @@ describe('internals: normalising', () => {
     const scored = scoreObservations(compiled, prepareObservations(compiled, [{ trait: 'leaf-arrangement', values: ['whorled'] }, { trait: 'needle-length', value: 30 }]));
     // whorled is coded for nobody (d is unknown); 30 cm is outside a and c, inside b, unknown for d
     expect([...scored.conflicts]).to.deep.equal([2, 1, 2, 0]);
+  });
+});
+
+describe('internals: texts', () => {
+  it('formats numbers exactly as rounding to hundredths and printing the result would', () => {
+    // the reference is the language's own number-to-string of the rounded value
+    fc.assert(
+      fc.property(fc.oneof(fc.double({ noNaN: true }), fc.double({ min: 0, max: 1000, noNaN: true }), fc.integer({ min: 0, max: 100000 }).map((n) => n / 100)), (value) => {
+        expect(formatNumber(value)).to.equal(String(Math.round(value * 100) / 100));
+      }),
+      { numRuns: 2000 },
+    );
+    expect([12, 12.5, 12.05, 0.004, 2.999, -1.5, 1e20].map(formatNumber)).to.deep.equal(['12', '12.5', '12.05', '0', '3', '-1.5', '100000000000000000000']);
+  });
+});
+
+describe('internals: conflict counting', () => {
+  it('counts set bits per taxon like a plain loop, in bytes and in shorts', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 0, max: 200 }), fc.integer({ min: 1, max: 300 }), fc.integer({ min: 1, max: 2 ** 31 - 1 }), (taxa, observations, seed) => {
+        const random = seededRandom(seed);
+        const expected = new Array<number>(taxa).fill(0);
+        const counter = new ConflictCounter(taxa, observations);
+        for (let o = 0; o < observations; o++) {
+          const bits = new Uint32Array(counter.words);
+          for (let t = 0; t < taxa; t++) {
+            if (random() < 0.4) {
+              bits[t >>> 5] |= 1 << (t & 31);
+              expected[t]++;
+            }
+          }
+          counter.add(bits);
+        }
+        const counts = observations < 256 ? paddedCounts(taxa) : new Uint16Array(taxa);
+        counter.spreadInto(counts);
+        expect([...counts]).to.deep.equal(expected);
+      }),
+      { numRuns: 120 },
+    );
   });
 });

@@ -237,7 +237,7 @@ describe('rank reusing its per-matrix scratch', () => {
         rank(compiled, second, { leeway: 0, limit: 3 });
         const again = rank(compiled, first, options);
         expect(JSON.stringify(again)).to.equal(JSON.stringify(once));
-        const fresh = scoreObservations(compiled, prepareObservations(compiled, first), undefined, false);
+        const fresh = scoreObservations(compiled, prepareObservations(compiled, first), undefined, { withProbabilities: false });
         for (const candidate of [...again.candidates, ...again.ruledOut]) {
           const t = compiled.taxonIndexById.get(candidate.taxonId)!;
           expect(Object.is(candidate.probability, exactProbability(fresh, t)), candidate.taxonId).to.equal(true);
