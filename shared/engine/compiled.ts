@@ -94,7 +94,7 @@ export interface CompiledMatrix {
   logLikelihood: Float64Array;
   /** ValueStatus of value v in pattern p */
   valueStatus: Uint8Array;
-  /** numeric traits × 4 fields × taxa: min, low, high, max in cm */
+  /** numeric traits × 4 fields × taxa: min, low, high, max in cm, always in order (compile sorts a range given out of order) */
   ranges: Float64Array;
   /** cells (j * taxonCount + t, ascending) whose coded pattern differs from the effective one */
   overrideKeys: Uint32Array;

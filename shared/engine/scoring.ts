@@ -7,7 +7,7 @@
 import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledCondition, type CompiledMatrix } from './compiled';
 import { MODEL } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
-import { ConflictCounter, paddedCounts, setConflictBits } from './conflict-bits';
+import { ConflictCounts, paddedBytes, setConflictFlags, wordsOf } from './conflict-flags';
 import type { PreparedMeasure, PreparedObservation, PreparedSet } from './observations';
 
 /** Why an observation was set aside: the condition it failed and the observation that contradicts it. */
@@ -196,13 +196,13 @@ function setColumn(compiled: CompiledMatrix, observation: PreparedSet, linear: b
 const MEASURE_CONFLICT = Uint8Array.from([0, 0, 0, 1, 1, 1, 0, 0, 1]);
 
 /**
- * A measurement's column: where it falls for each taxon, as pattern * 3 + region, and its conflict
- * bits. Branch-free on purpose (where a measurement falls is unpredictable from taxon to taxon); the
- * range comparisons of a cell that is not a coded range are made but their region is scored like the
- * others of its row. A numeric trait's patterns are only UNKNOWN_PATTERN (0), INAPPLICABLE_PATTERN (1)
- * and CODED_RANGE_PATTERN (2).
+ * A measurement's column: where it falls for each taxon, as pattern * 3 + region; its conflicts are
+ * added to `conflicts` on the way. Branch-free on purpose (where a measurement falls is
+ * unpredictable from taxon to taxon); the range comparisons of a cell that is not a coded range are
+ * made but their region is scored like the others of its row. A numeric trait's patterns are only
+ * UNKNOWN_PATTERN (0), INAPPLICABLE_PATTERN (1) and CODED_RANGE_PATTERN (2).
  */
-function measureColumn(compiled: CompiledMatrix, observation: PreparedMeasure, linear: boolean, codes: Uint16Array, bits: Uint32Array): ScoreColumn {
+function measureColumn(compiled: CompiledMatrix, observation: PreparedMeasure, linear: boolean, codes: Uint16Array, conflicts: Uint8Array | Uint16Array): ScoreColumn {
   const n = compiled.taxonCount;
   const e = observation.trait.errorRate;
   const u = MODEL.unknownNumericScore;
@@ -216,23 +216,16 @@ function measureColumn(compiled: CompiledMatrix, observation: PreparedMeasure, l
   const x = observation.centimetres;
   const patterns = compiled.cellPattern;
   const ranges = compiled.ranges;
-  for (let w = 0, start = 0; start < n; w++, start += 32) {
-    const end = Math.min(n, start + 32);
-    let word = 0;
-    for (let t = start; t < end; t++) {
-      const typical = +(x >= ranges[lowBase + t]) & +(x <= ranges[highBase + t]);
-      const extreme = +(x >= ranges[minBase + t]) & +(x <= ranges[maxBase + t]);
-      const code = patterns[columnBase + t] * 3 + 2 - extreme - typical;
-      codes[t] = code;
-      word |= MEASURE_CONFLICT[code] << (t - start);
-    }
-    bits[w] = word;
+  // compiled ranges are ordered (min ≤ low ≤ high ≤ max), so the four comparisons that hold are
+  // 4 inside the typical range, 3 inside the recorded one only, 2 outside: region = 4 − held
+  for (let t = 0; t < n; t++) {
+    const held = +(x >= ranges[minBase + t]) + +(x >= ranges[lowBase + t]) + +(x <= ranges[highBase + t]) + +(x <= ranges[maxBase + t]);
+    const code = patterns[columnBase + t] * 3 + 4 - held;
+    codes[t] = code;
+    conflicts[t] += MEASURE_CONFLICT[code];
   }
   return { codes, factor: linear ? Float64Array.from(plain) : Float64Array.from(plain, Math.log) };
 }
-
-/** observations added per pass over the taxa */
-const GROUP = 5;
 
 /** A column of unknown cells per matrix, shared by every ranking (it is only ever read). */
 const unknownColumns = new WeakMap<CompiledMatrix, Uint16Array>();
@@ -246,37 +239,57 @@ function unknownColumnOf(compiled: CompiledMatrix): Uint16Array {
   return column;
 }
 
+/** Ten columns into the scores in one pass: score = from × (or +) their ten factors. */
+function addTen(columns: readonly ScoreColumn[], o: number, from: Float64Array, score: Float64Array, linear: boolean): void {
+  const [c0, c1, c2, c3, c4, c5, c6, c7, c8, c9] = columns.slice(o, o + 10).map((column) => column.codes);
+  const [v0, v1, v2, v3, v4, v5, v6, v7, v8, v9] = columns.slice(o, o + 10).map((column) => column.factor);
+  const n = score.length;
+  // two copies of one loop, so neither branches on the scale per taxon
+  if (linear) {
+    for (let t = 0; t < n; t++) score[t] = from[t] * (v0[c0[t]] * v1[c1[t]] * v2[c2[t]] * v3[c3[t]] * v4[c4[t]] * v5[c5[t]] * v6[c6[t]] * v7[c7[t]] * v8[c8[t]] * v9[c9[t]]);
+  } else {
+    for (let t = 0; t < n; t++) score[t] = from[t] + (v0[c0[t]] + v1[c1[t]] + v2[c2[t]] + v3[c3[t]] + v4[c4[t]] + v5[c5[t]] + v6[c6[t]] + v7[c7[t]] + v8[c8[t]] + v9[c9[t]]);
+  }
+}
+
+/** Five columns into the scores in one pass: score = from × (or +) their five factors. */
+function addFive(columns: readonly ScoreColumn[], o: number, from: Float64Array, score: Float64Array, linear: boolean): void {
+  const [c0, c1, c2, c3, c4] = columns.slice(o, o + 5).map((column) => column.codes);
+  const [v0, v1, v2, v3, v4] = columns.slice(o, o + 5).map((column) => column.factor);
+  const n = score.length;
+  if (linear) {
+    for (let t = 0; t < n; t++) score[t] = from[t] * (v0[c0[t]] * v1[c1[t]] * v2[c2[t]] * v3[c3[t]] * v4[c4[t]]);
+  } else {
+    for (let t = 0; t < n; t++) score[t] = from[t] + (v0[c0[t]] + v1[c1[t]] + v2[c2[t]] + v3[c3[t]] + v4[c4[t]]);
+  }
+}
+
 /**
- * Adds every column in as few passes over the taxa as possible, five at a time (a short last group
- * is padded with a column of unknown cells that adds nothing): each taxon's running score is read
- * and written once per group instead of once per observation. Multiplies plain likelihoods when
- * `linear`, else adds their logs.
+ * Writes `score` = `start` combined with every column, in as few passes over the taxa as possible:
+ * ten columns at a time, then five (a short last group is padded with a column of unknown cells
+ * that adds nothing), so each taxon's running score is read and written once per group instead of
+ * once per observation. Multiplies plain likelihoods when `linear`, else adds their logs.
  */
-function addColumns(compiled: CompiledMatrix, columns: ScoreColumn[], score: Float64Array, linear: boolean): void {
-  const n = compiled.taxonCount;
-  if (columns.length === 0) return;
-  const padding = (GROUP - (columns.length % GROUP)) % GROUP;
+function addColumns(compiled: CompiledMatrix, columns: ScoreColumn[], start: Float64Array, score: Float64Array, linear: boolean): void {
+  if (columns.length === 0) {
+    score.set(start);
+    return;
+  }
+  const tail = columns.length % 10;
+  const padding = tail === 0 ? 0 : (5 - (tail % 5)) % 5;
   if (padding > 0) {
     const nothing: ScoreColumn = { codes: unknownColumnOf(compiled), factor: new Float64Array([linear ? 1 : 0]) };
     columns = [...columns, ...Array.from({ length: padding }, () => nothing)];
   }
-  for (let o = 0; o < columns.length; o += GROUP) {
-    const c0 = columns[o].codes;
-    const c1 = columns[o + 1].codes;
-    const c2 = columns[o + 2].codes;
-    const c3 = columns[o + 3].codes;
-    const c4 = columns[o + 4].codes;
-    const v0 = columns[o].factor;
-    const v1 = columns[o + 1].factor;
-    const v2 = columns[o + 2].factor;
-    const v3 = columns[o + 3].factor;
-    const v4 = columns[o + 4].factor;
-    // two copies of one loop, so neither branches on the scale per taxon
-    if (linear) {
-      for (let t = 0; t < n; t++) score[t] *= v0[c0[t]] * v1[c1[t]] * v2[c2[t]] * v3[c3[t]] * v4[c4[t]];
-    } else {
-      for (let t = 0; t < n; t++) score[t] += v0[c0[t]] + v1[c1[t]] + v2[c2[t]] + v3[c3[t]] + v4[c4[t]];
-    }
+  let from = start;
+  let o = 0;
+  for (; o + 10 <= columns.length; o += 10) {
+    addTen(columns, o, from, score, linear);
+    from = score;
+  }
+  for (; o < columns.length; o += 5) {
+    addFive(columns, o, from, score, linear);
+    from = score;
   }
 }
 
@@ -394,13 +407,13 @@ const LINEAR_SAFE_LOG = -600;
 export interface ScoringScratch {
   score: Float64Array;
   conflicts8: Uint8Array;
+  /** conflicts8 four taxa per word */
+  conflictWords: Uint32Array;
   conflicts16: Uint16Array | undefined;
   /** one code column per measurement, grown as needed */
   measureCodes: Uint16Array[];
-  /** one bitset per observation that needs its own (measurements, several answers), grown as needed */
-  bitsets: Uint32Array[];
-  /** the conflict counter's planes */
-  planes: Uint32Array | undefined;
+  /** one flag column (four taxa per word) per set observation with several answers, grown as needed */
+  flags: Uint32Array[];
 }
 
 const scratches = new WeakMap<CompiledMatrix, ScoringScratch>();
@@ -409,7 +422,8 @@ export function scoringScratch(compiled: CompiledMatrix): ScoringScratch {
   let scratch = scratches.get(compiled);
   if (!scratch) {
     const n = compiled.taxonCount;
-    scratch = { score: new Float64Array(n), conflicts8: paddedCounts(n), conflicts16: undefined, measureCodes: [], bitsets: [], planes: undefined };
+    const conflicts8 = paddedBytes(n);
+    scratch = { score: new Float64Array(n), conflicts8, conflictWords: wordsOf(conflicts8), conflicts16: undefined, measureCodes: [], flags: [] };
     scratches.set(compiled, scratch);
   }
   return scratch;
@@ -444,37 +458,33 @@ export function scoreObservations(compiled: CompiledMatrix, prepared: readonly P
   const narrow = prepared.length < 256;
   if (scratch) {
     score = scratch.score;
-    score.set(start);
     if (narrow) conflicts = scratch.conflicts8.fill(0);
     else conflicts = (scratch.conflicts16 ??= new Uint16Array(n)).fill(0);
   } else {
-    score = start.slice();
-    conflicts = narrow ? paddedCounts(n) : new Uint16Array(n);
+    score = new Float64Array(n);
+    conflicts = narrow ? paddedBytes(n) : new Uint16Array(n);
   }
-  const counter = new ConflictCounter(n, active.length, scratch?.planes);
-  if (scratch) scratch.planes = counter.storage;
+  const counter = new ConflictCounts(conflicts, scratch && conflicts === scratch.conflicts8 ? scratch.conflictWords : undefined);
+  const words = Math.ceil(n / 4);
   let measures = 0;
-  let bitsets = 0;
-  const nextBitset = (): Uint32Array => {
-    const bits = scratch ? (scratch.bitsets[bitsets] ??= new Uint32Array(counter.words)) : new Uint32Array(counter.words);
-    bitsets++;
-    return bits;
+  let flagColumns = 0;
+  const nextFlags = (): Uint32Array => {
+    const flags = scratch ? (scratch.flags[flagColumns] ??= new Uint32Array(words)) : new Uint32Array(words);
+    flagColumns++;
+    return flags;
   };
   const columns: ScoreColumn[] = [];
   for (const observation of active) {
     if (observation.kind === 'set') {
       columns.push(setColumn(compiled, observation, linear));
-      counter.add(setConflictBits(compiled, observation, nextBitset));
+      counter.add(setConflictFlags(compiled, observation, nextFlags));
       continue;
     }
     const codes = scratch ? (scratch.measureCodes[measures] ??= new Uint16Array(n)) : new Uint16Array(n);
     measures++;
-    const bits = nextBitset();
-    columns.push(measureColumn(compiled, observation, linear, codes, bits));
-    counter.add(bits);
+    columns.push(measureColumn(compiled, observation, linear, codes, conflicts));
   }
-  addColumns(compiled, columns, score, linear);
-  counter.spreadInto(conflicts);
+  addColumns(compiled, columns, start, score, linear);
   const scored: Scored = { score, linear, probability: new Float64Array(0), maxLog: 0, logTotal: 0, scale: 1, conflicts, active, skipped };
   if (linear && n > 0) {
     let total = 0;
