@@ -15,23 +15,23 @@ export function paddedBytes(taxonCount: number): Uint8Array {
   return new Uint8Array(new ArrayBuffer(Math.ceil(taxonCount / 4) * 4), 0, taxonCount);
 }
 
-/** The 32-bit words over a paddedBytes array: four taxa per word. */
-export function wordsOf(bytes: Uint8Array): Uint32Array {
-  return new Uint32Array(bytes.buffer, bytes.byteOffset, Math.ceil(bytes.length / 4));
+/** The 32-bit words over a paddedBytes array: four taxa per word (signed, so additions stay in integers). */
+export function wordsOf(bytes: Uint8Array): Int32Array {
+  return new Int32Array(bytes.buffer, bytes.byteOffset, Math.ceil(bytes.length / 4));
 }
 
 function isConflict(status: number): boolean {
   return status === ValueStatus.NotCoded || status === ValueStatus.Inapplicable;
 }
 
-const answerFlags = new WeakMap<CompiledMatrix, Map<number, Uint32Array>>();
+const answerFlags = new WeakMap<CompiledMatrix, Map<number, Int32Array>>();
 
 /**
  * A byte of 1 for each taxon for which `answer` of `trait` is neither coded nor possible (not coded,
  * or the trait does not apply), packed four taxa per word. Derived from the matrix once per trait
  * and answer, then kept with it.
  */
-export function answerConflictFlags(compiled: CompiledMatrix, trait: CompiledTrait, answer: number): Uint32Array {
+export function answerConflictFlags(compiled: CompiledMatrix, trait: CompiledTrait, answer: number): Int32Array {
   let byKey = answerFlags.get(compiled);
   if (!byKey) {
     byKey = new Map();
@@ -55,7 +55,7 @@ export function answerConflictFlags(compiled: CompiledMatrix, trait: CompiledTra
  * Conflict flags of a set observation: a taxon conflicts when none of the answers is coded for it.
  * One answer returns the matrix's shared column (read only); several are combined into `scratch`.
  */
-export function setConflictFlags(compiled: CompiledMatrix, observation: PreparedSet, scratch: () => Uint32Array): Uint32Array {
+export function setConflictFlags(compiled: CompiledMatrix, observation: PreparedSet, scratch: () => Int32Array): Int32Array {
   const answers = observation.answers;
   const first = answerConflictFlags(compiled, observation.trait, answers[0]);
   if (answers.length === 1) return first;
@@ -71,26 +71,51 @@ export function setConflictFlags(compiled: CompiledMatrix, observation: Prepared
 
 /**
  * Per-taxon conflict counts: bytes (fewer than 256 observations, so no byte ever passes 255) with
- * their words, so a flag column adds four taxa per 32-bit addition and no byte carries into the
- * next; or shorts, added a taxon at a time.
+ * their words, so flag columns add four taxa per 32-bit addition, four columns per pass, and no
+ * byte carries into the next; or shorts, added a taxon at a time.
  */
 export class ConflictCounts {
   readonly counts: Uint8Array | Uint16Array;
-  private readonly words: Uint32Array | undefined;
+  private readonly words: Int32Array | undefined;
+  private readonly pending: Int32Array[] = [];
 
-  constructor(counts: Uint8Array | Uint16Array, words?: Uint32Array) {
+  constructor(counts: Uint8Array | Uint16Array, words?: Int32Array) {
     this.counts = counts;
     this.words = counts instanceof Uint8Array ? (words ?? wordsOf(counts)) : undefined;
   }
 
-  add(flags: Uint32Array): void {
+  /** Counts a flag column in (it must stay unchanged until `flush`). */
+  add(flags: Int32Array): void {
+    this.pending.push(flags);
+  }
+
+  /** Adds every column given since the last flush. */
+  flush(): void {
+    const pending = this.pending;
     const words = this.words;
-    if (words) {
-      for (let w = 0; w < words.length; w++) words[w] += flags[w];
+    if (!words) {
+      const counts = this.counts;
+      for (const flags of pending) {
+        const bytes = new Uint8Array(flags.buffer, flags.byteOffset, counts.length);
+        for (let t = 0; t < counts.length; t++) counts[t] += bytes[t];
+      }
+      pending.length = 0;
       return;
     }
-    const counts = this.counts;
-    const bytes = new Uint8Array(flags.buffer, flags.byteOffset, counts.length);
-    for (let t = 0; t < counts.length; t++) counts[t] += bytes[t];
+    const m = words.length;
+    let i = 0;
+    // 32-bit integer additions: no byte carries, so the wrap-around of the sign bit is harmless
+    for (; i + 4 <= pending.length; i += 4) {
+      const f0 = pending[i];
+      const f1 = pending[i + 1];
+      const f2 = pending[i + 2];
+      const f3 = pending[i + 3];
+      for (let w = 0; w < m; w++) words[w] = (words[w] + f0[w] + f1[w] + f2[w] + f3[w]) | 0;
+    }
+    for (; i < pending.length; i++) {
+      const f0 = pending[i];
+      for (let w = 0; w < m; w++) words[w] = (words[w] + f0[w]) | 0;
+    }
+    pending.length = 0;
   }
 }

@@ -26,7 +26,8 @@ const STATUS_RANK = new Uint8Array(8);
   STATUS_RANK[status] = rank;
 });
 
-function setReason(compiled: CompiledMatrix, observation: PreparedObservation & { kind: 'set' }, t: number, seen: string): Reason {
+function setReason(compiled: CompiledMatrix, observation: PreparedObservation & { kind: 'set' }, t: number, cache: ReasonCache): Reason {
+  const seen = cache.seenText(observation);
   const trait = observation.trait;
   const pattern = compiled.cellPattern[trait.index * compiled.taxonCount + t];
   const base = trait.likBase + pattern * trait.answerCount;
@@ -43,7 +44,7 @@ function setReason(compiled: CompiledMatrix, observation: PreparedObservation & 
   switch (best) {
     case ValueStatus.Usual:
       status = 'matched';
-      text = reasonTexts.matched(trait, seen);
+      text = cache.matchedText(observation);
       break;
     case ValueStatus.Occasional:
     case ValueStatus.Rare:
@@ -88,8 +89,15 @@ export class ReasonCache {
   private readonly setAside: Array<Reason | undefined> = [];
   private readonly byPattern: Array<Array<Reason | undefined> | undefined> = [];
 
+  private readonly matched: Array<string | undefined> = [];
+
   seenText(observation: PreparedObservation): string {
     return (this.seen[observation.index] ??= observedText(observation));
+  }
+
+  /** "matched" does not depend on the taxon's coding beyond its status, so its text is built once */
+  matchedText(observation: PreparedObservation): string {
+    return (this.matched[observation.index] ??= reasonTexts.matched(observation.trait, this.seenText(observation)));
   }
 
   skippedReason(compiled: CompiledMatrix, observation: PreparedObservation, cause: SkipCause): Reason {
@@ -114,7 +122,7 @@ export function reasonsFor(compiled: CompiledMatrix, prepared: readonly Prepared
     } else {
       const byPattern = cache.patternReasons(observation);
       const pattern = compiled.cellPattern[observation.trait.index * n + t];
-      reasons.push((byPattern[pattern] ??= setReason(compiled, observation, t, cache.seenText(observation))));
+      reasons.push((byPattern[pattern] ??= setReason(compiled, observation, t, cache)));
     }
   }
   return reasons;

@@ -4,7 +4,7 @@
  * Invariant: `probability` is finite, non-negative and sums to 1 over all taxa (or is empty for an
  * empty matrix); every log term added is finite because every likelihood is > 0.
  */
-import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledCondition, type CompiledMatrix } from './compiled';
+import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledCondition, type CompiledMatrix, type CompiledTrait } from './compiled';
 import { MODEL } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
 import { ConflictCounts, paddedBytes, setConflictFlags, wordsOf } from './conflict-flags';
@@ -204,9 +204,6 @@ const MEASURE_CONFLICT = Uint8Array.from([0, 0, 0, 1, 1, 1, 0, 0, 1]);
  */
 function measureColumn(compiled: CompiledMatrix, observation: PreparedMeasure, linear: boolean, codes: Uint16Array, conflicts: Uint8Array | Uint16Array): ScoreColumn {
   const n = compiled.taxonCount;
-  const e = observation.trait.errorRate;
-  const u = MODEL.unknownNumericScore;
-  const plain = [u, u, u, e, e, e, MODEL.typicalScore, MODEL.extremeScore, e];
   const columnBase = observation.trait.index * n;
   const block = observation.trait.numericIndex * 4 * n;
   const minBase = block + RangeField.Min * n;
@@ -224,7 +221,23 @@ function measureColumn(compiled: CompiledMatrix, observation: PreparedMeasure, l
     codes[t] = code;
     conflicts[t] += MEASURE_CONFLICT[code];
   }
-  return { codes, factor: linear ? Float64Array.from(plain) : Float64Array.from(plain, Math.log) };
+  const factors = measureFactors(observation.trait);
+  return { codes, factor: linear ? factors.likelihood : factors.logs };
+}
+
+const traitMeasureFactors = new WeakMap<CompiledTrait, { likelihood: Float64Array; logs: Float64Array }>();
+
+/** A numeric trait's factor per measurement code, plain and as logs; built once per trait. */
+function measureFactors(trait: CompiledTrait): { likelihood: Float64Array; logs: Float64Array } {
+  let factors = traitMeasureFactors.get(trait);
+  if (!factors) {
+    const e = trait.errorRate;
+    const u = MODEL.unknownNumericScore;
+    const likelihood = Float64Array.of(u, u, u, e, e, e, MODEL.typicalScore, MODEL.extremeScore, e);
+    factors = { likelihood, logs: likelihood.map(Math.log) };
+    traitMeasureFactors.set(trait, factors);
+  }
+  return factors;
 }
 
 /** A column of unknown cells per matrix, shared by every ranking (it is only ever read). */
@@ -241,8 +254,26 @@ function unknownColumnOf(compiled: CompiledMatrix): Uint16Array {
 
 /** Ten columns into the scores in one pass: score = from × (or +) their ten factors. */
 function addTen(columns: readonly ScoreColumn[], o: number, from: Float64Array, score: Float64Array, linear: boolean): void {
-  const [c0, c1, c2, c3, c4, c5, c6, c7, c8, c9] = columns.slice(o, o + 10).map((column) => column.codes);
-  const [v0, v1, v2, v3, v4, v5, v6, v7, v8, v9] = columns.slice(o, o + 10).map((column) => column.factor);
+  const c0 = columns[o].codes;
+  const c1 = columns[o + 1].codes;
+  const c2 = columns[o + 2].codes;
+  const c3 = columns[o + 3].codes;
+  const c4 = columns[o + 4].codes;
+  const c5 = columns[o + 5].codes;
+  const c6 = columns[o + 6].codes;
+  const c7 = columns[o + 7].codes;
+  const c8 = columns[o + 8].codes;
+  const c9 = columns[o + 9].codes;
+  const v0 = columns[o].factor;
+  const v1 = columns[o + 1].factor;
+  const v2 = columns[o + 2].factor;
+  const v3 = columns[o + 3].factor;
+  const v4 = columns[o + 4].factor;
+  const v5 = columns[o + 5].factor;
+  const v6 = columns[o + 6].factor;
+  const v7 = columns[o + 7].factor;
+  const v8 = columns[o + 8].factor;
+  const v9 = columns[o + 9].factor;
   const n = score.length;
   // two copies of one loop, so neither branches on the scale per taxon
   if (linear) {
@@ -254,8 +285,16 @@ function addTen(columns: readonly ScoreColumn[], o: number, from: Float64Array, 
 
 /** Five columns into the scores in one pass: score = from × (or +) their five factors. */
 function addFive(columns: readonly ScoreColumn[], o: number, from: Float64Array, score: Float64Array, linear: boolean): void {
-  const [c0, c1, c2, c3, c4] = columns.slice(o, o + 5).map((column) => column.codes);
-  const [v0, v1, v2, v3, v4] = columns.slice(o, o + 5).map((column) => column.factor);
+  const c0 = columns[o].codes;
+  const c1 = columns[o + 1].codes;
+  const c2 = columns[o + 2].codes;
+  const c3 = columns[o + 3].codes;
+  const c4 = columns[o + 4].codes;
+  const v0 = columns[o].factor;
+  const v1 = columns[o + 1].factor;
+  const v2 = columns[o + 2].factor;
+  const v3 = columns[o + 3].factor;
+  const v4 = columns[o + 4].factor;
   const n = score.length;
   if (linear) {
     for (let t = 0; t < n; t++) score[t] = from[t] * (v0[c0[t]] * v1[c1[t]] * v2[c2[t]] * v3[c3[t]] * v4[c4[t]]);
@@ -408,12 +447,12 @@ export interface ScoringScratch {
   score: Float64Array;
   conflicts8: Uint8Array;
   /** conflicts8 four taxa per word */
-  conflictWords: Uint32Array;
+  conflictWords: Int32Array;
   conflicts16: Uint16Array | undefined;
   /** one code column per measurement, grown as needed */
   measureCodes: Uint16Array[];
   /** one flag column (four taxa per word) per set observation with several answers, grown as needed */
-  flags: Uint32Array[];
+  flags: Int32Array[];
 }
 
 const scratches = new WeakMap<CompiledMatrix, ScoringScratch>();
@@ -468,8 +507,8 @@ export function scoreObservations(compiled: CompiledMatrix, prepared: readonly P
   const words = Math.ceil(n / 4);
   let measures = 0;
   let flagColumns = 0;
-  const nextFlags = (): Uint32Array => {
-    const flags = scratch ? (scratch.flags[flagColumns] ??= new Uint32Array(words)) : new Uint32Array(words);
+  const nextFlags = (): Int32Array => {
+    const flags = scratch ? (scratch.flags[flagColumns] ??= new Int32Array(words)) : new Int32Array(words);
     flagColumns++;
     return flags;
   };
@@ -484,6 +523,7 @@ export function scoreObservations(compiled: CompiledMatrix, prepared: readonly P
     measures++;
     columns.push(measureColumn(compiled, observation, linear, codes, conflicts));
   }
+  counter.flush();
   addColumns(compiled, columns, start, score, linear);
   const scored: Scored = { score, linear, probability: new Float64Array(0), maxLog: 0, logTotal: 0, scale: 1, conflicts, active, skipped };
   if (linear && n > 0) {

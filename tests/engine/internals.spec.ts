@@ -134,6 +134,7 @@ describe('internals: conflict counting', () => {
           }
           counts.add(wordsOf(flags));
         }
+        counts.flush();
         expect([...counts.counts]).to.deep.equal(expected);
       }),
       { numRuns: 120 },
