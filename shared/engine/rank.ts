@@ -9,7 +9,7 @@ import { RANK_DEFAULTS, type RankOptions } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
 import { rangeOf } from './separation';
 import { prepareObservations, type PreparedObservation } from './observations';
-import { exactProbability, measureRegion, regionLikelihood, scoreObservations, scoringScratch, type Scored, type SkipCause } from './scoring';
+import { exactProbability, measureRegion, regionLikelihood, scoreObservations, scoringScratch, setLinearTotal, type Scored, type SkipCause } from './scoring';
 import { observedText, patternText, reasonTexts } from './texts';
 import type { Candidate, Observation, RankResult, Reason, ReasonStatus } from './types';
 
@@ -180,19 +180,23 @@ class BestList {
 /**
  * Sorts every taxon into the kept or the dropped list by its conflicts, in one tight pass: the list
  * is picked by index rather than by a branch (whether a taxon is kept is unpredictable), and most
- * taxa fall below their list's bar and cost one predictable comparison.
+ * taxa fall below their list's bar and cost one predictable comparison. Returns the sum of the
+ * scores, summed on the way.
  */
-function select(scored: Scored, leeway: number, kept: BestList, dropped: BestList): void {
+function select(scored: Scored, leeway: number, kept: BestList, dropped: BestList): number {
   const score = scored.score;
   const conflicts = scored.conflicts;
   const n = score.length;
   const lists = [dropped, kept];
   const bars = Float64Array.of(dropped.worst, kept.worst);
   let keptTotal = 0;
+  let total = 0;
   for (let t = 0; t < n; t++) {
+    const value = score[t];
+    total += value;
     const isKept = +(conflicts[t] <= leeway);
     keptTotal += isKept;
-    if (score[t] >= bars[isKept]) {
+    if (value >= bars[isKept]) {
       const list = lists[isKept];
       list.offer(t);
       bars[isKept] = list.worst;
@@ -200,6 +204,7 @@ function select(scored: Scored, leeway: number, kept: BestList, dropped: BestLis
   }
   kept.total = keptTotal;
   dropped.total = n - keptTotal;
+  return total;
 }
 
 function toCandidate(compiled: CompiledMatrix, scored: Scored, prepared: readonly PreparedObservation[], t: number, cache: ReasonCache): Candidate {
@@ -221,10 +226,11 @@ export function rank(compiled: CompiledMatrix, observations: readonly Observatio
   const limit = resolveCount('limit', options.limit, RANK_DEFAULTS.limit);
   const prepared = prepareObservations(compiled, observations);
   // the scored arrays are this matrix's scratch: everything needed from them is read before returning
-  const scored = scoreObservations(compiled, prepared, options.priors, { withProbabilities: false, scratch: scoringScratch(compiled) });
+  const scored = scoreObservations(compiled, prepared, options.priors, { withProbabilities: false, scratch: scoringScratch(compiled), totalByCaller: true });
   const kept = new BestList(scored, limit);
   const dropped = new BestList(scored, limit);
-  select(scored, leeway, kept, dropped);
+  const total = select(scored, leeway, kept, dropped);
+  if (scored.linear && compiled.taxonCount > 0) setLinearTotal(scored, total);
   const skipped = [...scored.skipped.entries()].map(([index, cause]) => {
     const observation = prepared.find((item) => item.index === index)!;
     return { trait: observation.trait.code, reason: reasonTexts.skipped(compiled, observation.trait, cause) };

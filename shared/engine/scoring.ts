@@ -159,7 +159,7 @@ export function regionLikelihood(region: MeasureRegion, errorRate: number): numb
 }
 
 /** A column of small codes per taxon and, per code, the factor it multiplies (or adds). */
-interface ScoreColumn {
+export interface ScoreColumn {
   codes: Uint16Array;
   factor: Float64Array;
 }
@@ -252,8 +252,8 @@ function unknownColumnOf(compiled: CompiledMatrix): Uint16Array {
   return column;
 }
 
-/** Ten columns into the scores in one pass: score = from × (or +) their ten factors. */
-function addTen(columns: readonly ScoreColumn[], o: number, from: Float64Array, score: Float64Array, linear: boolean): void {
+/** Ten columns into the scores in one pass: score = from × (or +) their ten factors. Exported for tests. */
+export function addTen(columns: readonly ScoreColumn[], o: number, from: Float64Array, score: Float64Array, linear: boolean): void {
   const c0 = columns[o].codes;
   const c1 = columns[o + 1].codes;
   const c2 = columns[o + 2].codes;
@@ -281,6 +281,55 @@ function addTen(columns: readonly ScoreColumn[], o: number, from: Float64Array, 
   } else {
     for (let t = 0; t < n; t++) score[t] = from[t] + (v0[c0[t]] + v1[c1[t]] + v2[c2[t]] + v3[c3[t]] + v4[c4[t]] + v5[c5[t]] + v6[c6[t]] + v7[c7[t]] + v8[c8[t]] + v9[c9[t]]);
   }
+}
+
+/**
+ * addTen for plain products, two taxa per step: each column is read as 32-bit words holding the
+ * codes of taxa 2i (low half) and 2i + 1 (high half), halving the reads and their bounds checks.
+ * Gives exactly addTen's products. Needs an even taxon count and word-aligned columns. Exported for tests.
+ */
+export function addTenByPairs(columns: readonly ScoreColumn[], o: number, from: Float64Array, score: Float64Array): void {
+  const [c0, c1, c2, c3, c4, c5, c6, c7, c8, c9] = columns.slice(o, o + 10).map((column) => pairsOf(column.codes));
+  const v0 = columns[o].factor;
+  const v1 = columns[o + 1].factor;
+  const v2 = columns[o + 2].factor;
+  const v3 = columns[o + 3].factor;
+  const v4 = columns[o + 4].factor;
+  const v5 = columns[o + 5].factor;
+  const v6 = columns[o + 6].factor;
+  const v7 = columns[o + 7].factor;
+  const v8 = columns[o + 8].factor;
+  const v9 = columns[o + 9].factor;
+  const m = c0.length;
+  for (let i = 0; i < m; i++) {
+    const a0 = c0[i];
+    const a1 = c1[i];
+    const a2 = c2[i];
+    const a3 = c3[i];
+    const a4 = c4[i];
+    const a5 = c5[i];
+    const a6 = c6[i];
+    const a7 = c7[i];
+    const a8 = c8[i];
+    const a9 = c9[i];
+    const t = i << 1;
+    score[t] = from[t] * (v0[a0 & 0xffff] * v1[a1 & 0xffff] * v2[a2 & 0xffff] * v3[a3 & 0xffff] * v4[a4 & 0xffff] * v5[a5 & 0xffff] * v6[a6 & 0xffff] * v7[a7 & 0xffff] * v8[a8 & 0xffff] * v9[a9 & 0xffff]);
+    score[t + 1] = from[t + 1] * (v0[a0 >>> 16] * v1[a1 >>> 16] * v2[a2 >>> 16] * v3[a3 >>> 16] * v4[a4 >>> 16] * v5[a5 >>> 16] * v6[a6 >>> 16] * v7[a7 >>> 16] * v8[a8 >>> 16] * v9[a9 >>> 16]);
+  }
+}
+
+const LITTLE_ENDIAN = new Uint8Array(Uint16Array.of(1).buffer)[0] === 1;
+
+/** A code column as 32-bit words, two taxa each (see addTenByPairs). */
+function pairsOf(codes: Uint16Array): Int32Array {
+  return new Int32Array(codes.buffer, codes.byteOffset, codes.length >>> 1);
+}
+
+/** Whether addTenByPairs can read these columns: an even count of taxa, enough of them to pay for the views, aligned words. */
+function pairable(columns: readonly ScoreColumn[], o: number, n: number): boolean {
+  if (!LITTLE_ENDIAN || n % 2 !== 0 || n < 64) return false;
+  for (let k = o; k < o + 10; k++) if (columns[k].codes.byteOffset % 4 !== 0) return false;
+  return true;
 }
 
 /** Five columns into the scores in one pass: score = from × (or +) their five factors. */
@@ -323,7 +372,8 @@ function addColumns(compiled: CompiledMatrix, columns: ScoreColumn[], start: Flo
   let from = start;
   let o = 0;
   for (; o + 10 <= columns.length; o += 10) {
-    addTen(columns, o, from, score, linear);
+    if (linear && pairable(columns, o, score.length)) addTenByPairs(columns, o, from, score);
+    else addTen(columns, o, from, score, linear);
     from = score;
   }
   for (; o < columns.length; o += 5) {
@@ -475,6 +525,11 @@ export interface ScoringOptions {
   scratch?: ScoringScratch;
   /** keep log sums even where plain products would be safe (to check one against the other) */
   forceLogs?: boolean;
+  /**
+   * Leave the total of plain products to the caller, who reads every score anyway and must then call
+   * setLinearTotal (only with withProbabilities false; log sums are always normalised here).
+   */
+  totalByCaller?: boolean;
 }
 
 /**
@@ -484,7 +539,8 @@ export interface ScoringOptions {
  * valid until the next scoring with it (see ScoringScratch); without, they are fresh.
  */
 export function scoreObservations(compiled: CompiledMatrix, prepared: readonly PreparedObservation[], priors?: Readonly<Record<string, number>>, options: ScoringOptions = {}): Scored {
-  const { withProbabilities = true, scratch, forceLogs = false } = options;
+  const { withProbabilities = true, scratch, forceLogs = false, totalByCaller = false } = options;
+  if (totalByCaller && withProbabilities) throw new EngineUsageError(usageMessages.badOption('totalByCaller', true, 'used only without probabilities'));
   const n = compiled.taxonCount;
   const logPrior = logPriors(compiled, priors);
   const skipped = findSkipped(prepared);
@@ -527,10 +583,10 @@ export function scoreObservations(compiled: CompiledMatrix, prepared: readonly P
   addColumns(compiled, columns, start, score, linear);
   const scored: Scored = { score, linear, probability: new Float64Array(0), maxLog: 0, logTotal: 0, scale: 1, conflicts, active, skipped };
   if (linear && n > 0) {
+    if (totalByCaller) return scored;
     let total = 0;
     for (let t = 0; t < n; t++) total += score[t];
-    scored.logTotal = Math.log(total);
-    scored.scale = 1 / total;
+    setLinearTotal(scored, total);
     if (withProbabilities) {
       // the scores become the probabilities; the order of taxa and exactProbability are unchanged
       probabilitiesInPlace(scored);
@@ -542,6 +598,12 @@ export function scoreObservations(compiled: CompiledMatrix, prepared: readonly P
   scored.logTotal = normaliser.logTotal;
   if (withProbabilities) scored.probability = normalise(score, normaliser);
   return scored;
+}
+
+/** Completes a linear scoring whose total the caller summed (see ScoringOptions.totalByCaller). */
+export function setLinearTotal(scored: Scored, total: number): void {
+  scored.logTotal = Math.log(total);
+  scored.scale = 1 / total;
 }
 
 function probabilitiesInPlace(scored: Scored): void {

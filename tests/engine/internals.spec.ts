@@ -3,7 +3,7 @@ import { compileMatrix, generateSyntheticMatrix, type Observation } from '@share
 import { bandLabel, bandOf, bandProbabilities, niceBetween, weightedCuts } from '../../shared/engine/bands';
 import { countSpanOf, parseCount } from '../../shared/engine/count-span';
 import { prepareObservations } from '../../shared/engine/observations';
-import { exactProbability, logNormaliser, normalise, scoreObservations } from '../../shared/engine/scoring';
+import { addTen, addTenByPairs, exactProbability, logNormaliser, normalise, scoreObservations, type ScoreColumn } from '../../shared/engine/scoring';
 import { seededRandom } from '../../shared/engine/synthetic';
 import { drawAnswer } from '../../scripts/lib/engine-sim';
 import { arithmeticMatrix } from './fixtures';
@@ -138,6 +138,27 @@ describe('internals: conflict counting', () => {
         expect([...counts.counts]).to.deep.equal(expected);
       }),
       { numRuns: 120 },
+    );
+  });
+});
+
+describe('internals: scoring ten columns at a time', () => {
+  it('gives bit-identical products reading two taxa per word as reading one taxon at a time', () => {
+    fc.assert(
+      fc.property(fc.integer({ min: 32, max: 700 }).map((half) => half * 2), fc.integer({ min: 1, max: 2 ** 31 - 1 }), (taxa, seed) => {
+        const random = seededRandom(seed);
+        const columns: ScoreColumn[] = Array.from({ length: 10 }, () => {
+          const size = 1 + Math.floor(random() * 300);
+          return { codes: Uint16Array.from({ length: taxa }, () => Math.floor(random() * size)), factor: Float64Array.from({ length: size }, () => random()) };
+        });
+        const from = Float64Array.from({ length: taxa }, () => random());
+        const one = new Float64Array(taxa);
+        const two = new Float64Array(taxa);
+        addTen(columns, 0, from, one, true);
+        addTenByPairs(columns, 0, from, two);
+        for (let t = 0; t < taxa; t++) expect(Object.is(one[t], two[t]), `taxon ${t}`).to.equal(true);
+      }),
+      { numRuns: 60 },
     );
   });
 });
