@@ -195,6 +195,9 @@ function setColumn(compiled: CompiledMatrix, observation: PreparedSet, linear: b
 // columns by region (typical, extreme, outside)
 const MEASURE_CONFLICT = Uint8Array.from([0, 0, 0, 1, 1, 1, 0, 0, 1]);
 
+/** Whether the low half of a 32-bit word is the first of its two 16-bit halves in memory. */
+const LITTLE_ENDIAN = new Uint8Array(Uint16Array.of(1).buffer)[0] === 1;
+
 /**
  * A measurement's column: where it falls for each taxon, as pattern * 3 + region; its conflicts are
  * added to `conflicts` on the way. Branch-free on purpose (where a measurement falls is
@@ -215,11 +218,31 @@ function measureColumn(compiled: CompiledMatrix, observation: PreparedMeasure, l
   const ranges = compiled.ranges;
   // compiled ranges are ordered (min ≤ low ≤ high ≤ max), so the four comparisons that hold are
   // 4 inside the typical range, 3 inside the recorded one only, 2 outside: region = 4 − held
-  for (let t = 0; t < n; t++) {
-    const held = +(x >= ranges[minBase + t]) + +(x >= ranges[lowBase + t]) + +(x <= ranges[highBase + t]) + +(x <= ranges[maxBase + t]);
-    const code = patterns[columnBase + t] * 3 + 4 - held;
-    codes[t] = code;
-    conflicts[t] += MEASURE_CONFLICT[code];
+  const patternOffset = patterns.byteOffset + columnBase * 2;
+  if (LITTLE_ENDIAN && n % 2 === 0 && n >= 64 && conflicts instanceof Uint8Array && patternOffset % 4 === 0 && codes.byteOffset % 4 === 0 && conflicts.byteOffset % 2 === 0) {
+    // two taxa per step: their patterns and codes as one 32-bit word, their conflicts as one 16-bit
+    // addition (counts stay below 256, so no byte carries into the next)
+    const pairs = n >>> 1;
+    const patternPairs = new Int32Array(patterns.buffer, patternOffset, pairs);
+    const codePairs = new Int32Array(codes.buffer, codes.byteOffset, pairs);
+    const conflictPairs = new Uint16Array(conflicts.buffer, conflicts.byteOffset, pairs);
+    for (let i = 0; i < pairs; i++) {
+      const t = i << 1;
+      const both = patternPairs[i];
+      const held0 = +(x >= ranges[minBase + t]) + +(x >= ranges[lowBase + t]) + +(x <= ranges[highBase + t]) + +(x <= ranges[maxBase + t]);
+      const held1 = +(x >= ranges[minBase + t + 1]) + +(x >= ranges[lowBase + t + 1]) + +(x <= ranges[highBase + t + 1]) + +(x <= ranges[maxBase + t + 1]);
+      const code0 = (both & 0xffff) * 3 + 4 - held0;
+      const code1 = (both >>> 16) * 3 + 4 - held1;
+      codePairs[i] = code0 | (code1 << 16);
+      conflictPairs[i] += MEASURE_CONFLICT[code0] | (MEASURE_CONFLICT[code1] << 8);
+    }
+  } else {
+    for (let t = 0; t < n; t++) {
+      const held = +(x >= ranges[minBase + t]) + +(x >= ranges[lowBase + t]) + +(x <= ranges[highBase + t]) + +(x <= ranges[maxBase + t]);
+      const code = patterns[columnBase + t] * 3 + 4 - held;
+      codes[t] = code;
+      conflicts[t] += MEASURE_CONFLICT[code];
+    }
   }
   const factors = measureFactors(observation.trait);
   return { codes, factor: linear ? factors.likelihood : factors.logs };
@@ -317,8 +340,6 @@ export function addTenByPairs(columns: readonly ScoreColumn[], o: number, from: 
     score[t + 1] = from[t + 1] * (v0[a0 >>> 16] * v1[a1 >>> 16] * v2[a2 >>> 16] * v3[a3 >>> 16] * v4[a4 >>> 16] * v5[a5 >>> 16] * v6[a6 >>> 16] * v7[a7 >>> 16] * v8[a8 >>> 16] * v9[a9 >>> 16]);
   }
 }
-
-const LITTLE_ENDIAN = new Uint8Array(Uint16Array.of(1).buffer)[0] === 1;
 
 /** A code column as 32-bit words, two taxa each (see addTenByPairs). */
 function pairsOf(codes: Uint16Array): Int32Array {

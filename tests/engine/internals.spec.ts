@@ -3,7 +3,7 @@ import { compileMatrix, generateSyntheticMatrix, type Observation } from '@share
 import { bandLabel, bandOf, bandProbabilities, niceBetween, weightedCuts } from '../../shared/engine/bands';
 import { countSpanOf, parseCount } from '../../shared/engine/count-span';
 import { prepareObservations } from '../../shared/engine/observations';
-import { addTen, addTenByPairs, exactProbability, logNormaliser, normalise, scoreObservations, type ScoreColumn } from '../../shared/engine/scoring';
+import { addTen, addTenByPairs, exactProbability, logNormaliser, measureRegion, normalise, regionLikelihood, scoreObservations, type ScoreColumn } from '../../shared/engine/scoring';
 import { seededRandom } from '../../shared/engine/synthetic';
 import { drawAnswer } from '../../scripts/lib/engine-sim';
 import { arithmeticMatrix } from './fixtures';
@@ -160,5 +160,40 @@ describe('internals: scoring ten columns at a time', () => {
       }),
       { numRuns: 60 },
     );
+  });
+});
+
+describe('internals: scoring measurements', () => {
+  it('scores measurements like their regions one taxon at a time, for even (two per step) and odd taxon counts', () => {
+    for (const taxa of [200, 201]) {
+      const compiled = compileMatrix(generateSyntheticMatrix({ taxa, traits: 40, seed: taxa, numericShare: 0.6, unknownRate: 0.1, conditionalShare: 0.3 }));
+      const random = seededRandom(taxa);
+      for (let round = 0; round < 10; round++) {
+        const truth = Math.floor(random() * taxa);
+        const observations = compiled.traits
+          .filter((trait) => trait.kind === 'numeric')
+          .map((trait) => drawAnswer(compiled, trait.index, truth, random, 0.3))
+          .filter((answer): answer is Observation => answer !== undefined)
+          .slice(0, 8);
+        const prepared = prepareObservations(compiled, observations);
+        const scored = scoreObservations(compiled, prepared, undefined, { withProbabilities: false });
+        const fresh = scoreObservations(compiled, prepared, undefined, { withProbabilities: false, forceLogs: true });
+        for (let t = 0; t < taxa; t++) {
+          let conflicts = 0;
+          let logLikelihood = 0;
+          for (const observation of scored.active) {
+            if (observation.kind !== 'measure') continue;
+            const region = measureRegion(compiled, observation, t);
+            if (region === 'outside' || region === 'inapplicable') conflicts++;
+            logLikelihood += Math.log(regionLikelihood(region, observation.trait.errorRate));
+          }
+          expect(scored.conflicts[t], `taxa ${taxa}, taxon ${t}`).to.equal(conflicts);
+          expect(fresh.conflicts[t]).to.equal(conflicts);
+          // the log sums start from the log prior
+          expect(fresh.score[t] - Math.log(compiled.priorWeight[t] / compiled.priorWeight.reduce((a, b) => a + b, 0))).to.be.closeTo(logLikelihood, 1e-9);
+          expect(exactProbability(scored, t)).to.be.closeTo(exactProbability(fresh, t), 1e-12);
+        }
+      }
+    }
   });
 });
