@@ -1,8 +1,14 @@
 /**
- * The scoring core shared by rank and suggest: log-space sums of P(observation | taxon).
+ * The scoring core shared by rank and suggest: per taxon, the prior times P(observation | taxon) for
+ * every observation — plain products where they cannot underflow, log sums where they could — and
+ * the number of observations that conflict with the taxon's coding.
+ *
+ * Every observation becomes a column of small codes per taxon (a set observation's is its trait's
+ * pattern column; a measurement's says where it falls) with one factor per code, and the columns are
+ * combined ten or five at a time, so each taxon's score is written once per group of observations.
  *
  * Invariant: `probability` is finite, non-negative and sums to 1 over all taxa (or is empty for an
- * empty matrix); every log term added is finite because every likelihood is > 0.
+ * empty matrix); every factor is finite and > 0 (every likelihood is > 0), so no score is NaN.
  */
 import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledCondition, type CompiledMatrix, type CompiledTrait } from './compiled';
 import { MODEL } from './defaults';
