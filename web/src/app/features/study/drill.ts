@@ -1,0 +1,128 @@
+/**
+ * Drills from a study set, worked out in the browser from the edition: no request per question.
+ *
+ * Invariant: every question's choices hold its answer once, and are drawn from the same set.
+ */
+import Fuse from 'fuse.js';
+import { cellOf, diagnose } from '@shared/engine';
+import type { CompiledMatrix } from '@shared/engine/compiled';
+import { describeCell } from '../../shared/matrix-words';
+import { type SeparatingTrait, diagnoseInSet, nameOf } from './study-sheet';
+
+/** at most this many species to choose from per question */
+export const CHOICES_PER_QUESTION = 4;
+
+/** A small, fast seeded generator (mulberry32): the same seed gives the same drill. */
+export function seededRandom(seed: number): () => number {
+  let state = seed >>> 0;
+  return () => {
+    state = (state + 0x6d2b79f5) >>> 0;
+    let t = state;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** A shuffled copy (Fisher–Yates). */
+export function shuffled<T>(items: readonly T[], random: () => number): T[] {
+  const copy = [...items];
+  for (let i = copy.length - 1; i > 0; i--) {
+    const j = Math.floor(random() * (i + 1));
+    [copy[i], copy[j]] = [copy[j], copy[i]];
+  }
+  return copy;
+}
+
+export interface DrillChoice {
+  id: string;
+  name: string;
+  scientificName: string;
+}
+
+export interface DrillQuestion {
+  answer: DrillChoice;
+  /** what the learner is shown: the traits that set the answer apart from the rest of the set */
+  clues: SeparatingTrait[];
+  choices: DrillChoice[];
+}
+
+/** How a wrong pick differs from the right answer, trait by trait. */
+export interface Difference {
+  trait: string;
+  label: string;
+  answer: string;
+  picked: string;
+}
+
+function choiceOf(compiled: CompiledMatrix, id: string): DrillChoice {
+  const index = compiled.taxonIndexById.get(id);
+  return { id, name: nameOf(compiled, id), scientificName: index === undefined ? id : compiled.taxa[index].scientificName };
+}
+
+/** Species of the set that some coded trait sets apart from the others (a drill can ask for them). */
+export function askableIds(compiled: CompiledMatrix, setIds: readonly string[]): string[] {
+  return setIds.filter((id) => diagnoseInSet(compiled, id, setIds).traits.length > 0);
+}
+
+/** One question per target, in shuffled order, each with up to four choices from the set. */
+export function drillQuestions(compiled: CompiledMatrix, setIds: readonly string[], targets: readonly string[], random: () => number): DrillQuestion[] {
+  return shuffled(targets, random).map((target) => {
+    const others = shuffled(
+      setIds.filter((id) => id !== target),
+      random,
+    ).slice(0, CHOICES_PER_QUESTION - 1);
+    return {
+      answer: choiceOf(compiled, target),
+      clues: diagnoseInSet(compiled, target, setIds).traits,
+      choices: shuffled([target, ...others], random).map((id) => choiceOf(compiled, id)),
+    };
+  });
+}
+
+/** The traits that tell the picked species from the right answer, with how each is coded. */
+export function differences(compiled: CompiledMatrix, answer: string, picked: string): Difference[] {
+  const traitFor = (code: string) => compiled.traits[compiled.traitIndexByCode.get(code) ?? -1];
+  return diagnose(compiled, answer, [picked]).traits.flatMap((diagnostic) => {
+    const trait = traitFor(diagnostic.trait);
+    if (!trait) return [];
+    return [
+      {
+        trait: diagnostic.trait,
+        label: diagnostic.label,
+        answer: describeCell(trait, cellOf(compiled, answer, diagnostic.trait)),
+        picked: describeCell(trait, cellOf(compiled, picked, diagnostic.trait)),
+      },
+    ];
+  });
+}
+
+interface NameEntry {
+  id: string;
+  names: string[];
+}
+
+export type NameReading = { kind: 'species'; choice: DrillChoice } | { kind: 'ambiguous'; names: string[] } | { kind: 'none' };
+
+/** two matches closer than this in Fuse score are too alike to pick one */
+const AMBIGUOUS_MARGIN = 0.05;
+
+/** Reads a typed name as one species of the set, tolerating typos; says so when it fits none or several. */
+export function nameMatcher(compiled: CompiledMatrix, setIds: readonly string[]): (typed: string) => NameReading {
+  const entries: NameEntry[] = setIds.map((id) => {
+    const taxon = compiled.taxa[compiled.taxonIndexById.get(id) ?? 0];
+    return { id, names: [taxon.scientificName, ...taxon.commonNames] };
+  });
+  const fuse = new Fuse(entries, { keys: ['names'], threshold: 0.35, ignoreLocation: true, includeScore: true });
+  return (typed) => {
+    const words = typed.trim();
+    if (words.length < 2) return { kind: 'none' };
+    const [best, next] = fuse.search(words, { limit: 3 });
+    if (!best) return { kind: 'none' };
+    const exact = best.item.names.some((name) => name.toLowerCase() === words.toLowerCase());
+    if (!exact && next && (next.score ?? 1) - (best.score ?? 0) < AMBIGUOUS_MARGIN) {
+      return { kind: 'ambiguous', names: [best, next].map((result) => nameOf(compiled, result.item.id)) };
+    }
+    return { kind: 'species', choice: choiceOf(compiled, best.item.id) };
+  };
+}
