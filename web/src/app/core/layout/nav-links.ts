@@ -7,6 +7,7 @@ export interface NavLink {
 
 export const NAV_LINKS: readonly NavLink[] = Object.freeze([
   { path: '/sift', label: 'Sift', icon: 'filter_alt' },
+  { path: '/study', label: 'Study', icon: 'school' },
   { path: '/', label: 'Home', icon: 'park' },
   { path: '/about', label: 'About', icon: 'info' },
 ]);
