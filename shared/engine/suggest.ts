@@ -22,7 +22,7 @@ const ADAPTIVE_BAND_LIMIT = 300;
 /** first traits compared by lookahead */
 const LOOKAHEAD_TRAITS = 4;
 /** traits the greedy continuation chooses from inside a lookahead */
-const LOOKAHEAD_POOL = 8;
+const LOOKAHEAD_POOL = 6;
 /** most nodes one lookahead rollout expands before estimating the rest */
 const ROLLOUT_NODE_BUDGET = 1500;
 /** branches reached with less probability than this are estimated instead of expanded */
