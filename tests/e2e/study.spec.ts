@@ -78,6 +78,8 @@ async function expectOrder(page: Page, expected: string[]): Promise<void> {
 async function questionOnScreen(page: Page): Promise<{ clues: string; choices: string[] }> {
   const question = page.locator('.question');
   await question.waitFor();
+  // A question is read only once the last one's feedback has gone.
+  await page.locator('[data-feedback]').waitFor({ state: 'detached' });
   const clues = ((await question.locator('.clues').textContent()) ?? '').replace(/\s+/g, ' ').trim();
   const choices = await question.locator('.choice').evaluateAll((buttons) => buttons.map((button) => button.getAttribute('data-species') ?? ''));
   return { clues, choices };
@@ -376,11 +378,12 @@ describe('e2e: study sets and drills', function () {
     context = await browser.newContext({ serviceWorkers: 'block', viewport: PHONE });
     const page = await context.newPage();
     await signIn(page, running.baseUrl, 'coach', '/study');
-    await page.locator('.set-card').first().waitFor();
+    const demoCard = page.locator('.set-card', { hasText: DEMO_STUDY_SET.name });
+    await demoCard.waitFor();
     await expectNoSidewaysOverflow(page, 'the study set list');
     await shoot(page, 'list-phone');
 
-    await page.locator('.set-card').first().getByRole('link', { name: 'Edit' }).click();
+    await demoCard.getByRole('link', { name: 'Edit' }).click();
     await page.waitForURL(/\/study\/\d+\/edit$/);
     await page.locator('.species-order .species-item').first().waitFor();
     expect(await page.getByLabel('Name', { exact: true }).inputValue()).to.equal(DEMO_STUDY_SET.name);
