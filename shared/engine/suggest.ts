@@ -307,19 +307,27 @@ function answerConflicts(compiled: CompiledMatrix, evaluated: Evaluated, t: numb
   return max < from || min >= to;
 }
 
-/** Working-set positions of the three members with the largest weight × likelihood (earlier wins ties). */
-function topThree(set: WorkingSet, row: Float64Array): number[] {
-  const best: number[] = [];
-  const value = (i: number): number => set.weight[i] * row[i];
-  for (let i = 0; i < set.members.length; i++) {
-    const v = value(i);
-    if (v <= 0 || (best.length === 3 && v <= value(best[2]))) continue;
-    let at = best.length;
-    while (at > 0 && v > value(best[at - 1])) at--;
-    best.splice(at, 0, i);
-    if (best.length > 3) best.pop();
+/** Working-set positions, heaviest first (equal weights: lower position first). */
+function heaviestFirst(set: WorkingSet): Int32Array {
+  const order = Int32Array.from({ length: set.members.length }, (_, i) => i);
+  return order.sort((a, b) => set.weight[b] - set.weight[a] || a - b);
+}
+
+/**
+ * Working-set positions of the three members with the largest positive weight × likelihood, best
+ * first (equal values: lower position first). Members are visited heaviest first and the scan
+ * stops at the first whose weight alone is below the third value: a likelihood is at most 1, so
+ * no lighter member can reach it.
+ */
+function leadersBy(set: WorkingSet, order: Int32Array, likelihoodOf: (i: number) => number): number[] {
+  const best = new Int32Array(3).fill(-1);
+  const values = new Float64Array(3);
+  for (const i of order) {
+    if (best[2] >= 0 && set.weight[i] < values[2]) break;
+    const value = set.weight[i] * likelihoodOf(i);
+    if (value > 0) insertTop(best, 0, values, i, value, 3);
   }
-  return best;
+  return Array.from(best).filter((i) => i >= 0);
 }
 
 /** Who stays within the leeway whatever the answer, and who is one conflict from leaving. */
@@ -352,36 +360,17 @@ function insertTop(best: Int32Array, at: number, values: Float64Array, i: number
   values[at + slot] = value;
 }
 
-/** Leaders per answer of a discrete trait from the three heaviest members of each pattern (L depends only on the pattern). */
-function discreteLeaders(compiled: CompiledMatrix, trait: CompiledTrait, set: WorkingSet): number[][] {
-  const n = compiled.taxonCount;
-  const base = trait.index * n;
-  const patterns = trait.patternCount;
-  const tops = new Int32Array(patterns * 3).fill(-1);
-  const topWeights = new Float64Array(patterns * 3);
-  for (let i = 0; i < set.members.length; i++) insertTop(tops, compiled.cellPattern[base + set.members[i]] * 3, topWeights, i, set.weight[i], 3);
+/** Leaders per answer of a discrete trait (its likelihood depends only on the member's pattern). */
+function discreteLeaders(compiled: CompiledMatrix, trait: CompiledTrait, set: WorkingSet, order: Int32Array): number[][] {
+  const base = trait.index * compiled.taxonCount;
   const k = trait.answerCount;
-  const leaders = new Int32Array(3);
-  const leaderValues = new Float64Array(3);
-  return Array.from({ length: k }, (_, a) => {
-    leaders.fill(-1);
-    for (let pattern = 0; pattern < patterns; pattern++) {
-      const likelihood = compiled.likelihood[trait.likBase + pattern * k + a];
-      for (let s = 0; s < 3; s++) {
-        const i = tops[pattern * 3 + s];
-        if (i < 0) break;
-        const value = set.weight[i] * likelihood;
-        if (value > 0) insertTop(leaders, 0, leaderValues, i, value, 3);
-      }
-    }
-    return Array.from(leaders).filter((i) => i >= 0);
-  });
+  return Array.from({ length: k }, (_, a) => leadersBy(set, order, (i) => compiled.likelihood[trait.likBase + compiled.cellPattern[base + set.members[i]] * k + a]));
 }
 
-function previewOf(compiled: CompiledMatrix, evaluated: Evaluated, set: WorkingSet, counts: LeewayCounts): SuggestionPreview[] {
+function previewOf(compiled: CompiledMatrix, evaluated: Evaluated, set: WorkingSet, order: Int32Array, counts: LeewayCounts): SuggestionPreview[] {
   const trait = evaluated.trait;
   const isNumeric = trait.kind === 'numeric';
-  const leadersByAnswer = isNumeric ? answerRows(compiled, evaluated, set).map((row) => topThree(set, row)) : discreteLeaders(compiled, trait, set);
+  const leadersByAnswer = isNumeric ? answerRows(compiled, evaluated, set).map((row) => leadersBy(set, order, (i) => row[i])) : discreteLeaders(compiled, trait, set, order);
   return leadersByAnswer.map((leaders, a) => {
     let remaining = counts.below;
     for (const t of counts.atLeeway) if (!answerConflicts(compiled, evaluated, t, a)) remaining++;
@@ -692,6 +681,7 @@ export function suggest(compiled: CompiledMatrix, observations: readonly Observa
   }
 
   const counts = leewayCounts(scored, leeway);
+  const order = heaviestFirst(set);
   return evaluated.slice(0, limit).map((item) => {
     const effort = costs?.get(item);
     return {
@@ -699,7 +689,7 @@ export function suggest(compiled: CompiledMatrix, observations: readonly Observa
       label: item.trait.label,
       expectedGain: item.gain,
       score: item.score,
-      preview: previewOf(compiled, item, set, counts),
+      preview: previewOf(compiled, item, set, order, counts),
       ...(effort !== undefined && { expectedEffort: effort }),
     };
   });
