@@ -63,6 +63,48 @@ describe('e2e: accounts and edition updates', function () {
     await context.close();
   });
 
+  it('keeps the session across a reload, offline too, and forgets it once the server has ended it', async () => {
+    const coach = demoAccount('coach');
+    const context = await browser.newContext({ serviceWorkers: 'block' });
+    const page = await context.newPage();
+    await page.goto(`${running.baseUrl}/sign-in?next=${encodeURIComponent('/account')}`);
+    await page.getByLabel('E-mail').fill(coach.email);
+    await page.getByLabel('Password').fill(DEMO_PASSWORD);
+    await page.getByRole('button', { name: 'Sign in' }).click();
+    await page.waitForURL(/\/account$/);
+    await page.locator('.facts .role').waitFor();
+
+    // a full page load of a guarded page keeps the session and asks the server who it is again
+    const asked = page.waitForResponse((response) => response.url().endsWith('/api/v1/me'));
+    await page.reload();
+    expect((await asked).status()).to.equal(200);
+    await page.locator('.facts .role').waitFor();
+    expect(page.url()).to.equal(`${running.baseUrl}/account`);
+    expect(await page.locator('.facts .role').textContent()).to.equal('coach');
+    const token = await page.evaluate(() => localStorage.getItem('sylvasift.session'));
+    expect(token).to.be.a('string');
+
+    // the server unreachable while the page loads: the session is kept, not thrown away
+    await page.route('**/api/v1/me', (route) => route.abort('internetdisconnected'));
+    const failed = page.waitForEvent('requestfailed', (request) => request.url().endsWith('/api/v1/me'));
+    await page.goto(`${running.baseUrl}/sift`);
+    await failed;
+    // give the page's error handling a moment to run before reading what it kept
+    await page.waitForTimeout(300);
+    expect(await page.evaluate(() => localStorage.getItem('sylvasift.session'))).to.equal(token);
+    await page.unroute('**/api/v1/me');
+
+    // the session ended on the server (signed out elsewhere): the next load forgets it
+    const ended = await page.request.delete(`${running.baseUrl}/api/v1/sessions/current`, { headers: { authorization: `Bearer ${token}` } });
+    expect(ended.status()).to.be.oneOf([200, 204]);
+    const refused = page.waitForResponse((response) => response.url().endsWith('/api/v1/me'));
+    await page.goto(`${running.baseUrl}/sift`);
+    expect((await refused).status()).to.equal(401);
+    await page.locator('header a', { hasText: 'Sign in' }).waitFor();
+    expect(await page.evaluate(() => localStorage.getItem('sylvasift.session'))).to.equal(null);
+    await context.close();
+  });
+
   it('refuses a wrong password with a readable message and signs a curator in', async () => {
     const context = await browser.newContext({ serviceWorkers: 'block' });
     const page = await context.newPage();

@@ -38,10 +38,7 @@ async function shoot(page: Page, name: string): Promise<void> {
   await page.screenshot({ path: path.join(SHOTS, `${name}.png`), fullPage: true });
 }
 
-/**
- * Signs in through the sign-in page and lands on `next`. Pages are opened this way rather than by
- * loading their address directly, because a full page load does not keep the session yet.
- */
+/** Signs in through the sign-in page and lands on `next`, as someone following a shared link does. */
 async function signIn(page: Page, baseUrl: string, role: string, next: string): Promise<void> {
   const account = demoAccount(role);
   await page.goto(`${baseUrl}/sign-in?next=${encodeURIComponent(next)}`);

@@ -68,7 +68,10 @@ export class AuthService {
   readonly signedIn = computed(() => this.#token() !== null);
 
   constructor() {
-    if (this.#token()) this.refreshMe().subscribe({ error: () => this.#forget() });
+    // A stored session is checked once this service exists: the request passes through the auth
+    // interceptor, which injects this service, so it cannot start while the constructor runs. Only
+    // a 401 ends the session (refreshMe forgets it then); being offline or a server error keeps it.
+    if (this.#token()) queueMicrotask(() => this.refreshMe().subscribe({ error: () => undefined }));
   }
 
   signUp(request: SignUpRequest): Observable<Me> {

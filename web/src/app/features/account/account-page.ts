@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { DatePipe } from '@angular/common';
-import { Router } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
 import { MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { AuthService } from '../../core/auth/auth-service';
@@ -8,7 +8,7 @@ import { readableError } from '../../core/http/api-problem';
 
 @Component({
   selector: 'sv-account-page',
-  imports: [DatePipe, MatButton, MatProgressBar],
+  imports: [DatePipe, MatButton, MatProgressBar, RouterLink],
   template: `
     <h1>Your account</h1>
     @if (auth.me(); as me) {
@@ -20,7 +20,7 @@ import { readableError } from '../../core/http/api-problem';
           <div><dt>Member since</dt><dd>{{ me.createdAt | date: 'longDate' }}</dd></div>
         }
       </dl>
-      <p>The study sets, drills and console pages for your role arrive here as they are built.</p>
+      <p>Study sets, study sheets and drills are under <a routerLink="/study">Study</a>. Curating the matrix and answering queries have no pages yet: curators and reviewers do that through the <a href="/api/docs">API</a>.</p>
     } @else if (problem(); as message) {
       <p class="problem" role="alert">{{ message }}</p>
     } @else {
