@@ -52,6 +52,8 @@ async function addSpecies(page: Page, typed: string, option: RegExp): Promise<vo
   const search = page.getByLabel('Add a species by name');
   await search.fill(typed);
   await page.getByRole('option', { name: option }).first().click();
+  // the field is cleared on the page's next change detection: wait for it, then check
+  await page.waitForFunction((input) => (input as HTMLInputElement | null)?.value === '', await search.elementHandle(), { timeout: 3_000 }).catch(() => undefined);
   expect(await search.inputValue()).to.equal('');
 }
 
@@ -288,6 +290,8 @@ describe('e2e: study sets and drills', function () {
     expect(await summary.locator('.missed li').count()).to.equal(1);
     await shoot(page, 'drill-summary-desktop');
     await page.getByRole('button', { name: 'Practise the ones you missed (1)' }).click();
+    // the page renders the new round on its next change detection: wait for it, then read it
+    await page.locator('.round-kind', { hasText: 'Practising the ones you missed' }).waitFor();
     expect(await page.locator('.round-kind').textContent()).to.contain('missed');
     expect(await page.locator('.score-line').textContent()).to.contain('Question 1 of 1');
     const practice = await questionOnScreen(page);
