@@ -10,7 +10,7 @@
  * Invariant: `probability` is finite, non-negative and sums to 1 over all taxa (or is empty for an
  * empty matrix); every factor is finite and > 0 (every likelihood is > 0), so no score is NaN.
  */
-import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledCondition, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, type CompiledCondition, type CompiledMatrix, type CompiledTrait } from './compiled';
 import { MODEL } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
 import { ConflictCounts, paddedBytes, setConflictFlags, wordsOf } from './conflict-flags';
@@ -109,28 +109,21 @@ export function findSkipped(prepared: readonly PreparedObservation[]): Map<numbe
   return skipped;
 }
 
-/** Log likelihood and conflict flag of a set observation for every pattern of its trait. */
-export function setTables(compiled: CompiledMatrix, observation: PreparedSet): { logs: Float64Array; conflict: Uint8Array; likelihood: Float64Array } {
+/** Likelihood (capped at 1) and its log of a set observation for every pattern of its trait. */
+export function setTables(compiled: CompiledMatrix, observation: PreparedSet): { logs: Float64Array; likelihood: Float64Array } {
   const trait = observation.trait;
   const k = trait.answerCount;
   const logs = new Float64Array(trait.patternCount);
   const likelihood = new Float64Array(trait.patternCount);
-  const conflict = new Uint8Array(trait.patternCount);
   for (let p = 0; p < trait.patternCount; p++) {
     const base = trait.likBase + p * k;
     let sum = 0;
-    let conflicting = 1;
-    for (const answer of observation.answers) {
-      sum += compiled.likelihood[base + answer];
-      const status = compiled.valueStatus[base + answer];
-      if (status !== ValueStatus.NotCoded && status !== ValueStatus.Inapplicable) conflicting = 0;
-    }
+    for (const answer of observation.answers) sum += compiled.likelihood[base + answer];
     const value = Math.min(1, sum);
     likelihood[p] = value;
     logs[p] = observation.answers.length === 1 ? compiled.logLikelihood[base + observation.answers[0]] : Math.log(value);
-    conflict[p] = conflicting;
   }
-  return { logs, conflict, likelihood };
+  return { logs, likelihood };
 }
 
 /** Where a measurement falls for one taxon. */
@@ -281,28 +274,20 @@ function unknownColumnOf(compiled: CompiledMatrix): Uint16Array {
   return column;
 }
 
+/** The code columns of one pass (read once per pass, not per taxon). */
+function codesOf(columns: readonly ScoreColumn[], o: number, count: number): Uint16Array[] {
+  return columns.slice(o, o + count).map((column) => column.codes);
+}
+
+/** The factor tables of one pass. */
+function factorsOf(columns: readonly ScoreColumn[], o: number, count: number): Float64Array[] {
+  return columns.slice(o, o + count).map((column) => column.factor);
+}
+
 /** Ten columns into the scores in one pass: score = from × (or +) their ten factors. Exported for tests. */
 export function addTen(columns: readonly ScoreColumn[], o: number, from: Float64Array, score: Float64Array, linear: boolean): void {
-  const c0 = columns[o].codes;
-  const c1 = columns[o + 1].codes;
-  const c2 = columns[o + 2].codes;
-  const c3 = columns[o + 3].codes;
-  const c4 = columns[o + 4].codes;
-  const c5 = columns[o + 5].codes;
-  const c6 = columns[o + 6].codes;
-  const c7 = columns[o + 7].codes;
-  const c8 = columns[o + 8].codes;
-  const c9 = columns[o + 9].codes;
-  const v0 = columns[o].factor;
-  const v1 = columns[o + 1].factor;
-  const v2 = columns[o + 2].factor;
-  const v3 = columns[o + 3].factor;
-  const v4 = columns[o + 4].factor;
-  const v5 = columns[o + 5].factor;
-  const v6 = columns[o + 6].factor;
-  const v7 = columns[o + 7].factor;
-  const v8 = columns[o + 8].factor;
-  const v9 = columns[o + 9].factor;
+  const [c0, c1, c2, c3, c4, c5, c6, c7, c8, c9] = codesOf(columns, o, 10);
+  const [v0, v1, v2, v3, v4, v5, v6, v7, v8, v9] = factorsOf(columns, o, 10);
   const n = score.length;
   // two copies of one loop, so neither branches on the scale per taxon
   if (linear) {
@@ -318,17 +303,8 @@ export function addTen(columns: readonly ScoreColumn[], o: number, from: Float64
  * Gives exactly addTen's products. Needs an even taxon count and word-aligned columns. Exported for tests.
  */
 export function addTenByPairs(columns: readonly ScoreColumn[], o: number, from: Float64Array, score: Float64Array): void {
-  const [c0, c1, c2, c3, c4, c5, c6, c7, c8, c9] = columns.slice(o, o + 10).map((column) => pairsOf(column.codes));
-  const v0 = columns[o].factor;
-  const v1 = columns[o + 1].factor;
-  const v2 = columns[o + 2].factor;
-  const v3 = columns[o + 3].factor;
-  const v4 = columns[o + 4].factor;
-  const v5 = columns[o + 5].factor;
-  const v6 = columns[o + 6].factor;
-  const v7 = columns[o + 7].factor;
-  const v8 = columns[o + 8].factor;
-  const v9 = columns[o + 9].factor;
+  const [c0, c1, c2, c3, c4, c5, c6, c7, c8, c9] = codesOf(columns, o, 10).map(pairsOf);
+  const [v0, v1, v2, v3, v4, v5, v6, v7, v8, v9] = factorsOf(columns, o, 10);
   const m = c0.length;
   for (let i = 0; i < m; i++) {
     const a0 = c0[i];
@@ -361,16 +337,8 @@ function pairable(columns: readonly ScoreColumn[], o: number, n: number): boolea
 
 /** Five columns into the scores in one pass: score = from × (or +) their five factors. */
 function addFive(columns: readonly ScoreColumn[], o: number, from: Float64Array, score: Float64Array, linear: boolean): void {
-  const c0 = columns[o].codes;
-  const c1 = columns[o + 1].codes;
-  const c2 = columns[o + 2].codes;
-  const c3 = columns[o + 3].codes;
-  const c4 = columns[o + 4].codes;
-  const v0 = columns[o].factor;
-  const v1 = columns[o + 1].factor;
-  const v2 = columns[o + 2].factor;
-  const v3 = columns[o + 3].factor;
-  const v4 = columns[o + 4].factor;
+  const [c0, c1, c2, c3, c4] = codesOf(columns, o, 5);
+  const [v0, v1, v2, v3, v4] = factorsOf(columns, o, 5);
   const n = score.length;
   if (linear) {
     for (let t = 0; t < n; t++) score[t] = from[t] * (v0[c0[t]] * v1[c1[t]] * v2[c2[t]] * v3[c3[t]] * v4[c4[t]]);
