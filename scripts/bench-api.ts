@@ -125,6 +125,29 @@ async function profiled<T>(file: string, work: () => Promise<T>): Promise<T> {
   }
 }
 
+/**
+ * Warms up, then measures the floor and identify at CONNECTIONS connections and prints both; true
+ * when identify reaches half the floor's requests/s with p99 under 50 ms and nothing failed.
+ */
+async function measureBoth(base: string, key: string, setup: string, profile: boolean): Promise<boolean> {
+  const headers = { 'content-type': 'application/json', authorization: `Bearer ${key}` };
+  // Warm up: compiles the edition once and lets the JIT settle.
+  await autocannon({ url: `${base}/api/v1/identify`, connections: 4, amount: 400, method: 'POST', headers, body: TYPICAL_SIFT });
+  await autocannon({ url: `${base}/api/health`, connections: 4, amount: 400 });
+
+  const floor = await autocannon({ url: `${base}/api/health`, connections: CONNECTIONS, duration: DURATION_S });
+  const run = () => autocannon({ url: `${base}/api/v1/identify`, connections: CONNECTIONS, duration: DURATION_S, method: 'POST', headers, body: TYPICAL_SIFT });
+  const identify = profile ? await profiled('bench-identify.cpuprofile', run) : await run();
+  const ratio = identify.requests.average / floor.requests.average;
+  console.log(`\nconcurrency ${CONNECTIONS} connections, ${DURATION_S} s each, ${setup}\n`);
+  console.log(describe('GET /api/health (floor)', floor));
+  console.log(describe('POST /api/v1/identify', identify));
+  console.log(`\nidentify / floor throughput: ${ratio.toFixed(2)} (needs ≥ 0.50); identify p99 ${identify.latency.p99} ms (needs < 50)`);
+  const clean = identify.non2xx === 0 && identify.errors === 0 && floor.non2xx === 0 && floor.errors === 0;
+  if (!clean) console.log('some requests failed; see non-2xx and errors above');
+  return clean && ratio >= 0.5 && identify.latency.p99 < 50;
+}
+
 async function throughput(): Promise<boolean> {
   const created = await createApp(
     loadConfig({ NODE_ENV: 'test', LOG_LEVEL: 'silent', VALIDATE_RESPONSES: 'false', KEY_PER_MINUTE: '1000000', KEY_DAILY_QUOTA: '100000000' }),
@@ -132,23 +155,7 @@ async function throughput(): Promise<boolean> {
   const { server, base } = await listen(created);
   try {
     const key = await partnerKey(base, 'throughput');
-    const headers = { 'content-type': 'application/json', authorization: `Bearer ${key}` };
-    // Warm up: compiles the edition once and lets the JIT settle.
-    await autocannon({ url: `${base}/api/v1/identify`, connections: 4, amount: 400, method: 'POST', headers, body: TYPICAL_SIFT });
-    await autocannon({ url: `${base}/api/health`, connections: 4, amount: 400 });
-
-    const floor = await autocannon({ url: `${base}/api/health`, connections: CONNECTIONS, duration: DURATION_S });
-    const identify = await profiled('bench-identify.cpuprofile', () =>
-      autocannon({ url: `${base}/api/v1/identify`, connections: CONNECTIONS, duration: DURATION_S, method: 'POST', headers, body: TYPICAL_SIFT }),
-    );
-    const ratio = identify.requests.average / floor.requests.average;
-    console.log(`\nconcurrency ${CONNECTIONS} connections, ${DURATION_S} s each, one process on loopback\n`);
-    console.log(describe('GET /api/health (floor)', floor));
-    console.log(describe('POST /api/v1/identify', identify));
-    console.log(`\nidentify / floor throughput: ${ratio.toFixed(2)} (needs ≥ 0.50); identify p99 ${identify.latency.p99} ms (needs < 50)`);
-    const clean = identify.non2xx === 0 && identify.errors === 0 && floor.non2xx === 0 && floor.errors === 0;
-    if (!clean) console.log('some requests failed; see non-2xx and errors above');
-    return clean && ratio >= 0.5 && identify.latency.p99 < 50;
+    return await measureBoth(base, key, 'one process on loopback', true);
   } finally {
     server.close();
     await created.close();
@@ -225,19 +232,7 @@ async function throughputSeparate(): Promise<boolean> {
   const key = `svk_${randomBytes(24).toString('base64url')}`;
   const server = await startServerProcess(key, directory);
   try {
-    const headers = { 'content-type': 'application/json', authorization: `Bearer ${key}` };
-    await autocannon({ url: `${server.base}/api/v1/identify`, connections: 4, amount: 400, method: 'POST', headers, body: TYPICAL_SIFT });
-    await autocannon({ url: `${server.base}/api/health`, connections: 4, amount: 400 });
-    const floor = await autocannon({ url: `${server.base}/api/health`, connections: CONNECTIONS, duration: DURATION_S });
-    const identify = await autocannon({ url: `${server.base}/api/v1/identify`, connections: CONNECTIONS, duration: DURATION_S, method: 'POST', headers, body: TYPICAL_SIFT });
-    const ratio = identify.requests.average / floor.requests.average;
-    console.log(`\nconcurrency ${CONNECTIONS} connections, ${DURATION_S} s each, the server in a process of its own on loopback\n`);
-    console.log(describe('GET /api/health (floor)', floor));
-    console.log(describe('POST /api/v1/identify', identify));
-    console.log(`\nidentify / floor throughput: ${ratio.toFixed(2)} (needs ≥ 0.50); identify p99 ${identify.latency.p99} ms (needs < 50)`);
-    const clean = identify.non2xx === 0 && identify.errors === 0 && floor.non2xx === 0 && floor.errors === 0;
-    if (!clean) console.log('some requests failed; see non-2xx and errors above');
-    return clean && ratio >= 0.5 && identify.latency.p99 < 50;
+    return await measureBoth(server.base, key, 'the server in a process of its own on loopback', false);
   } finally {
     await server.stop();
     await rm(directory, { recursive: true, force: true });
