@@ -2,15 +2,10 @@ import { expect } from 'chai';
 import sharp from 'sharp';
 import type { Browser } from 'playwright-core';
 import { launchBrowser, requireChromium } from './support/browser';
+import { demoAccount } from './support/checks';
 import { startBuiltApp, type RunningApp } from './support/server';
 import { waitForSift } from './support/sift-page';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
-
-function demoAccount(role: string) {
-  const account = DEMO_ACCOUNTS.find((candidate) => candidate.role === role);
-  if (!account) throw new Error(`no demo ${role}`);
-  return account;
-}
+import { DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 
 describe('e2e: accounts and edition updates', function () {
   this.timeout(90_000);

@@ -2,18 +2,11 @@ import fs from 'node:fs';
 import path from 'node:path';
 import zlib from 'node:zlib';
 import { expect } from 'chai';
-import { AxeBuilder } from '@axe-core/playwright';
-import type { Browser, Page } from 'playwright-core';
+import type { Browser } from 'playwright-core';
 import { launchBrowser, requireChromium } from './support/browser';
+import { seriousViolations } from './support/checks';
 import { SCREENSHOT_DIR, WEB_ROOT, startBuiltApp, type RunningApp } from './support/server';
 import { openPart, tapChip, waitForSift } from './support/sift-page';
-
-async function seriousViolations(page: Page): Promise<string[]> {
-  const results = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa']).analyze();
-  return results.violations
-    .filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
-    .map((violation) => `${violation.id} (${violation.impact}): ${violation.nodes.map((node) => node.target.join(' ')).slice(0, 5).join(', ')}`);
-}
 
 function median(values: number[]): number {
   const sorted = [...values].sort((a, b) => a - b);

@@ -1,11 +1,11 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { expect } from 'chai';
-import { AxeBuilder } from '@axe-core/playwright';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { launchBrowser, requireChromium } from './support/browser';
+import { demoAccount, seriousViolations } from './support/checks';
 import { startBuiltApp, type RunningApp } from './support/server';
-import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
+import { DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 import { DEMO_STUDY_SET } from '../../api/src/db/seeders/0003-demo-study-set';
 
 /** Screens of this suite, at phone and desktop widths, for a person to look at after a run. */
@@ -13,19 +13,6 @@ const SHOTS = '/tmp/sylvasift-study';
 
 const PHONE = { width: 360, height: 780 };
 const DESKTOP = { width: 1280, height: 900 };
-
-function demoAccount(role: string) {
-  const account = DEMO_ACCOUNTS.find((candidate) => candidate.role === role);
-  if (!account) throw new Error(`no demo ${role}`);
-  return account;
-}
-
-async function seriousViolations(page: Page): Promise<string[]> {
-  const results = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa']).analyze();
-  return results.violations
-    .filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
-    .map((violation) => `${violation.id} (${violation.impact}): ${violation.nodes.map((node) => node.target.join(' ')).slice(0, 5).join(', ')}`);
-}
 
 /** Nothing may overflow sideways at phone width (common practice, no source). */
 async function expectNoSidewaysOverflow(page: Page, what: string): Promise<void> {
