@@ -19,6 +19,7 @@ import { openToAnonymousButKeysNeed } from './http/lookup-access';
 import { EditionCatalog } from './editions/edition-catalog';
 import { editionRoutes } from './editions/edition-routes';
 import { identifyRoutes } from './identify/identify-routes';
+import { IdentifyPool } from './identify/identify-pool';
 import { taxaRoutes } from './taxa/taxa-routes';
 import { traitsRoutes } from './traits/traits-routes';
 import { curationRoutes } from './curation/curation-routes';
@@ -61,6 +62,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   }
   const people = await startPeople({ config, logger, sequelize, models, afterRestore: () => context.editions.invalidate() });
   const context: AppContext = { config, logger, sequelize, models, editions: new EditionCatalog(models), people };
+  const identifyPool = config.identifyWorkers > 0 ? new IdentifyPool(config.identifyWorkers) : undefined;
 
   const app = express();
   app.disable('x-powered-by');
@@ -101,7 +103,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   app.use('/api/health', healthRoutes(sequelize, config.version));
   app.use('/api', docsRoutes());
   const lookup = openToAnonymousButKeysNeed('lookup');
-  app.use('/api/v1/identify', identifyRoutes(context.editions));
+  app.use('/api/v1/identify', identifyRoutes(context.editions, { pool: identifyPool, validateResponses: config.validateResponses }));
   const photos = photoRoutes({ models, uploadsDir: config.uploadsDir });
   app.use('/api/v1/taxa', photos.upload);
   app.use('/api/v1/taxa', lookup, taxaRoutes(context));
@@ -123,6 +125,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
     context,
     contractViolations: contract.violations,
     close: async () => {
+      await identifyPool?.close();
       await people.close();
       await sequelize.close();
     },

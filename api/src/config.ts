@@ -27,8 +27,18 @@ export interface AppConfig {
   uploadsDir: string;
   /** check every JSON response against openapi.yaml and record mismatches (on by default in test) */
   validateResponses: boolean;
+  /** worker threads that answer identify calls; 0 answers them on the request thread */
+  identifyWorkers: number;
   /** accounts, sessions, sign-in throttling, partner keys, rate limits, mail, backups and the demo scenario */
   people: PeopleConfig;
+}
+
+/** Most identify workers the default starts; past this the request thread, not the engine, is the limit. */
+const MOST_DEFAULT_IDENTIFY_WORKERS = 4;
+
+/** One identify worker per core beyond the one the request thread needs, at most four; none on one core. */
+export function defaultIdentifyWorkers(cores = os.availableParallelism()): number {
+  return Math.max(0, Math.min(MOST_DEFAULT_IDENTIFY_WORKERS, cores - 1));
 }
 
 export class ConfigError extends Error {
@@ -69,6 +79,10 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
   if (validateResponsesText !== 'true' && validateResponsesText !== 'false') {
     problems.push(`VALIDATE_RESPONSES must be true or false (got "${validateResponsesText}")`);
   }
+  // Test apps answer on the request thread unless a test asks for workers: they start many apps.
+  const workersText = env['IDENTIFY_WORKERS'] || String(nodeEnv === 'test' ? 0 : defaultIdentifyWorkers());
+  const identifyWorkers = Number(workersText);
+  if (!/^\d+$/.test(workersText) || identifyWorkers > 64) problems.push(`IDENTIFY_WORKERS must be an integer 0–64 (got "${workersText}")`);
   // Each test app gets its own uploads folder so parallel runs never share files.
   const defaultUploads = nodeEnv === 'test' ? path.join(os.tmpdir(), `sylvasift-uploads-${process.pid}`) : 'data/uploads';
 
@@ -85,6 +99,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     migrateOnStart: migrateText === 'true',
     uploadsDir: path.resolve(env['UPLOADS_DIR'] ?? defaultUploads),
     validateResponses: validateResponsesText === 'true',
+    identifyWorkers,
     people,
   });
 }

@@ -8,7 +8,11 @@ import { findEditionWithDocument, latestEditionNumber, type EditionWithDocument 
  * One published edition as the read routes use it. The compiled matrix and the bundle are built the
  * first time they are asked for and then kept: an edition is immutable, so it is compiled once.
  */
+let loadedSoFar = 0;
+
 export class LoadedEdition {
+  /** unique per edition loaded in this process (a restore can bring back the same number with other content) */
+  readonly key = ++loadedSoFar;
   readonly number: number;
   readonly title: string;
   readonly publishedAt: Date;

@@ -44,7 +44,9 @@ export const problemErrorHandler: ErrorRequestHandler = (error, req, res, next) 
     return;
   }
   const problem = toProblem(error);
-  if (problem.status >= 500) req.log?.error({ err: error }, 'unhandled error');
+  // 503 is a state the caller is told about (nothing published yet, identify busy), not a fault
+  if (problem.status === 503) req.log?.warn({ problem: problem.slug }, problem.detail);
+  else if (problem.status >= 500) req.log?.error({ err: error }, 'unhandled error');
   res.status(problem.status).type('application/problem+json').json(problem.toBody(req.originalUrl));
 };
 

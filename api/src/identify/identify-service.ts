@@ -1,36 +1,10 @@
-import { rank, suggest, validateObservations, type Candidate, type Observation, type ObservationProblem, type ObservingSeason, type Reason, type Suggestion } from '@shared/engine';
-import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog';
+import type { ObservationProblem } from '@shared/engine';
+import type { EditionCatalog } from '../editions/edition-catalog';
 import { problems, type InvalidParam } from '../http/problem';
-import { taxonReference } from '../taxa/taxon-views';
+import { identifyAnswer, type IdentifyRequest } from './identify-answer';
+import type { IdentifyPool } from './identify-pool';
 
-export interface IdentifyRequest {
-  observations: Observation[];
-  season?: ObservingSeason;
-  leeway?: number;
-  limit?: number;
-}
-
-export interface CandidateView {
-  taxon: { id: string; scientificName: string; commonNames: string[] };
-  probability: number;
-  conflicts: number;
-  reasons: Reason[];
-}
-
-export interface IdentifyAnswer {
-  edition: { id: number; publishedAt: string };
-  season: ObservingSeason;
-  leeway: number;
-  candidates: CandidateView[];
-  ruledOut: CandidateView[];
-  totalCandidates: number;
-  totalRuledOut: number;
-  skipped: Array<{ trait: string; reason: string }>;
-  /** Look at next: the unobserved traits that would narrow the Shortlist most per unit of effort */
-  suggestions: Suggestion[];
-}
-
-export const IDENTIFY_DEFAULTS = Object.freeze({ season: 'leaf-on' as ObservingSeason, leeway: 2, limit: 10, suggestions: 5 });
+export { IDENTIFY_DEFAULTS, type CandidateView, type IdentifyAnswer, type IdentifyRequest } from './identify-answer';
 
 /** Where an observation problem sits, as a JSON pointer into the request (the validator's own form: `/body/...`). */
 function pointerOf(problem: ObservationProblem): string {
@@ -44,37 +18,13 @@ function rejectInvalid(found: ObservationProblem[]): never {
   throw problems.invalidInput(`${found[0]?.message ?? 'The observations are not valid.'}${more}`, invalid);
 }
 
-function candidateView(edition: LoadedEdition, candidate: Candidate): CandidateView {
-  const taxon = edition.taxaById.get(candidate.taxonId);
-  return {
-    taxon: taxon ? taxonReference(taxon) : { id: candidate.taxonId, scientificName: candidate.taxonId, commonNames: [] },
-    probability: candidate.probability,
-    conflicts: candidate.conflicts,
-    reasons: candidate.reasons,
-  };
-}
-
-/** A sift against the current edition: the Shortlist, what was Ruled out and why, and what to Look at next. */
-export async function identify(editions: EditionCatalog, request: IdentifyRequest): Promise<IdentifyAnswer> {
+/**
+ * A sift against the current edition, as the UTF-8 JSON of an IdentifyAnswer: on the identify
+ * workers when there is a pool, else on this thread. Invalid observations throw a 400 problem.
+ */
+export async function identify(editions: EditionCatalog, request: IdentifyRequest, pool?: IdentifyPool): Promise<Uint8Array> {
   const edition = await editions.current();
-  const compiled = edition.compiled;
-  const found = validateObservations(compiled, request.observations);
-  if (found.length > 0) rejectInvalid(found);
-
-  const season = request.season ?? IDENTIFY_DEFAULTS.season;
-  const leeway = request.leeway ?? IDENTIFY_DEFAULTS.leeway;
-  const limit = request.limit ?? IDENTIFY_DEFAULTS.limit;
-  const ranked = rank(compiled, request.observations, { season, leeway, limit });
-  const suggestions = suggest(compiled, request.observations, { season, leeway, limit: IDENTIFY_DEFAULTS.suggestions });
-  return {
-    edition: edition.reference,
-    season,
-    leeway,
-    candidates: ranked.candidates.map((candidate) => candidateView(edition, candidate)),
-    ruledOut: ranked.ruledOut.map((candidate) => candidateView(edition, candidate)),
-    totalCandidates: ranked.totalCandidates ?? ranked.candidates.length,
-    totalRuledOut: ranked.totalRuledOut ?? ranked.ruledOut.length,
-    skipped: ranked.skipped ?? [],
-    suggestions,
-  };
+  const outcome = pool ? await pool.identify(edition, request) : identifyAnswer(edition, request);
+  if (outcome.kind === 'invalid') rejectInvalid(outcome.problems);
+  return outcome.body;
 }

@@ -1,0 +1,88 @@
+/**
+ * The answer to one identify call, computed from a compiled edition and serialised to UTF-8 JSON.
+ * Pure and free of database, HTTP and Express imports, so the same code runs on the request thread
+ * and in an identify worker (see identify-pool.ts).
+ */
+import { rank, suggest, validateObservations, type Candidate, type CompiledMatrix, type Observation, type ObservationProblem, type ObservingSeason, type Reason, type Suggestion, type Taxon } from '@shared/engine';
+import { taxonReference } from '../taxa/taxon-views';
+
+export interface IdentifyRequest {
+  observations: Observation[];
+  season?: ObservingSeason;
+  leeway?: number;
+  limit?: number;
+}
+
+export interface CandidateView {
+  taxon: { id: string; scientificName: string; commonNames: string[] };
+  probability: number;
+  conflicts: number;
+  reasons: Reason[];
+}
+
+export interface EditionReference {
+  id: number;
+  publishedAt: string;
+}
+
+export interface IdentifyAnswer {
+  edition: EditionReference;
+  season: ObservingSeason;
+  leeway: number;
+  candidates: CandidateView[];
+  ruledOut: CandidateView[];
+  totalCandidates: number;
+  totalRuledOut: number;
+  skipped: Array<{ trait: string; reason: string }>;
+  /** Look at next: the unobserved traits that would narrow the Shortlist most per unit of effort */
+  suggestions: Suggestion[];
+}
+
+export const IDENTIFY_DEFAULTS = Object.freeze({ season: 'leaf-on' as ObservingSeason, leeway: 2, limit: 10, suggestions: 5 });
+
+/** What identify needs of an edition. */
+export interface IdentifyEdition {
+  compiled: CompiledMatrix;
+  taxaById: ReadonlyMap<string, Taxon>;
+  reference: EditionReference;
+}
+
+/** The answer as UTF-8 JSON, or the observation problems that make the request invalid. */
+export type IdentifyOutcome = { kind: 'answer'; body: Uint8Array } | { kind: 'invalid'; problems: ObservationProblem[] };
+
+const utf8 = new TextEncoder();
+
+function candidateView(edition: IdentifyEdition, candidate: Candidate): CandidateView {
+  const taxon = edition.taxaById.get(candidate.taxonId);
+  return {
+    taxon: taxon ? taxonReference(taxon) : { id: candidate.taxonId, scientificName: candidate.taxonId, commonNames: [] },
+    probability: candidate.probability,
+    conflicts: candidate.conflicts,
+    reasons: candidate.reasons,
+  };
+}
+
+/** A sift against one edition: the Shortlist, what was Ruled out and why, and what to Look at next. */
+export function identifyAnswer(edition: IdentifyEdition, request: IdentifyRequest): IdentifyOutcome {
+  const compiled = edition.compiled;
+  const found = validateObservations(compiled, request.observations);
+  if (found.length > 0) return { kind: 'invalid', problems: found };
+
+  const season = request.season ?? IDENTIFY_DEFAULTS.season;
+  const leeway = request.leeway ?? IDENTIFY_DEFAULTS.leeway;
+  const limit = request.limit ?? IDENTIFY_DEFAULTS.limit;
+  const ranked = rank(compiled, request.observations, { season, leeway, limit });
+  const suggestions = suggest(compiled, request.observations, { season, leeway, limit: IDENTIFY_DEFAULTS.suggestions });
+  const answer: IdentifyAnswer = {
+    edition: edition.reference,
+    season,
+    leeway,
+    candidates: ranked.candidates.map((candidate) => candidateView(edition, candidate)),
+    ruledOut: ranked.ruledOut.map((candidate) => candidateView(edition, candidate)),
+    totalCandidates: ranked.totalCandidates ?? ranked.candidates.length,
+    totalRuledOut: ranked.totalRuledOut ?? ranked.ruledOut.length,
+    skipped: ranked.skipped ?? [],
+    suggestions,
+  };
+  return { kind: 'answer', body: utf8.encode(JSON.stringify(answer)) };
+}
