@@ -42,8 +42,24 @@ export function answerLabel(trait: CompiledTrait, answer: number): string {
   return trait.answerLabels[answer] ?? String(trait.answerCodes[answer]);
 }
 
+/**
+ * A value label as it reads inside a sentence: "Deeply furrowed" → "deeply furrowed". Only a capital
+ * followed by a small letter is lowered, so initialisms and labels such as "U- or V-shaped" stay.
+ */
+export function inSentence(label: string): string {
+  const first = label.charAt(0);
+  const second = label.charAt(1);
+  if (first === first.toLowerCase() || second === '' || second === second.toUpperCase()) return label;
+  return first.toLowerCase() + label.slice(1);
+}
+
+/** A value's label inside a sentence. */
+function answerInSentence(trait: CompiledTrait, answer: number): string {
+  return inSentence(answerLabel(trait, answer));
+}
+
 export function observedText(observation: PreparedObservation): string {
-  if (observation.kind === 'set') return joinOr(observation.answers.map((answer) => answerLabel(observation.trait, answer)));
+  if (observation.kind === 'set') return joinOr(observation.answers.map((answer) => answerInSentence(observation.trait, answer)));
   return measuredText(observation);
 }
 
@@ -69,7 +85,7 @@ function labelsOf(trait: CompiledTrait, values: ReadonlyArray<string | number>):
   const labels: string[] = [];
   for (const value of values) {
     const index = trait.answerCodes.indexOf(value);
-    labels.push(index >= 0 ? answerLabel(trait, index) : String(value));
+    labels.push(index >= 0 ? answerInSentence(trait, index) : String(value));
   }
   return joinOr(labels);
 }
@@ -88,7 +104,7 @@ export const reasonTexts = {
     `${trait.label}: ${seen} is outside this species' recorded range of ${formatNumber(min)}–${formatNumber(max)} cm.`,
   skipped: (compiled: CompiledMatrix, trait: CompiledTrait, cause: SkipCause) => {
     const condition = compiled.traits[cause.condition.trait];
-    const allowed = joinOr(cause.condition.allowed.map((answer) => answerLabel(condition, answer)));
+    const allowed = joinOr(cause.condition.allowed.map((answer) => answerInSentence(condition, answer)));
     const seen = observedText(cause.contradictedBy);
     return `${trait.label} was set aside: it only applies when ${condition.label} is ${allowed}, and you saw ${seen}.`;
   },

@@ -8,7 +8,9 @@ import { seededRandom } from '../../shared/engine/synthetic';
 import { drawAnswer } from '../../scripts/lib/engine-sim';
 import { arithmeticMatrix } from './fixtures';
 import fc from 'fast-check';
-import { formatNumber } from '../../shared/engine/texts';
+import { formatNumber, inSentence } from '../../shared/engine/texts';
+import { rank } from '../../shared/engine/rank';
+import { loadReferenceMatrix } from '../../seeds/load-matrix';
 import { ConflictCounts, paddedBytes, wordsOf } from '../../shared/engine/conflict-flags';
 
 describe('internals: numeric bands', () => {
@@ -113,6 +115,30 @@ describe('internals: texts', () => {
       { numRuns: 2000 },
     );
     expect([12, 12.5, 12.05, 0.004, 2.999, -1.5, 1e20].map(formatNumber)).to.deep.equal(['12', '12.5', '12.05', '0', '3', '-1.5', '100000000000000000000']);
+  });
+});
+
+describe('internals: sentences', () => {
+  it('lowers a value label inside a sentence, but not initialisms, single letters or numbers', () => {
+    expect(['Deeply furrowed', 'Needles', 'U- or V-shaped', 'US', '3 per bundle', 'already small', 'A'].map(inSentence)).to.deep.equal([
+      'deeply furrowed',
+      'needles',
+      'U- or V-shaped',
+      'US',
+      '3 per bundle',
+      'already small',
+      'A',
+    ]);
+  });
+
+  it('writes the labels of seen and coded values in lower case inside reasons', () => {
+    const compiled = compileMatrix(loadReferenceMatrix());
+    const ranked = rank(compiled, [{ trait: 'foliage', values: ['needle'] }], { limit: 200, leeway: 0 });
+    const everyone = [...ranked.candidates, ...ranked.ruledOut];
+    const pine = everyone.find((c) => c.taxonId === 'pinus-taeda');
+    const sweetgum = everyone.find((c) => c.taxonId === 'liquidambar-styraciflua');
+    expect(pine?.reasons[0]?.text).to.equal('Foliage form: you saw needles, which is usual for this species.');
+    expect(sweetgum?.reasons[0]?.text).to.equal('Foliage form: you saw needles, but this species is usually broad leaves.');
   });
 });
 

@@ -147,7 +147,7 @@ describe('rank: southern trees', () => {
     const foliageOnly = rank(compiled, [{ trait: 'foliage', values: ['broad'] }], { limit: 10 });
     expect(both.skipped).to.have.length(1);
     expect(both.skipped?.[0].trait).to.equal('needles-per-fascicle');
-    expect(both.skipped?.[0].reason).to.contain('only applies when Foliage form is Needles');
+    expect(both.skipped?.[0].reason).to.contain('only applies when Foliage form is needles, and you saw broad leaves');
     expect(probabilities(both)).to.deep.equal(probabilities(foliageOnly));
     for (const candidate of both.candidates) expect(candidate.reasons[1].status).to.equal('not-applicable');
   });
