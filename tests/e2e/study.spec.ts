@@ -380,4 +380,68 @@ describe('e2e: study sets and drills', function () {
     expect(await seriousViolations(page)).to.deep.equal([]);
     await shoot(page, 'editor-phone');
   });
+
+  it('asks before leaving the editor with unsaved changes, and keeps them when the coach stays', async () => {
+    context = await browser.newContext({ serviceWorkers: 'block', viewport: DESKTOP });
+    const page = await context.newPage();
+    const pageErrors: string[] = [];
+    page.on('pageerror', (error) => pageErrors.push(error.message));
+    await signIn(page, running.baseUrl, 'coach', '/study');
+    const demoCard = page.locator('.set-card', { hasText: DEMO_STUDY_SET.name });
+    const openEditor = async () => {
+      await demoCard.getByRole('link', { name: 'Edit' }).click();
+      await page.waitForURL(/\/study\/\d+\/edit$/);
+      await page.locator('.species-order .species-item').first().waitFor();
+    };
+    const backToList = () => page.locator('.crumbs').getByRole('link', { name: 'Study sets' }).click();
+    const question = page.getByRole('dialog', { name: 'Leave without saving?' });
+    const notes = page.getByLabel('Notes for students');
+
+    // Nothing changed: leaving asks nothing.
+    await openEditor();
+    const savedNotes = await notes.inputValue();
+    await backToList();
+    await page.waitForURL(/\/study$/);
+    expect(await question.count()).to.equal(0);
+
+    // A change, then leaving: the question comes; staying keeps what was typed.
+    await openEditor();
+    await notes.fill('Bring a hand lens for the buds.');
+    await backToList();
+    await question.waitFor();
+    expect(await question.textContent()).to.contain('Your changes to this study set have not been saved');
+    expect(await seriousViolations(page)).to.deep.equal([]);
+    await shoot(page, 'leave-question-desktop');
+    await question.getByRole('button', { name: 'Keep editing' }).click();
+    await question.waitFor({ state: 'detached' });
+    expect(page.url()).to.match(/\/study\/\d+\/edit$/);
+    expect(await notes.inputValue()).to.equal('Bring a hand lens for the buds.');
+
+    // Escape also keeps editing.
+    await backToList();
+    await question.waitFor();
+    await page.keyboard.press('Escape');
+    await question.waitFor({ state: 'detached' });
+    expect(page.url()).to.match(/\/study\/\d+\/edit$/);
+
+    // Reloading the tab with the change: the browser's own question comes first.
+    let asked = '';
+    page.once('dialog', (dialog) => {
+      asked = dialog.type();
+      void dialog.accept();
+    });
+    await page.reload();
+    expect(asked).to.equal('beforeunload');
+    await page.locator('.species-order .species-item').first().waitFor();
+    expect(await notes.inputValue()).to.equal(savedNotes);
+
+    // Leaving on purpose: the change is dropped and the set is as it was.
+    await notes.fill('A note that will not be kept.');
+    await backToList();
+    await question.getByRole('button', { name: 'Leave without saving' }).click();
+    await page.waitForURL(/\/study$/);
+    await openEditor();
+    expect(await notes.inputValue()).to.equal(savedNotes);
+    expect(pageErrors, pageErrors.join('\n')).to.deep.equal([]);
+  });
 });

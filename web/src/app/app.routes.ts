@@ -1,4 +1,5 @@
 import { type Routes } from '@angular/router';
+import { unsavedChangesGuard } from './core/navigation/unsaved-changes';
 import { authGuard } from './core/auth/auth-guard';
 
 export const routes: Routes = [
@@ -12,9 +13,9 @@ export const routes: Routes = [
   { path: 'account/invitation/:token', title: 'Accept your invitation · Sylvasift', loadComponent: () => import('./features/account/invitation-page') },
   { path: 'account', title: 'Your account · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/account/account-page') },
   { path: 'study', title: 'Study sets · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/study/study-list-page') },
-  { path: 'study/new', title: 'New study set · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/study/study-set-editor') },
+  { path: 'study/new', title: 'New study set · Sylvasift', canActivate: [authGuard], canDeactivate: [unsavedChangesGuard], loadComponent: () => import('./features/study/study-set-editor') },
   { path: 'study/:id', title: 'Study set · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/study/study-set-page') },
-  { path: 'study/:id/edit', title: 'Edit study set · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/study/study-set-editor') },
+  { path: 'study/:id/edit', title: 'Edit study set · Sylvasift', canActivate: [authGuard], canDeactivate: [unsavedChangesGuard], loadComponent: () => import('./features/study/study-set-editor') },
   { path: 'study/:id/sheet', title: 'Study sheet · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/study/study-sheet-page') },
   { path: 'study/:id/drill', title: 'Drills · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/study/drill-page') },
   { path: 'about', title: 'About Sylvasift · Sylvasift', loadComponent: () => import('./features/home/about-page') },

@@ -15,6 +15,7 @@ import { catchError, debounceTime, distinctUntilChanged, map, of, startWith, swi
 import { AuthService } from '../../core/auth/auth-service';
 import { type StudySetDraft, StudyService, type TaxonMatch } from '../../core/api/study-service';
 import { ApiProblem, readableError } from '../../core/http/api-problem';
+import type { HoldsUnsavedChanges } from '../../core/navigation/unsaved-changes';
 import { keepsStudySets, shareLink, speciesName, studySetId } from './study-words';
 
 /** One species in the list being edited. */
@@ -59,8 +60,9 @@ type SearchState = { status: 'idle' } | { status: 'searching' } | { status: 'don
   templateUrl: './study-set-editor.html',
   styleUrl: './study.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
+  host: { '(window:beforeunload)': 'warnBeforeUnload($event)' },
 })
-export default class StudySetEditor {
+export default class StudySetEditor implements HoldsUnsavedChanges {
   readonly #study = inject(StudyService);
   readonly #router = inject(Router);
   readonly #snackBar = inject(MatSnackBar);
@@ -125,6 +127,23 @@ export default class StudySetEditor {
   protected readonly speciesName = speciesName;
   protected readonly displayNothing = () => '';
 
+  readonly unsavedSubject = 'this study set';
+  /** the fields and species as last loaded or saved; anything else is an unsaved edit */
+  #savedState = this.#currentState();
+
+  #currentState(): string {
+    return JSON.stringify([this.form.getRawValue(), this.species().map((item) => item.id)]);
+  }
+
+  hasUnsavedChanges(): boolean {
+    return this.#currentState() !== this.#savedState;
+  }
+
+  /** Closing or reloading the tab with unsaved edits: the browser asks first. */
+  protected warnBeforeUnload(event: BeforeUnloadEvent): void {
+    if (this.hasUnsavedChanges()) event.preventDefault();
+  }
+
   constructor() {
     effect(() => {
       const id = this.setId();
@@ -142,6 +161,7 @@ export default class StudySetEditor {
         this.form.setValue({ name: set.name, event: set.event ?? '', eventDate: set.eventDate ?? '', notes: set.notes ?? '', shared: set.shared });
         this.species.set(set.taxa.map((taxon) => ({ ...taxon })));
         this.savedShared.set({ id: set.id, shared: set.shared });
+        this.#savedState = this.#currentState();
       },
       error: (error: unknown) => {
         this.loading.set(false);
@@ -231,6 +251,7 @@ export default class StudySetEditor {
     request.subscribe({
       next: (set) => {
         this.busy.set(false);
+        this.#savedState = this.#currentState();
         this.#snackBar.open(`Saved “${set.name}”.`, undefined, { duration: 4000 });
         void this.#router.navigate(['/study', set.id]);
       },
