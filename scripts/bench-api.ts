@@ -69,7 +69,11 @@ interface AutocannonOptions {
   headers?: Record<string, string>;
   body?: string;
 }
-type Autocannon = (options: AutocannonOptions) => Promise<AutocannonResult>;
+/** A run in progress: a promise of its result that also reports each response with its latency in ms. */
+type AutocannonRun = Promise<AutocannonResult> & {
+  on(event: 'response', listener: (client: unknown, statusCode: number, bytes: number, milliseconds: number) => void): void;
+};
+type Autocannon = (options: AutocannonOptions) => AutocannonRun;
 const autocannon = createRequire(import.meta.url)('autocannon') as Autocannon;
 
 // Loblolly pine seen in summer: needle foliage, 3 needles per bundle, 6-inch needles, alternate, furrowed bark.
@@ -133,30 +137,47 @@ async function profiled<T>(file: string, work: () => Promise<T>): Promise<T> {
   }
 }
 
-/** A run's numbers, summed over its slices. */
+/** One turn of a measurement: autocannon's summary and every response's latency. */
+interface Slice {
+  result: AutocannonResult;
+  latencies: number[];
+}
+
+async function slice(options: AutocannonOptions): Promise<Slice> {
+  const latencies: number[] = [];
+  const run = autocannon(options);
+  run.on('response', (_client, _status, _bytes, milliseconds) => latencies.push(milliseconds));
+  return { result: await run, latencies };
+}
+
+/** A measurement's numbers over all its turns. */
 interface Measured {
   requestsPerSecond: number;
-  /** median of the slices' medians */
+  /** percentiles of every response's latency in all turns (nearest rank), in ms */
   p50: number;
-  /** the worst slice's 99th percentile: stricter than the p99 of all requests together */
   p99: number;
   failed: number;
 }
 
-function summarise(slices: AutocannonResult[]): Measured {
-  const requests = slices.reduce((sum, slice) => sum + slice.requests.total, 0);
-  const seconds = slices.reduce((sum, slice) => sum + slice.duration, 0);
-  const medians = slices.map((slice) => slice.latency.p50).sort((a, b) => a - b);
+function percentile(sorted: readonly number[], share: number): number {
+  return sorted.length === 0 ? Number.NaN : sorted[Math.min(sorted.length - 1, Math.ceil(share * sorted.length) - 1)];
+}
+
+function summarise(slices: Slice[]): Measured {
+  const requests = slices.reduce((sum, { result }) => sum + result.requests.total, 0);
+  const seconds = slices.reduce((sum, { result }) => sum + result.duration, 0);
+  const latencies = slices.flatMap((item) => item.latencies).sort((a, b) => a - b);
   return {
     requestsPerSecond: requests / seconds,
-    p50: medians[Math.floor(medians.length / 2)],
-    p99: Math.max(...slices.map((slice) => slice.latency.p99)),
-    failed: slices.reduce((sum, slice) => sum + slice.non2xx + slice.errors, 0),
+    p50: percentile(latencies, 0.5),
+    p99: percentile(latencies, 0.99),
+    failed: slices.reduce((sum, { result }) => sum + result.non2xx + result.errors, 0),
   };
 }
 
 function describe(name: string, result: Measured): string {
-  return `${name.padEnd(24)} ${result.requestsPerSecond.toFixed(0).padStart(6)} req/s   p50 ${String(result.p50).padStart(3)} ms   p99 ${String(result.p99).padStart(3)} ms   failed ${result.failed}`;
+  const ms = (value: number) => value.toFixed(1).padStart(5);
+  return `${name.padEnd(24)} ${result.requestsPerSecond.toFixed(0).padStart(6)} req/s   p50 ${ms(result.p50)} ms   p99 ${ms(result.p99)} ms   failed ${result.failed}`;
 }
 
 /**
@@ -168,26 +189,26 @@ function describe(name: string, result: Measured): string {
 async function measureBoth(base: string, key: string, setup: string, profile: boolean): Promise<boolean> {
   const headers = { 'content-type': 'application/json', authorization: `Bearer ${key}` };
   const identifyFor = (duration: number) =>
-    autocannon({ url: `${base}/api/v1/identify`, connections: CONNECTIONS, duration, method: 'POST', headers, body: TYPICAL_SIFT });
+    slice({ url: `${base}/api/v1/identify`, connections: CONNECTIONS, duration, method: 'POST', headers, body: TYPICAL_SIFT });
   // Warm up: compiles the edition (in every identify worker) and lets the JIT settle.
   await autocannon({ url: `${base}/api/v1/identify`, connections: CONNECTIONS, amount: 800, method: 'POST', headers, body: TYPICAL_SIFT });
   await autocannon({ url: `${base}/api/health`, connections: 4, amount: 400 });
 
-  const slice = DURATION_S / ROUNDS;
-  const floorSlices: AutocannonResult[] = [];
-  const identifySlices: AutocannonResult[] = [];
+  const turn = DURATION_S / ROUNDS;
+  const floorSlices: Slice[] = [];
+  const identifySlices: Slice[] = [];
   for (let round = 0; round < ROUNDS; round++) {
-    floorSlices.push(await autocannon({ url: `${base}/api/health`, connections: CONNECTIONS, duration: slice }));
-    identifySlices.push(await identifyFor(slice));
+    floorSlices.push(await slice({ url: `${base}/api/health`, connections: CONNECTIONS, duration: turn }));
+    identifySlices.push(await identifyFor(turn));
   }
-  if (profile) await profiled('bench-identify.cpuprofile', () => identifyFor(slice));
+  if (profile) await profiled('bench-identify.cpuprofile', () => identifyFor(turn));
   const floor = summarise(floorSlices);
   const identify = summarise(identifySlices);
   const ratio = identify.requestsPerSecond / floor.requestsPerSecond;
-  console.log(`\nconcurrency ${CONNECTIONS} connections, ${ROUNDS} turns of ${slice} s each, ${setup}\n`);
+  console.log(`\nconcurrency ${CONNECTIONS} connections, ${ROUNDS} turns of ${turn} s each, ${setup}\n`);
   console.log(describe('GET /api/health (floor)', floor));
   console.log(describe('POST /api/v1/identify', identify));
-  console.log(`\nidentify / floor throughput: ${ratio.toFixed(2)} (needs ≥ 0.50); identify p99 ${identify.p99} ms (needs < 50)`);
+  console.log(`\nidentify / floor throughput: ${ratio.toFixed(2)} (needs ≥ 0.50); identify p99 ${identify.p99.toFixed(1)} ms (needs < 50)`);
   const clean = identify.failed === 0 && floor.failed === 0;
   if (!clean) console.log('some requests failed; see "failed" above');
   return clean && ratio >= 0.5 && identify.p99 < 50;
