@@ -18,6 +18,7 @@ export { cellOf, taxonIndex, traitByCode } from './lookup';
 export { rank } from './rank';
 export { suggest } from './suggest';
 export { entropy } from './entropy';
+export { inSentence } from './texts';
 export { compare, diagnose, health } from './analysis';
 export { buildKey, keyToLines } from './key';
 export { generateSyntheticMatrix, type SyntheticOptions } from './synthetic';

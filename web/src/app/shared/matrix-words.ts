@@ -1,4 +1,5 @@
 /** Plain words for traits, cells and observations, shared by the sift and species pages. */
+import { inSentence } from '@shared/engine';
 import type { CompiledMatrix, CompiledTrait, TaxonInfo } from '@shared/engine/compiled';
 import type { Cell, DiscreteCell, NumericCell, Observation, PlantPart } from '@shared/engine/types';
 
@@ -48,10 +49,14 @@ export function describeCell(trait: CompiledTrait, cell: Cell): string {
     const typical = `${range(cell.low, cell.high)} cm`;
     return cell.min < cell.low || cell.max > cell.high ? `${typical} (${range(cell.min, cell.max)})` : typical;
   }
-  const words = (values: Array<string | number> | undefined) => (values ?? []).map((value) => answerLabel(trait, value)).join(', ');
-  const parts = [words(cell.usual)];
-  if (cell.occasional?.length) parts.push(`occasionally ${words(cell.occasional)}`);
-  if (cell.rare?.length) parts.push(`rarely ${words(cell.rare)}`);
+  // only the very first label keeps its capital: "Scales, awl-shaped; occasionally flattened"
+  const words = (values: Array<string | number> | undefined, first: boolean) =>
+    (values ?? []).map((value, i) => (first && i === 0 ? answerLabel(trait, value) : inSentence(answerLabel(trait, value)))).join(', ');
+  const parts = [words(cell.usual, true)];
+  const opening = parts[0] === '';
+  if (cell.occasional?.length) parts.push(`occasionally ${words(cell.occasional, false)}`);
+  if (cell.rare?.length) parts.push(`rarely ${words(cell.rare, false)}`);
+  if (opening && parts.length > 1) parts[1] = parts[1].charAt(0).toUpperCase() + parts[1].slice(1);
   return parts.filter((part) => part !== '').join('; ');
 }
 
