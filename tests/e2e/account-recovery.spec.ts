@@ -154,6 +154,9 @@ describe('e2e: password resets and invitations', function () {
     expect(await page.locator('.facts .role').textContent()).to.equal('coach');
     expect(squash(await page.locator('.facts').textContent())).to.contain(`E-mail${email}`);
     expect(squash(await page.locator('header .account-link').textContent())).to.equal('account_circle Tamsin Orchardley · coach');
+    // Accepting signed the coach in once: the page keeps the session the acceptance opened.
+    const newUser = await running.created.context.models.User.findOne({ where: { email } });
+    expect(await running.created.context.models.Session.count({ where: { userId: newUser?.id ?? -1 } })).to.equal(1);
 
     await page.getByRole('button', { name: 'Sign out' }).click();
     await page.waitForURL(`${running.baseUrl}/`);

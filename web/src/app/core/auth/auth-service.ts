@@ -87,6 +87,16 @@ export class AuthService {
     );
   }
 
+  /**
+   * Takes over a session the server has already opened (accepting an invitation signs the new
+   * account in): `body` is the session answer, `{ token, … }`. Opening another one would leave the
+   * first unused on the server until it expires.
+   */
+  adoptSession(body: unknown): Observable<Me> {
+    this.#remember(readToken(body));
+    return this.refreshMe().pipe(tap({ error: () => this.#forget() }));
+  }
+
   signOut(): Observable<void> {
     return this.#http.delete<unknown>('/api/v1/sessions/current').pipe(
       map(() => undefined),

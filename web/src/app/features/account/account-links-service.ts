@@ -15,6 +15,8 @@ export interface AcceptInvitationRequest {
 /** The account an accepted invitation created, as far as the pages need it. */
 export interface InvitedAccount {
   email: string;
+  /** the session the server opened for the new account, as it answered */
+  session: unknown;
 }
 
 function isRecord(value: unknown): value is Record<string, unknown> {
@@ -26,7 +28,7 @@ function readInvitedAccount(body: unknown): InvitedAccount {
   if (!isRecord(account) || typeof account['email'] !== 'string' || account['email'] === '') {
     throw new Error('The server answered with an unexpected account.');
   }
-  return { email: account['email'] };
+  return { email: account['email'], session: body };
 }
 
 /** True when the API refused a reset or invitation link as unknown, used or expired. */

@@ -91,12 +91,13 @@ export default class InvitationPage {
       .acceptInvitation(this.token(), { displayName: displayName.trim(), password })
       .pipe(
         tap(() => (accepted = true)),
-        switchMap((account) => this.#auth.signIn({ email: account.email, password })),
+        // accepting signs the new account in: keep that session rather than open a second one
+        switchMap((account) => this.#auth.adoptSession(account.session)),
       )
       .subscribe({
         next: () => void this.#router.navigateByUrl('/account'),
         error: (error: unknown) => {
-          // The account exists once the invitation is accepted; only the sign-in after it failed.
+          // The account exists once the invitation is accepted; only taking over its session failed.
           if (accepted) void this.#router.navigate(['/sign-in'], { queryParams: { done: 'invitation' } });
           else if (isLinkNotValid(error)) this.linkGone.set(true);
           else this.problem.set(readableError(error));
