@@ -3,7 +3,7 @@ import request from 'supertest';
 import type { CreatedApp } from '../../api/src/app';
 import { ConfigError, defaultIdentifyWorkers, loadConfig } from '../../api/src/config';
 import { LoadedEdition } from '../../api/src/editions/edition-catalog';
-import { IdentifyBusy, IdentifyPool } from '../../api/src/identify/identify-pool';
+import { IdentifyBusy, IdentifyPool, workerExecArgv } from '../../api/src/identify/identify-pool';
 import { identifyAnswer, type IdentifyRequest } from '../../api/src/identify/identify-answer';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
 import { createPartnerKey, signUpAndSignIn, type SignedInUser } from './support/accounts';
@@ -145,6 +145,14 @@ describe('api: identify worker configuration', () => {
     expect(loadConfig({ NODE_ENV: 'test', IDENTIFY_WORKERS: '3' }).identifyWorkers).to.equal(3);
     // an empty value, as an unfilled line in an env file gives, means the default
     expect(loadConfig({ NODE_ENV: 'test', IDENTIFY_WORKERS: '' }).identifyWorkers).to.equal(0);
+  });
+
+  it('passes tsx on to workers run from source exactly once, and nothing extra to the built worker', () => {
+    const loader = ['--require', '/app/node_modules/tsx/dist/preflight.cjs', '--import', 'file:///app/node_modules/tsx/dist/loader.mjs'];
+    expect(workerExecArgv('/app/api/src/identify/identify-worker.ts', loader)).to.deep.equal(loader);
+    expect(workerExecArgv('/app/api/src/identify/identify-worker.ts', ['--import', 'tsx'])).to.deep.equal(['--import', 'tsx']);
+    expect(workerExecArgv('/app/api/src/identify/identify-worker.ts', ['--enable-source-maps'])).to.deep.equal(['--enable-source-maps', '--import', 'tsx']);
+    expect(workerExecArgv('/app/dist/api/identify-worker.js', ['--enable-source-maps'])).to.deep.equal(['--enable-source-maps']);
   });
 
   it('rejects a worker count that is not a whole number from 0 to 64', () => {

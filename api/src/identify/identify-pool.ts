@@ -27,11 +27,11 @@ function workerFile(): string {
 }
 
 /** Worker threads load TypeScript through tsx when the process itself does not pass it on. */
-function workerExecArgv(file: string): string[] {
-  const inherited = process.execArgv;
-  if (!file.endsWith('.ts')) return inherited;
-  const hasTsx = inherited.some((arg, i) => /(^|=)tsx(\/|$)/.test(arg) || (arg === '--import' && inherited[i + 1] === 'tsx'));
-  return hasTsx ? inherited : [...inherited, '--import', 'tsx'];
+export function workerExecArgv(file: string, inherited: readonly string[] = process.execArgv): string[] {
+  if (!file.endsWith('.ts')) return [...inherited];
+  // `--import tsx`, `--import=tsx`, or the loader file tsx itself passes on (`…/node_modules/tsx/dist/loader.mjs`)
+  const hasTsx = inherited.some((arg) => /(^|[=/\\])tsx([/\\]|$)/.test(arg));
+  return hasTsx ? [...inherited] : [...inherited, '--import', 'tsx'];
 }
 
 /** Every identify worker is busy and the queue is full: a 503 the route sends with Retry-After. */
