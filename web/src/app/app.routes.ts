@@ -18,6 +18,9 @@ export const routes: Routes = [
   { path: 'study/:id/edit', title: 'Edit study set · Sylvasift', canActivate: [authGuard], canDeactivate: [unsavedChangesGuard], loadComponent: () => import('./features/study/study-set-editor') },
   { path: 'study/:id/sheet', title: 'Study sheet · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/study/study-sheet-page') },
   { path: 'study/:id/drill', title: 'Drills · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/study/drill-page') },
+  { path: 'review', title: 'Second look · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/review/review-queue-page') },
+  { path: 'review/queries/:id', redirectTo: '/review/:id' },
+  { path: 'review/:id', title: 'Query · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/review/query-page') },
   { path: 'about', title: 'About Sylvasift · Sylvasift', loadComponent: () => import('./features/home/about-page') },
   { path: '**', title: 'Page not found · Sylvasift', loadComponent: () => import('./core/layout/not-found-page') },
 ];

@@ -3,11 +3,14 @@ export interface NavLink {
   path: string;
   label: string;
   icon: string;
+  /** shown only to these roles (the server still checks every request); absent: shown to everyone */
+  roles?: readonly string[];
 }
 
 export const NAV_LINKS: readonly NavLink[] = Object.freeze([
   { path: '/sift', label: 'Sift', icon: 'filter_alt' },
   { path: '/study', label: 'Study', icon: 'school' },
+  { path: '/review', label: 'Second look', icon: 'rate_review', roles: ['reviewer', 'admin'] },
   { path: '/', label: 'Home', icon: 'park' },
   { path: '/about', label: 'About', icon: 'info' },
 ]);

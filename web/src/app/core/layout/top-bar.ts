@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { RouterLink, RouterLinkActive } from '@angular/router';
 import { MatToolbar } from '@angular/material/toolbar';
 import { MatIcon } from '@angular/material/icon';
@@ -15,5 +15,9 @@ import { NAV_LINKS } from './nav-links';
 })
 export class TopBar {
   protected readonly auth = inject(AuthService);
-  protected readonly links = NAV_LINKS;
+  /** the links for whoever is signed in: role-bound ones only once the account is known */
+  protected readonly links = computed(() => {
+    const role = this.auth.me()?.role;
+    return NAV_LINKS.filter((link) => !link.roles || (role !== undefined && link.roles.includes(role)));
+  });
 }

@@ -20,7 +20,7 @@ import { readableError } from '../../core/http/api-problem';
           <div><dt>Member since</dt><dd>{{ me.createdAt | date: 'longDate' }}</dd></div>
         }
       </dl>
-      <p>Study sets, study sheets and drills are under <a routerLink="/study">Study</a>. Curating the matrix and answering queries have no pages yet: curators and reviewers do that through the <a href="/api/docs">API</a>.</p>
+      <p>Study sets, study sheets and drills are under <a routerLink="/study">Study</a>. @if (me.role === 'reviewer' || me.role === 'admin') {Queries on doubtful values wait for an answer in <a routerLink="/review">Second look</a>.} @else {The queries you raise on doubtful values, from a species page, are under <a routerLink="/review">Your queries</a>.} Curating the matrix has no pages yet: curators do that through the <a href="/api/docs">API</a>.</p>
     } @else if (problem(); as message) {
       <p class="problem" role="alert">{{ message }}</p>
     } @else {

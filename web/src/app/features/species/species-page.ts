@@ -1,5 +1,6 @@
 import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
-import { RouterLink } from '@angular/router';
+import { Router, RouterLink } from '@angular/router';
+import { MatDialog } from '@angular/material/dialog';
 import { Location } from '@angular/common';
 import { MatIcon } from '@angular/material/icon';
 import { MatAnchor, MatButton } from '@angular/material/button';
@@ -8,7 +9,9 @@ import { cellOf, diagnose } from '@shared/engine';
 import type { CompiledMatrix, CompiledTrait, TaxonInfo } from '@shared/engine/compiled';
 import type { Cell } from '@shared/engine/types';
 import { EditionService } from '../../core/edition/edition-service';
+import { AuthService } from '../../core/auth/auth-service';
 import { TaxonPhotos } from './taxon-photos';
+import { FlagValueDialog, type FlagValueData } from './flag-value-dialog';
 import { USE_CAUTION, IDENTIFICATION_CAUTION } from '../../core/layout/cautions';
 import { EditionStatus } from '../../shared/edition-status';
 import { PART_LABELS, PART_ORDER, commonName, describeCell, illustrationUrl, isDiscreteCell } from '../../shared/matrix-words';
@@ -47,6 +50,9 @@ export default class SpeciesPage {
   protected readonly editions = inject(EditionService);
   readonly #location = inject(Location);
   readonly #photos = inject(TaxonPhotos);
+  readonly #dialog = inject(MatDialog);
+  readonly #router = inject(Router);
+  protected readonly auth = inject(AuthService);
 
   /** the taxon id from `/species/:id` */
   readonly id = input.required<string>();
@@ -124,6 +130,15 @@ export default class SpeciesPage {
       return other?.cautions?.length ? [{ id, name: commonName(other), cautions: other.cautions }] : [];
     });
   });
+
+  /** Where sign-in brings a visitor back to: this species page. */
+  protected readonly signInParams = computed(() => ({ next: this.#router.url }));
+
+  /** Opens the dialog that raises a query on one coded value. */
+  protected queryValue(row: CodedRow): void {
+    const data: FlagValueData = { taxonId: this.id(), speciesName: this.name(), traitCode: row.trait.code, traitLabel: row.trait.label, words: row.words };
+    this.#dialog.open<FlagValueDialog, FlagValueData>(FlagValueDialog, { data, autoFocus: 'first-tabbable', restoreFocus: true, width: '560px', maxWidth: 'calc(100vw - 32px)' });
+  }
 
   protected goBack(): void {
     this.#location.back();
