@@ -311,8 +311,10 @@ describe('e2e: Second look and raising a query', function () {
     expect(await violationsWhenStill(page)).to.deep.equal([]);
     await expectNoSidewaysOverflow(page, 'the stale recode');
     await shoot(page, 'recode-stale-phone');
+    await stale.scrollIntoViewIfNeeded();
+    await shoot(page, 'recode-stale-view-phone', false);
 
-    await stale.getByRole('button', { name: `Keep my change, base it on version ${curatorVersion}` }).click();
+    await stale.getByRole('button', { name: `Base my change on version ${curatorVersion}` }).click();
     await stale.waitFor({ state: 'detached' });
     expect(await smooth.textContent()).to.contain('Usual');
     await page.getByRole('button', { name: 'Recode…' }).click();

@@ -10,6 +10,7 @@ import { MatOption, MatSelect } from '@angular/material/select';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatRadioButton, MatRadioGroup } from '@angular/material/radio';
 import type { Cell } from '@shared/engine/types';
+import type { CompiledTrait } from '@shared/engine/compiled';
 import { AuthService } from '../../core/auth/auth-service';
 import { EditionService } from '../../core/edition/edition-service';
 import { type CellQuery, type CellVersion, QueryService, StaleCell } from '../../core/api/query-service';
@@ -263,7 +264,7 @@ export default class QueryPage {
     this.#confirm({
       title: 'Recode this cell?',
       lines: [
-        `${words.speciesName} · ${words.traitLabel} becomes “${describeCell(trait, value)}”.`,
+        `${words.speciesName} · ${words.traitLabel}: “${this.#fromWords(trait)}” becomes “${describeCell(trait, value)}”.`,
         'The working matrix changes now and the query is settled as recoded; the sift uses the new value once the next edition is published.',
       ],
       confirm: 'Recode and settle',
@@ -308,6 +309,13 @@ export default class QueryPage {
     fillCellForm(this.recodeForm, trait, stale.value);
     this.recodeMode.set(this.recodeForm.controls.mode.value);
     this.rebaseKeepingChange();
+  }
+
+  /** The cell the recode replaces, as far as this page knows it: the working cell if read, else the published one. */
+  #fromWords(trait: CompiledTrait): string {
+    const working = this.working();
+    if (working.status === 'read') return describeCell(trait, working.cell.value);
+    return this.words()?.codedNow ?? '';
   }
 
   #confirm(data: ConfirmQueryData) {
