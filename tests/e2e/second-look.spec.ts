@@ -179,6 +179,15 @@ describe('e2e: Second look and raising a query', function () {
     expect(await violationsWhenStill(page)).to.deep.equal([]);
     await shoot(page, 'queue-desktop');
 
+    // Nothing is answered yet: the filter says so, and the state is kept in the URL.
+    await page.getByRole('radio', { name: 'Answered' }).click();
+    await page.waitForURL(/\/review\?state=answered$/);
+    await page.locator('.empty h2', { hasText: 'No answered queries.' }).waitFor();
+    expect(await page.locator('.query-card').count()).to.equal(0);
+    await shoot(page, 'queue-empty-desktop');
+    await page.getByRole('radio', { name: 'Open' }).click();
+    await card.waitFor();
+
     await card.getByRole('link').click();
     await page.waitForURL(new RegExp(`/review/${raisedId}$`));
     const answerButton = page.getByRole('button', { name: 'Save answer' });
@@ -218,11 +227,17 @@ describe('e2e: Second look and raising a query', function () {
     expect(query.answer).to.match(/^Fours are not recorded/);
     expect(query.evidence).to.equal('Demo answer: herbarium sheets of the club collection.');
     expect(query.history.map((event) => event.action)).to.deep.equal(['raised', 'answered', 'settled']);
+
+    // Signed in, anyone sees a Query action beside each coded value.
+    await page.goto(`${running.baseUrl}/species/pinus-echinata`);
+    await page.locator('.traits .row').first().waitFor();
+    expect(await page.getByRole('button', { name: /^Query / }).count()).to.equal(await page.locator('.traits .row').count());
+    await shoot(page, 'species-reviewer-desktop');
     expect(pageErrors, pageErrors.join('\n')).to.deep.equal([]);
   });
 
-  it('a numeric range out of order is refused in the recode form, before anything is sent', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: PHONE });
+  it('in the dark, an admin recoding a numeric range reads the cell version, and an out-of-order range is refused before anything is sent', async () => {
+    context = await browser.newContext({ serviceWorkers: 'block', viewport: PHONE, colorScheme: 'dark' });
     const page = await context.newPage();
     const learnerToken = await tokenFor(page.request, running.baseUrl, 'learner');
     const raised = await page.request.post(`${running.baseUrl}/api/v1/queries`, {
@@ -232,9 +247,20 @@ describe('e2e: Second look and raising a query', function () {
     expect(raised.status()).to.equal(201);
     const { id } = (await raised.json()) as QueryBody;
 
-    await signIn(page, running.baseUrl, 'reviewer', `/review/${id}`);
+    const curatorToken = await tokenFor(page.request, running.baseUrl, 'curator');
+    const cell = (await (await page.request.get(`${running.baseUrl}/api/v1/curation/cells/pinus-taeda/needle-length`, { headers: { Authorization: `Bearer ${curatorToken}` } })).json()) as {
+      version: number;
+    };
+
+    // The link the reviewers' e-mail carries opens the same query page.
+    await signIn(page, running.baseUrl, 'admin', '/review');
+    await page.goto(`${running.baseUrl}/review/queries/${id}`);
+    await page.waitForURL(new RegExp(`/review/${id}$`));
     const low = page.getByLabel('Typical from');
     await low.waitFor();
+    // An admin may read the working matrix, so the recode is based on the version read.
+    await page.locator('.hint', { hasText: `based on version ${cell.version} of the cell` }).waitFor();
+    expect(await violationsWhenStill(page)).to.deep.equal([]);
     // The editor starts from the published range; the seeded loblolly needle length is 10 (12–23) 23 cm.
     expect(await low.inputValue()).to.equal('12');
     await low.fill('30');
@@ -243,7 +269,7 @@ describe('e2e: Second look and raising a query', function () {
     expect(await page.getByRole('alert').filter({ hasText: 'The range must read' }).count()).to.equal(1);
     expect(await page.getByRole('dialog').count()).to.equal(0);
     await expectNoSidewaysOverflow(page, 'the numeric recode editor');
-    await shoot(page, 'recode-numeric-phone');
+    await shoot(page, 'recode-numeric-dark-phone');
 
     const reviewerToken = await tokenFor(page.request, running.baseUrl, 'reviewer');
     const still = (await (await page.request.get(`${running.baseUrl}/api/v1/queries/${id}`, { headers: { Authorization: `Bearer ${reviewerToken}` } })).json()) as QueryBody;

@@ -41,7 +41,7 @@ export interface FlagValueData {
           <p>
             <strong>{{ data.speciesName }} · {{ data.traitLabel }}:</strong> coded as “{{ data.words }}”.
           </p>
-          <mat-form-field appearance="outline" class="note">
+          <mat-form-field appearance="outline" class="note" subscriptSizing="dynamic">
             <mat-label>What did you see?</mat-label>
             <textarea matInput formControlName="note" rows="4" maxlength="4000" required cdkFocusInitial></textarea>
             <mat-hint>For example: “Saw bundles of two on a young tree.” Say where and on how many trees.</mat-hint>
