@@ -145,6 +145,21 @@ describe('e2e: Second look and raising a query', function () {
     expect(await violationsWhenStill(page)).to.deep.equal([]);
     await expectNoSidewaysOverflow(page, 'the learner’s queries');
     await shoot(page, 'your-queries-phone');
+
+    // Another student's query does not open for a learner; the page says so and offers their own list.
+    const reviewerToken = await tokenFor(page.request, running.baseUrl, 'reviewer');
+    const all = (await (await page.request.get(`${running.baseUrl}/api/v1/queries?taxonId=quercus-rubra`, { headers: { Authorization: `Bearer ${reviewerToken}` } })).json()) as {
+      queries: QueryBody[];
+    };
+    const othersId = all.queries[0]?.id;
+    expect(othersId, 'the demo seeds a query by another student').to.be.a('number');
+    await page.goto(`${running.baseUrl}/review/${othersId}`);
+    const refused = page.getByRole('alert').filter({ hasText: 'could not be opened' });
+    await refused.waitFor();
+    expect(await refused.textContent()).to.contain(`There is no query ${othersId} you can see`);
+    expect(await refused.getByRole('link', { name: 'See the queries you can open' }).count()).to.equal(1);
+    await expectNoSidewaysOverflow(page, 'a query that cannot be opened');
+    await shoot(page, 'query-not-yours-phone');
     expect(pageErrors, pageErrors.join('\n')).to.deep.equal([]);
   });
 
