@@ -218,6 +218,9 @@ describe('e2e: Second look and raising a query', function () {
     await answerButton.click();
     await page.locator('.state-badge', { hasText: 'Answered' }).waitFor();
     expect(await page.locator('.history li[data-action="answered"]').count()).to.equal(1);
+    // The saved answer leaves an empty form behind, not an error.
+    expect(await page.getByRole('textbox', { name: 'Answer', exact: true }).inputValue()).to.equal('');
+    expect(await page.locator('mat-error').count()).to.equal(0);
 
     // Settling asks first; going back leaves the query answered.
     await page.getByRole('button', { name: 'Settle…' }).click();

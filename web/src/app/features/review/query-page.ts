@@ -1,6 +1,6 @@
-import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked, viewChild } from '@angular/core';
 import { RouterLink } from '@angular/router';
-import { type AbstractControl, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { type AbstractControl, FormGroupDirective, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatDialog } from '@angular/material/dialog';
 import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
@@ -121,6 +121,8 @@ export default class QueryPage {
     return stale && trait ? describeCell(trait, stale.value) : '';
   });
 
+  /** the answer form's directive: resetting through it also forgets that the form was submitted */
+  private readonly answerFormDirective = viewChild('answerFormDirective', { read: FormGroupDirective });
   protected readonly answerForm = this.#fb.group({
     answer: ['', [Validators.required, Validators.minLength(3), Validators.maxLength(4000)]],
     evidence: ['', Validators.maxLength(4000)],
@@ -212,7 +214,7 @@ export default class QueryPage {
       next: (answered) => {
         this.busy.set(null);
         this.page.set({ status: 'ready', query: answered });
-        this.answerForm.reset();
+        this.answerFormDirective()?.resetForm();
         this.done.set('Your answer is saved; the query is answered.');
       },
       error: (error: unknown) => this.#failed('answer', error),
