@@ -240,6 +240,8 @@ describe('api: permission table (every route × every caller)', function () {
     { operation: 'POST /api/v1/queries', prepare: () => ({ url: '/api/v1/queries', body: { taxonId: 'pinus-taeda', traitCode: 'needle-length', note: 'Who may raise queries.' } }), expect: users(201) },
     // someone else's query: reviewers and admins see it, other users are told it is not there
     { operation: 'GET /api/v1/queries/{id}', prepare: async () => ({ url: `/api/v1/queries/${await openQuery()}` }), expect: users(200, ['reviewer'], 404) },
+    // the queried cell in the working matrix, with its version: for those who may recode it
+    { operation: 'GET /api/v1/queries/{id}/cell', prepare: async () => ({ url: `/api/v1/queries/${await openQuery()}/cell` }), expect: users(200, ['reviewer']) },
     {
       operation: 'POST /api/v1/queries/{id}/answer',
       prepare: async () => ({ url: `/api/v1/queries/${await openQuery()}/answer`, body: { answer: 'Answered for the permission table.' } }),

@@ -104,6 +104,23 @@ describe('api: queries on doubtful cells', () => {
     expect(after?.version).to.equal(version + 1);
   });
 
+  it('gives reviewers the queried cell with its version, so a recode can name it first time', async () => {
+    const query = await raise(learner, 'Are threes really the usual count here?');
+    const stored = await created.context.models.Cell.findOne({ where: { taxonId: TAXON, traitCode: TRAIT } });
+    const res = await request(created.app).get(`/api/v1/queries/${query.id}/cell`).set(auth(reviewer)).expect(200);
+    expect(res.body).to.deep.equal({ taxonId: TAXON, traitCode: TRAIT, value: stored?.value, version: stored?.version });
+    expect(res.headers['cache-control']).to.equal('no-store');
+    // the raiser (a learner) may read the query, not the unpublished working cell
+    await request(created.app).get(`/api/v1/queries/${query.id}/cell`).set(auth(learner)).expect(403);
+    await request(created.app).get('/api/v1/queries/999999/cell').set(auth(reviewer)).expect(404);
+    const recoded = await request(created.app)
+      .post(`/api/v1/queries/${query.id}/recode`)
+      .set(auth(reviewer))
+      .send({ value: res.body.value, version: res.body.version, reason: 'Read and kept as it was, through a recode.' })
+      .expect(200);
+    expect(recoded.body.cell.version).to.equal((stored?.version ?? 0) + 1);
+  });
+
   it('refuses a query on a cell that does not exist', async () => {
     const res = await request(created.app).post('/api/v1/queries').set(auth(learner)).send({ taxonId: 'no-such-tree', traitCode: TRAIT, note: 'Hmm, odd.' }).expect(400);
     expect(res.body['invalid-params'][0].name).to.equal('/taxonId');

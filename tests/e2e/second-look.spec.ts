@@ -318,6 +318,9 @@ describe('e2e: Second look and raising a query', function () {
     await shoot(page, 'queue-phone');
     await page.locator(`.query-card[data-query="${queryId}"]`).getByRole('link').click();
     await page.waitForURL(new RegExp(`/review/${queryId}$`));
+    // The reviewer reads the working cell's version, so a recode names it from the start.
+    const read = (await (await page.request.get(cellUrl, { headers: asCurator })).json()) as { version: number };
+    await page.locator('.hint', { hasText: `based on version ${read.version} of the cell` }).waitFor();
 
     // The reviewer's change (demo values, not a claim about red oak bark): smooth becomes usual beside furrowed.
     const smooth = page.getByRole('combobox', { name: 'Smooth', exact: true });

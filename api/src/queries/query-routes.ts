@@ -59,6 +59,10 @@ export function queryRoutes(queries: QueryService): Router {
     res.json(queryView(await queries.get(currentUser(req.principal), idParam(req.params['id']))));
   });
 
+  router.get('/:id/cell', reviewer, async (req, res) => {
+    res.json(await queries.cell(idParam(req.params['id'])));
+  });
+
   router.post('/:id/answer', reviewer, async (req, res) => {
     const evidence = stringField(req.body, 'evidence', { optional: true, max: 4000 });
     const query = await queries.answer(currentUser(req.principal), idParam(req.params['id']), {

@@ -6,7 +6,7 @@ import type { Principal } from '../auth/principal';
 import { problems } from '../http/problem';
 import { findAccount, listActiveEmailsWithRoles } from '../accounts/account-store';
 import { setCell, type CellChange } from '../curation/cell-service';
-import type { CellState } from '../curation/working-matrix-store';
+import { readCell, type CellState } from '../curation/working-matrix-store';
 import type { QueryAction, QueryState } from './query-models';
 import { cellExists, insertEvent, insertQuery, moveQuery, readQueries, type CellQuery, type QueryFilter } from './query-store';
 
@@ -90,6 +90,12 @@ export function queryService(deps: QueryDeps) {
       const query = await one(id).catch(() => undefined);
       if (!query || (!mayReview(actor) && query.raisedBy !== actor.userId)) throw notYours(id);
       return query;
+    },
+
+    /** The queried cell as the working matrix holds it now, with the version a recode must name. */
+    async cell(id: number): Promise<CellState> {
+      const query = await one(id);
+      return readCell(models, query.taxonId, query.traitCode);
     },
 
     /** A reviewer answers with evidence; an answered query may be answered again until it is settled. */

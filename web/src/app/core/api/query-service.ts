@@ -185,12 +185,9 @@ export class QueryService {
     return this.#http.post<unknown>(`/api/v1/queries/${id}/settle`, note.trim() === '' ? {} : { note }).pipe(map(readQuery));
   }
 
-  /**
-   * The working-matrix cell with its version. Only roles that may use the Matrix desk can read it;
-   * for others this fails with a 403.
-   */
-  workingCell(taxonId: string, traitCode: string): Observable<CellVersion> {
-    return this.#http.get<unknown>(`/api/v1/curation/cells/${encodeURIComponent(taxonId)}/${encodeURIComponent(traitCode)}`).pipe(
+  /** The queried cell in the working matrix with its version (reviewers and admins; others get 403). */
+  workingCell(queryId: number): Observable<CellVersion> {
+    return this.#http.get<unknown>(`/api/v1/queries/${queryId}/cell`).pipe(
       map((body) => {
         const cell = readCellVersion(body);
         if (!cell) throw new Error('The server answered with an unexpected cell.');

@@ -22,7 +22,7 @@ import { FREQUENCIES, RANGE_FIELDS, RANGE_LABELS, buildCellForm, cellFromForm, c
 import { STATE_LABELS, actionWords, ageOf, outcomeWords, queryCellWords, raiserName, whenOf, worksSecondLook } from './review-words';
 
 type PageState = { status: 'loading' } | { status: 'ready'; query: CellQuery } | { status: 'error'; message: string; notFound: boolean };
-/** The working-matrix cell as read for the recode: read with its version, or not readable with this role. */
+/** The working-matrix cell as read for the recode: read with its version, or not read (the request failed). */
 type WorkingCell = { status: 'loading' } | { status: 'read'; cell: CellVersion } | { status: 'unread' };
 
 /** One query: the cell in words, its history, and for reviewers: answer, settle or recode. */
@@ -164,10 +164,10 @@ export default class QueryPage {
     });
   }
 
-  /** Curators and admins can read the working cell's version; for other reviewers the first recode checks it. */
+  /** Reads the working cell and its version; if that fails, the first recode checks the version instead. */
   #readWorkingCell(query: CellQuery): void {
     this.working.set({ status: 'loading' });
-    this.#queries.workingCell(query.taxonId, query.traitCode).subscribe({
+    this.#queries.workingCell(query.id).subscribe({
       next: (cell) => {
         this.working.set({ status: 'read', cell });
         this.baseVersion.set(cell.version);
