@@ -1,9 +1,8 @@
 import { Injectable, inject } from '@angular/core';
-import { HttpBackend, HttpClient, HttpErrorResponse, HttpHeaders, HttpParams } from '@angular/common/http';
+import { HttpClient, HttpParams } from '@angular/common/http';
 import { type Observable, catchError, map, throwError } from 'rxjs';
 import type { Cell } from '@shared/engine/types';
-import { AuthService } from '../auth/auth-service';
-import { type ApiProblem, problemFromResponse } from '../http/api-problem';
+import { ApiProblem } from '../http/api-problem';
 
 export type QueryState = 'open' | 'answered' | 'settled';
 export const QUERY_STATES: readonly QueryState[] = ['open', 'answered', 'settled'];
@@ -130,15 +129,6 @@ function readCellVersion(value: unknown): CellVersion | null {
   return { value: value['value'], version: value['version'] };
 }
 
-function parsedBody(body: unknown): unknown {
-  if (typeof body !== 'string') return body;
-  try {
-    return JSON.parse(body);
-  } catch {
-    return undefined;
-  }
-}
-
 function readRecoded(body: unknown): { query: CellQuery; cell: CellVersion } {
   const cell = isRecord(body) ? readCellVersion(body['cell']) : null;
   if (!isRecord(body) || !cell) throw new Error('The server answered with an unexpected recode.');
@@ -152,12 +142,6 @@ function readRecoded(body: unknown): { query: CellQuery; cell: CellVersion } {
 @Injectable({ providedIn: 'root' })
 export class QueryService {
   readonly #http = inject(HttpClient);
-  readonly #auth = inject(AuthService);
-  /**
-   * A client without the app's interceptors, for the recode only: its 409 carries the cell as it is
-   * now, which the error interceptor's ApiProblem does not keep.
-   */
-  readonly #bare = new HttpClient(inject(HttpBackend));
 
   /** Reviewers and admins: every query; anyone else: the ones they raised. Oldest first. */
   listQueries(filter: QueryFilter = {}): Observable<CellQuery[]> {
@@ -202,16 +186,11 @@ export class QueryService {
    * is an ApiProblem.
    */
   recodeQuery(id: number, change: CellChange): Observable<{ query: CellQuery; cell: CellVersion }> {
-    const token = this.#auth.token();
-    const headers = token ? new HttpHeaders({ Authorization: `Bearer ${token}` }) : undefined;
-    return this.#bare.post<unknown>(`/api/v1/queries/${id}/recode`, change, { headers }).pipe(
+    return this.#http.post<unknown>(`/api/v1/queries/${id}/recode`, change).pipe(
       map(readRecoded),
       catchError((error: unknown) => {
-        if (!(error instanceof HttpErrorResponse)) return throwError(() => error);
-        const body = parsedBody(error.error);
-        const problem = problemFromResponse(error.status, body);
-        const current = error.status === 409 && isRecord(body) ? readCellVersion(body['current']) : null;
-        return throwError(() => (current ? new StaleCell(current, problem) : problem));
+        const current = error instanceof ApiProblem && error.status === 409 ? readCellVersion(error.extensions['current']) : null;
+        return throwError(() => (current && error instanceof ApiProblem ? new StaleCell(current, error) : error));
       }),
     );
   }

@@ -14,6 +14,8 @@ export class ApiProblem extends Error {
     readonly detail: string,
     readonly invalidParams: readonly InvalidParam[] = [],
     readonly type = 'about:blank',
+    /** the body's other members (RFC 9457 extension members), e.g. a 409's `current` */
+    readonly extensions: Readonly<Record<string, unknown>> = {},
   ) {
     super(detail || title);
     this.name = 'ApiProblem';
@@ -45,18 +47,22 @@ function readInvalidParams(value: unknown): InvalidParam[] {
   return value.filter(isRecord).map((param) => ({ name: String(param['name'] ?? ''), reason: String(param['reason'] ?? '') }));
 }
 
+const STANDARD_MEMBERS = new Set(['type', 'title', 'status', 'detail', 'instance', 'invalid-params']);
+
 /** Builds an ApiProblem from an HTTP status and whatever body came back. */
 export function problemFromResponse(status: number, body: unknown): ApiProblem {
   if (status === 0) {
     return new ApiProblem(0, 'No connection', 'The server cannot be reached. Check the connection and try again.');
   }
   if (isRecord(body) && typeof body['title'] === 'string') {
+    const extensions = Object.fromEntries(Object.entries(body).filter(([name]) => !STANDARD_MEMBERS.has(name)));
     return new ApiProblem(
       typeof body['status'] === 'number' ? body['status'] : status,
       body['title'],
       typeof body['detail'] === 'string' ? body['detail'] : '',
       readInvalidParams(body['invalid-params']),
       typeof body['type'] === 'string' ? body['type'] : 'about:blank',
+      extensions,
     );
   }
   if (status >= 500) return new ApiProblem(status, 'Server error', 'The server ran into a problem. Try again in a moment.');
