@@ -3,7 +3,7 @@ import path from 'node:path';
 import { expect } from 'chai';
 import type { APIRequestContext, Browser, BrowserContext, Page } from 'playwright-core';
 import { launchBrowser, requireChromium } from './support/browser';
-import { demoAccount, seriousViolations } from './support/checks';
+import { demoAccount, expectNoSidewaysOverflow, seriousViolations, signInThroughPage as signIn } from './support/checks';
 import { startBuiltApp, type RunningApp } from './support/server';
 import { DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 
@@ -24,12 +24,6 @@ interface QueryBody {
   history: Array<{ action: string }>;
 }
 
-/** Nothing may overflow sideways at phone width (common practice, no source). */
-async function expectNoSidewaysOverflow(page: Page, what: string): Promise<void> {
-  const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
-  expect(overflow, `${what} overflows by ${overflow}px`).to.be.at.most(0);
-}
-
 /** A dialog is shot as the screen shows it; pages whole. */
 async function shoot(page: Page, name: string, fullPage = true): Promise<void> {
   fs.mkdirSync(SHOTS, { recursive: true });
@@ -40,15 +34,6 @@ async function shoot(page: Page, name: string, fullPage = true): Promise<void> {
 async function violationsWhenStill(page: Page): Promise<string[]> {
   await page.waitForFunction(() => document.getAnimations().every((animation) => animation.playState !== 'running'), undefined, { timeout: 5_000 });
   return seriousViolations(page);
-}
-
-async function signIn(page: Page, baseUrl: string, role: string, next: string): Promise<void> {
-  const account = demoAccount(role);
-  await page.goto(`${baseUrl}/sign-in?next=${encodeURIComponent(next)}`);
-  await page.getByLabel('E-mail').fill(account.email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL((url) => url.pathname + url.search === next);
 }
 
 /** A bearer token for a demo account, for checking through the API what the screens did. */

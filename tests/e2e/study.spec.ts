@@ -3,7 +3,7 @@ import path from 'node:path';
 import { expect } from 'chai';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { launchBrowser, requireChromium } from './support/browser';
-import { demoAccount, seriousViolations } from './support/checks';
+import { demoAccount, expectNoSidewaysOverflow, seriousViolations, signInThroughPage as signIn } from './support/checks';
 import { startBuiltApp, type RunningApp } from './support/server';
 import { DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 import { DEMO_STUDY_SET } from '../../api/src/db/seeders/0003-demo-study-set';
@@ -14,25 +14,9 @@ const SHOTS = '/tmp/sylvasift-study';
 const PHONE = { width: 360, height: 780 };
 const DESKTOP = { width: 1280, height: 900 };
 
-/** Nothing may overflow sideways at phone width (common practice, no source). */
-async function expectNoSidewaysOverflow(page: Page, what: string): Promise<void> {
-  const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
-  expect(overflow, `${what} overflows by ${overflow}px`).to.be.at.most(0);
-}
-
 async function shoot(page: Page, name: string): Promise<void> {
   fs.mkdirSync(SHOTS, { recursive: true });
   await page.screenshot({ path: path.join(SHOTS, `${name}.png`), fullPage: true });
-}
-
-/** Signs in through the sign-in page and lands on `next`, as someone following a shared link does. */
-async function signIn(page: Page, baseUrl: string, role: string, next: string): Promise<void> {
-  const account = demoAccount(role);
-  await page.goto(`${baseUrl}/sign-in?next=${encodeURIComponent(next)}`);
-  await page.getByLabel('E-mail').fill(account.email);
-  await page.getByLabel('Password').fill(DEMO_PASSWORD);
-  await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.waitForURL((url) => url.pathname + url.search === next);
 }
 
 async function addSpecies(page: Page, typed: string, option: RegExp): Promise<void> {

@@ -1,7 +1,8 @@
 /** Checks and lookups several browser suites share. */
 import { AxeBuilder } from '@axe-core/playwright';
+import { expect } from 'chai';
 import type { Page } from 'playwright-core';
-import { DEMO_ACCOUNTS } from '../../../api/src/db/seeders/0002-demo-scenario';
+import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../../api/src/db/seeders/0002-demo-scenario';
 
 /** Serious and critical WCAG 2.1 A/AA violations axe finds on the page, one line each. */
 export async function seriousViolations(page: Page): Promise<string[]> {
@@ -16,4 +17,20 @@ export function demoAccount(role: string): (typeof DEMO_ACCOUNTS)[number] {
   const account = DEMO_ACCOUNTS.find((candidate) => candidate.role === role);
   if (!account) throw new Error(`no demo ${role}`);
   return account;
+}
+
+/** Nothing may overflow sideways at phone width (common practice, no source). */
+export async function expectNoSidewaysOverflow(page: Page, what: string): Promise<void> {
+  const overflow = await page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
+  expect(overflow, `${what} overflows by ${overflow}px`).to.be.at.most(0);
+}
+
+/** Signs a demo account in through the sign-in page and lands on `next`, as someone following a link does. */
+export async function signInThroughPage(page: Page, baseUrl: string, role: string, next: string): Promise<void> {
+  const account = demoAccount(role);
+  await page.goto(`${baseUrl}/sign-in?next=${encodeURIComponent(next)}`);
+  await page.getByLabel('E-mail').fill(account.email);
+  await page.getByLabel('Password').fill(DEMO_PASSWORD);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL((url) => url.pathname + url.search === next);
 }
