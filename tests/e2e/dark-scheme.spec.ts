@@ -52,7 +52,7 @@ describe('e2e: the dark colour scheme', function () {
     await page.locator('h1').first().waitFor();
     const background = await page.evaluate(() => getComputedStyle(document.body).backgroundColor);
     const [r, g, b] = (background.match(/\d+/g) ?? []).map(Number);
-    // a dark surface: relative luminance well under that of mid-grey (WCAG 2.1 definition of relative luminance)
+    // a dark surface: luma (ITU-R BT.709 weights on the sRGB values) under a quarter of full scale (common practice, no source)
     expect(0.2126 * r + 0.7152 * g + 0.0722 * b, background).to.be.below(64);
     await check(page, 'home');
   });

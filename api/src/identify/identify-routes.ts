@@ -4,7 +4,8 @@ import type { EditionCatalog } from '../editions/edition-catalog';
 import { cachePolicy } from '../http/caching';
 import { sendJsonBytes } from '../http/json-bytes';
 import { IdentifyBusy, type IdentifyPool } from './identify-pool';
-import { identify, type IdentifyRequest } from './identify-service';
+import type { IdentifyRequest } from './identify-answer';
+import { identify } from './identify-service';
 
 export interface IdentifyRouteOptions {
   /** answer on worker threads; without it, on the request thread */

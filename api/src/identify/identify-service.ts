@@ -4,8 +4,6 @@ import { problems, type InvalidParam } from '../http/problem';
 import { identifyAnswer, type IdentifyRequest } from './identify-answer';
 import type { IdentifyPool } from './identify-pool';
 
-export { IDENTIFY_DEFAULTS, type CandidateView, type IdentifyAnswer, type IdentifyRequest } from './identify-answer';
-
 /** Where an observation problem sits, as a JSON pointer into the request (the validator's own form: `/body/...`). */
 function pointerOf(problem: ObservationProblem): string {
   const base = `/body/observations/${problem.index}`;
