@@ -269,7 +269,10 @@ describe('e2e: Second look and raising a query', function () {
     await low.fill('30');
     await page.getByLabel('Reason').fill('Demo: typed out of order on purpose.');
     await page.getByRole('button', { name: 'Recode…' }).click();
-    expect(await page.getByRole('alert').filter({ hasText: 'The range must read' }).count()).to.equal(1);
+    // the refusal shows on the page's next render: wait for it, then check there is exactly one
+    const refusal = page.getByRole('alert').filter({ hasText: 'The range must read' });
+    await refusal.first().waitFor();
+    expect(await refusal.count()).to.equal(1);
     expect(await page.getByRole('dialog').count()).to.equal(0);
     await expectNoSidewaysOverflow(page, 'the numeric recode editor');
     await shoot(page, 'recode-numeric-dark-phone');
