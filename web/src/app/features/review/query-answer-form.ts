@@ -5,18 +5,7 @@ import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/for
 import { MatInput } from '@angular/material/input';
 import { type CellQuery, QueryService } from '../../core/api/query-service';
 import { FormSubmission } from '../../core/forms/form-submission';
-import { ApiProblem } from '../../core/http/api-problem';
-
-/** What a reviewer's action left behind: the query as it is now, and a sentence saying so. */
-export interface QueryWorked {
-  query: CellQuery;
-  notice: string;
-}
-
-/** Tells the page when a refusal means someone else moved the query on, so it shows it afresh. */
-export function movedOn(error: unknown): boolean {
-  return error instanceof ApiProblem && error.status === 409;
-}
+import { type QueryWorked, movedOn } from './query-worked';
 
 /** A reviewer answers a query with evidence; answering again replaces the answer. */
 @Component({

@@ -12,9 +12,10 @@ import { EditionService } from '../../core/edition/edition-service';
 import { type CellQuery, QueryService } from '../../core/api/query-service';
 import { ApiProblem, readableError } from '../../core/http/api-problem';
 import { describeCell } from '../../shared/matrix-words';
-import { QueryAnswerForm, type QueryWorked } from './query-answer-form';
+import { QueryAnswerForm } from './query-answer-form';
 import { QuerySettle } from './query-settle';
 import { QueryRecode, type WorkingCell } from './query-recode';
+import type { QueryWorked } from './query-worked';
 import { STATE_LABELS, actionWords, ageOf, outcomeWords, queryCellWords, raiserName, whenOf, worksSecondLook } from './review-words';
 
 type PageState = { status: 'loading' } | { status: 'ready'; query: CellQuery } | { status: 'error'; message: string; notFound: boolean };

@@ -12,7 +12,7 @@ import { CellEditor } from '../../shared/cell-editor';
 import type { CellTrait } from '../../shared/cell-form';
 import { describeCell } from '../../shared/matrix-words';
 import { confirmQuery } from './confirm-query-dialog';
-import { type QueryWorked, movedOn } from './query-answer-form';
+import { type QueryWorked, movedOn } from './query-worked';
 import type { QueryCellWords } from './review-words';
 
 /** The working-matrix cell as read for the recode: read with its version, or not read (the request failed). */

@@ -7,7 +7,7 @@ import { MatInput } from '@angular/material/input';
 import { type CellQuery, QueryService } from '../../core/api/query-service';
 import { FormSubmission } from '../../core/forms/form-submission';
 import { confirmQuery } from './confirm-query-dialog';
-import { type QueryWorked, movedOn } from './query-answer-form';
+import { type QueryWorked, movedOn } from './query-worked';
 import type { QueryCellWords } from './review-words';
 
 /** A reviewer settles an answered query, keeping the cell, after confirming. */
