@@ -19,7 +19,7 @@ export default tseslint.config(
     },
   },
   {
-    files: ['tests/**/*.ts'],
+    files: ['tests/**/*.ts', 'web/**/*.spec.ts'],
     rules: {
       // chai's property assertions (`expect(x).to.be.true`) read as unused expressions
       '@typescript-eslint/no-unused-expressions': 'off',

@@ -1,8 +1,7 @@
 import { expect } from 'chai';
 import { AxeBuilder } from '@axe-core/playwright';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { launchBrowser, requireChromium } from './support/browser';
-import { startBuiltApp, type RunningApp } from './support/server';
+import type { BrowserContext, Page } from 'playwright-core';
+import { browserSuite } from './support/harness';
 import { mailedLinkPath } from './support/mail';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 
@@ -24,24 +23,8 @@ const squash = (text: string | null) => (text ?? '').replace(/\s+/g, ' ').trim()
 
 describe('e2e: password resets and invitations', function () {
   this.timeout(90_000);
-  let browser: Browser;
-  let running: RunningApp;
+  const running = browserSuite();
   let context: BrowserContext;
-
-  before(async function () {
-    requireChromium(this);
-    running = await startBuiltApp();
-    browser = await launchBrowser();
-  });
-
-  afterEach(async () => {
-    await context?.close();
-  });
-
-  after(async () => {
-    await browser?.close();
-    await running?.stop();
-  });
 
   async function signUpLearner(page: Page, email: string, password: string): Promise<void> {
     const res = await page.request.post(`${running.baseUrl}/api/v1/accounts`, { data: { email, password, displayName: 'Juniper Ashdown' } });
@@ -62,7 +45,7 @@ describe('e2e: password resets and invitations', function () {
   }
 
   it('mails a reset link that sets a new password once, then explains that the link is used', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: { width: 360, height: 740 } });
+    context = await running.newContext({ serviceWorkers: 'block', viewport: { width: 360, height: 740 } });
     const page = await context.newPage();
     const email = uniqueEmail('juniper');
     await signUpLearner(page, email, 'the first long password');
@@ -116,7 +99,7 @@ describe('e2e: password resets and invitations', function () {
   });
 
   it('answers an address without an account exactly as one with an account', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block' });
+    context = await running.newContext({ serviceWorkers: 'block' });
     const page = await context.newPage();
     const known = uniqueEmail('known');
     await signUpLearner(page, known, 'a long enough password');
@@ -127,7 +110,7 @@ describe('e2e: password resets and invitations', function () {
   });
 
   it('accepts an admin invitation in the browser, signs the new coach in, and refuses the link after', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: { width: 360, height: 740 } });
+    context = await running.newContext({ serviceWorkers: 'block', viewport: { width: 360, height: 740 } });
     const page = await context.newPage();
     const admin = DEMO_ACCOUNTS.find((account) => account.role === 'admin');
     if (!admin) throw new Error('no demo admin');
@@ -173,7 +156,7 @@ describe('e2e: password resets and invitations', function () {
   });
 
   it('the reset page has no serious or critical axe violations and fits 360 px, with and without errors', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: { width: 360, height: 740 } });
+    context = await running.newContext({ serviceWorkers: 'block', viewport: { width: 360, height: 740 } });
     const page = await context.newPage();
     await page.goto(`${running.baseUrl}/account/reset-password/svl_not-a-real-token`);
     await page.getByRole('heading', { name: 'Choose a new password' }).waitFor();

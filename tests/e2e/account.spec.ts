@@ -1,30 +1,16 @@
 import { expect } from 'chai';
 import sharp from 'sharp';
-import type { Browser } from 'playwright-core';
-import { launchBrowser, requireChromium } from './support/browser';
 import { demoAccount } from './support/checks';
-import { startBuiltApp, type RunningApp } from './support/server';
+import { browserSuite } from './support/harness';
 import { waitForSift } from './support/sift-page';
 import { DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 
 describe('e2e: accounts and edition updates', function () {
   this.timeout(90_000);
-  let browser: Browser;
-  let running: RunningApp;
-
-  before(async function () {
-    requireChromium(this);
-    running = await startBuiltApp();
-    browser = await launchBrowser();
-  });
-
-  after(async () => {
-    await browser?.close();
-    await running?.stop();
-  });
+  const running = browserSuite();
 
   it('guards the account page, signs up a learner, shows who is signed in and signs out', async () => {
-    const context = await browser.newContext({ serviceWorkers: 'block' });
+    const context = await running.newContext({ serviceWorkers: 'block' });
     const page = await context.newPage();
     await page.goto(`${running.baseUrl}/account`);
     await page.waitForURL(/\/sign-in\?next=%2Faccount$/);
@@ -60,7 +46,7 @@ describe('e2e: accounts and edition updates', function () {
 
   it('keeps the session across a reload, offline too, and forgets it once the server has ended it', async () => {
     const coach = demoAccount('coach');
-    const context = await browser.newContext({ serviceWorkers: 'block' });
+    const context = await running.newContext({ serviceWorkers: 'block' });
     const page = await context.newPage();
     await page.goto(`${running.baseUrl}/sign-in?next=${encodeURIComponent('/account')}`);
     await page.getByLabel('E-mail').fill(coach.email);
@@ -101,7 +87,7 @@ describe('e2e: accounts and edition updates', function () {
   });
 
   it('refuses a wrong password with a readable message and signs a curator in', async () => {
-    const context = await browser.newContext({ serviceWorkers: 'block' });
+    const context = await running.newContext({ serviceWorkers: 'block' });
     const page = await context.newPage();
     const curator = demoAccount('curator');
     await page.goto(`${running.baseUrl}/sign-in`);
@@ -122,7 +108,7 @@ describe('e2e: accounts and edition updates', function () {
   });
 
   it('offers a newly published edition to an open sift and loads it', async () => {
-    const context = await browser.newContext({ serviceWorkers: 'block', viewport: { width: 1280, height: 900 } });
+    const context = await running.newContext({ serviceWorkers: 'block', viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
     await page.goto(`${running.baseUrl}/sift?o=needles-per-fascicle:5&season=leaf-on&leeway=2`);
     await waitForSift(page);
@@ -153,7 +139,7 @@ describe('e2e: accounts and edition updates', function () {
   });
 
   it('shows a photo a curator attached on the species page', async () => {
-    const context = await browser.newContext({ serviceWorkers: 'block', viewport: { width: 1280, height: 900 } });
+    const context = await running.newContext({ serviceWorkers: 'block', viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
     const curator = demoAccount('curator');
     const session = await page.request.post(`${running.baseUrl}/api/v1/sessions`, { data: { email: curator.email, password: DEMO_PASSWORD } });

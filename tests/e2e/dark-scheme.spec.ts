@@ -1,10 +1,10 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { expect } from 'chai';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { launchBrowser, requireChromium } from './support/browser';
+import type { BrowserContext, Page } from 'playwright-core';
 import { demoAccount, seriousViolations } from './support/checks';
-import { SCREENSHOT_DIR, startBuiltApp, type RunningApp } from './support/server';
+import { browserSuite } from './support/harness';
+import { SCREENSHOT_DIR } from './support/server';
 import { openPart, waitForSift } from './support/sift-page';
 import { DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 import { DEMO_STUDY_SET } from '../../api/src/db/seeders/0003-demo-study-set';
@@ -16,27 +16,11 @@ import { DEMO_STUDY_SET } from '../../api/src/db/seeders/0003-demo-study-set';
  */
 describe('e2e: the dark colour scheme', function () {
   this.timeout(120_000);
-  let browser: Browser;
-  let running: RunningApp;
+  const running = browserSuite();
   let context: BrowserContext;
 
-  before(async function () {
-    requireChromium(this);
-    running = await startBuiltApp();
-    browser = await launchBrowser();
-  });
-
-  afterEach(async () => {
-    await context?.close();
-  });
-
-  after(async () => {
-    await browser?.close();
-    await running?.stop();
-  });
-
   async function darkPage(width: number): Promise<Page> {
-    context = await browser.newContext({ viewport: { width, height: 900 }, colorScheme: 'dark', serviceWorkers: 'block' });
+    context = await running.newContext({ viewport: { width, height: 900 }, colorScheme: 'dark', serviceWorkers: 'block' });
     return context.newPage();
   }
 

@@ -3,9 +3,9 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { expect } from 'chai';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { launchBrowser, requireChromium } from './support/browser';
-import { WEB_ROOT, startBuiltApp, type RunningApp } from './support/server';
+import type { BrowserContext, Page } from 'playwright-core';
+import { browserSuite } from './support/harness';
+import { WEB_ROOT } from './support/server';
 import { openPart, seenSoFar, tapChip, waitForLeader, waitForSift } from './support/sift-page';
 
 /** Waits until a service worker controls the page and has the edition bundle in its data cache. */
@@ -40,24 +40,12 @@ async function waitForOfflineReady(page: Page): Promise<void> {
 
 describe('e2e: sifting offline', function () {
   this.timeout(90_000);
-  let browser: Browser;
-  let running: RunningApp;
+  const running = browserSuite();
   let context: BrowserContext;
 
-  before(async function () {
-    requireChromium(this);
-    running = await startBuiltApp();
-    browser = await launchBrowser();
-  });
-
-  after(async () => {
-    await context?.close();
-    await browser?.close();
-    await running?.stop();
-  });
-
   it('is installable: a manifest with our icons and a service worker', async () => {
-    context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    // the next test goes on offline in this same context, with its service worker installed
+    context = await running.suiteContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
     await page.goto(`${running.baseUrl}/sift`);
     await waitForSift(page);
@@ -108,27 +96,23 @@ describe('e2e: sifting offline', function () {
 
 describe('e2e: a new build of the app', function () {
   this.timeout(90_000);
-  let browser: Browser;
-  let running: RunningApp;
   let webRoot: string;
-
-  before(async function () {
-    requireChromium(this);
-    // A copy of the built app that the test can "redeploy" while a browser has the old one.
-    webRoot = fs.mkdtempSync(path.join(os.tmpdir(), 'sylvasift-web-'));
-    fs.cpSync(WEB_ROOT, webRoot, { recursive: true });
-    running = await startBuiltApp({ WEB_ROOT: webRoot });
-    browser = await launchBrowser();
+  const running = browserSuite({
+    env: () => {
+      // A copy of the built app that the test can "redeploy" while a browser has the old one.
+      webRoot = fs.mkdtempSync(path.join(os.tmpdir(), 'sylvasift-web-'));
+      fs.cpSync(WEB_ROOT, webRoot, { recursive: true });
+      return { WEB_ROOT: webRoot };
+    },
   });
 
-  after(async () => {
-    await browser?.close();
-    await running?.stop();
+  // after the suite's own teardown, which stops the app serving this copy
+  after(() => {
     if (webRoot) fs.rmSync(webRoot, { recursive: true, force: true });
   });
 
   it('is offered to a page running the old one, which reloads into it', async () => {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const context = await running.newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
     await page.goto(`${running.baseUrl}/sift`);
     await waitForSift(page);

@@ -2,10 +2,9 @@ import fs from 'node:fs';
 import path from 'node:path';
 import zlib from 'node:zlib';
 import { expect } from 'chai';
-import type { Browser } from 'playwright-core';
-import { launchBrowser, requireChromium } from './support/browser';
 import { seriousViolations } from './support/checks';
-import { SCREENSHOT_DIR, WEB_ROOT, startBuiltApp, type RunningApp } from './support/server';
+import { browserSuite } from './support/harness';
+import { SCREENSHOT_DIR, WEB_ROOT } from './support/server';
 import { openPart, tapChip, waitForSift } from './support/sift-page';
 
 function median(values: number[]): number {
@@ -16,22 +15,10 @@ function median(values: number[]): number {
 
 describe('e2e: accessibility and performance', function () {
   this.timeout(90_000);
-  let browser: Browser;
-  let running: RunningApp;
-
-  before(async function () {
-    requireChromium(this);
-    running = await startBuiltApp();
-    browser = await launchBrowser();
-  });
-
-  after(async () => {
-    await browser?.close();
-    await running?.stop();
-  });
+  const running = browserSuite();
 
   it('the sift page has no serious or critical axe violations, with chips chosen and reasons open', async () => {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
+    const context = await running.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
     const page = await context.newPage();
     await page.goto(`${running.baseUrl}/sift?o=needles-per-fascicle:3;needle-length:6in&season=leaf-on&leeway=2`);
     await waitForSift(page);
@@ -53,7 +40,7 @@ describe('e2e: accessibility and performance', function () {
   });
 
   it('the species page has no serious or critical axe violations and shows its cautions', async () => {
-    const context = await browser.newContext({ viewport: { width: 390, height: 844 }, serviceWorkers: 'block' });
+    const context = await running.newContext({ viewport: { width: 390, height: 844 }, serviceWorkers: 'block' });
     const page = await context.newPage();
     await page.goto(`${running.baseUrl}/species/pinus-taeda`);
     await page.locator('h1', { hasText: 'Loblolly pine' }).waitFor();
@@ -83,7 +70,7 @@ describe('e2e: accessibility and performance', function () {
   });
 
   it('runs the engine in well under a frame per chip change and keeps the initial JavaScript small', async () => {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
+    const context = await running.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
     const page = await context.newPage();
     await page.goto(`${running.baseUrl}/sift?season=leaf-on&leeway=2`);
     await waitForSift(page);

@@ -1,10 +1,9 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { expect } from 'chai';
-import type { APIRequestContext, Browser, BrowserContext, Page } from 'playwright-core';
-import { launchBrowser, requireChromium } from './support/browser';
+import type { APIRequestContext, BrowserContext, Page } from 'playwright-core';
 import { demoAccount, expectNoSidewaysOverflow, seriousViolations, signInThroughPage as signIn } from './support/checks';
-import { startBuiltApp, type RunningApp } from './support/server';
+import { browserSuite } from './support/harness';
 import { DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 
 /** Screens of this suite, at phone and desktop widths, for a person to look at after a run. */
@@ -45,31 +44,15 @@ async function tokenFor(request: APIRequestContext, baseUrl: string, role: strin
 
 describe('e2e: Second look and raising a query', function () {
   this.timeout(180_000);
-  let browser: Browser;
-  let running: RunningApp;
+  const running = browserSuite();
   let context: BrowserContext;
   /** the query the learner raises in the first test, answered in the second */
   let raisedId = 0;
   /** the words the species page shows for that cell */
   let raisedWords = '';
 
-  before(async function () {
-    requireChromium(this);
-    running = await startBuiltApp();
-    browser = await launchBrowser();
-  });
-
-  afterEach(async () => {
-    await context?.close();
-  });
-
-  after(async () => {
-    await browser?.close();
-    await running?.stop();
-  });
-
   it('a visitor is offered sign-in; a learner flags a value from a species page and follows the query', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: PHONE });
+    context = await running.newContext({ serviceWorkers: 'block', viewport: PHONE });
     const page = await context.newPage();
     const pageErrors: string[] = [];
     page.on('pageerror', (error) => pageErrors.push(error.message));
@@ -150,7 +133,7 @@ describe('e2e: Second look and raising a query', function () {
 
   it('the reviewer finds the query in Second look, answers it with evidence and settles it, keeping the cell', async () => {
     expect(raisedId, 'the first test raised a query').to.be.greaterThan(0);
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: DESKTOP });
+    context = await running.newContext({ serviceWorkers: 'block', viewport: DESKTOP });
     const page = await context.newPage();
     const pageErrors: string[] = [];
     page.on('pageerror', (error) => pageErrors.push(error.message));
@@ -240,7 +223,7 @@ describe('e2e: Second look and raising a query', function () {
   });
 
   it('in the dark, an admin recoding a numeric range reads the cell version, and an out-of-order range is refused before anything is sent', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: PHONE, colorScheme: 'dark' });
+    context = await running.newContext({ serviceWorkers: 'block', viewport: PHONE, colorScheme: 'dark' });
     const page = await context.newPage();
     const learnerToken = await tokenFor(page.request, running.baseUrl, 'learner');
     const raised = await page.request.post(`${running.baseUrl}/api/v1/queries`, {
@@ -283,7 +266,7 @@ describe('e2e: Second look and raising a query', function () {
   });
 
   it('the reviewer recodes a seeded query; a stale recode shows the cell as it is now and keeps the change', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: PHONE });
+    context = await running.newContext({ serviceWorkers: 'block', viewport: PHONE });
     const page = await context.newPage();
     const pageErrors: string[] = [];
     page.on('pageerror', (error) => pageErrors.push(error.message));

@@ -1,28 +1,15 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { expect } from 'chai';
-import type { Browser } from 'playwright-core';
-import { launchBrowser, requireChromium } from './support/browser';
-import { SCREENSHOT_DIR, startBuiltApp, type RunningApp } from './support/server';
+import { browserSuite } from './support/harness';
+import { SCREENSHOT_DIR } from './support/server';
 
 describe('e2e: the app shell', function () {
   this.timeout(60_000);
-  let browser: Browser;
-  let running: RunningApp;
-
-  before(async function () {
-    requireChromium(this);
-    running = await startBuiltApp();
-    browser = await launchBrowser();
-  });
-
-  after(async () => {
-    await browser?.close();
-    await running?.stop();
-  });
+  const running = browserSuite();
 
   it('renders the top bar, navigation and safety footer with no console errors, fetching only from localhost', async () => {
-    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+    const page = await running.newPage({ viewport: { width: 1280, height: 800 } });
     const consoleErrors: string[] = [];
     const requests: string[] = [];
     page.on('console', (message) => {
@@ -63,7 +50,7 @@ describe('e2e: the app shell', function () {
   });
 
   it('answers deep links with the app (history fallback) and unknown API routes with a problem', async () => {
-    const page = await browser.newPage();
+    const page = await running.newPage();
     const response = await page.goto(`${running.baseUrl}/no/such/page`, { waitUntil: 'networkidle' });
     expect(response?.status()).to.equal(200);
     expect(await page.locator('h1').textContent()).to.equal('Page not found');

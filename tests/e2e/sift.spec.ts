@@ -1,29 +1,17 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { expect } from 'chai';
-import type { Browser, Page } from 'playwright-core';
-import { launchBrowser, requireChromium } from './support/browser';
-import { SCREENSHOT_DIR, startBuiltApp, type RunningApp } from './support/server';
+import type { Page } from 'playwright-core';
+import { browserSuite } from './support/harness';
+import { SCREENSHOT_DIR } from './support/server';
 import { measure, openPart, seenSoFar, shortlistIds, tapChip, waitForLeader, waitForSift } from './support/sift-page';
 
 describe('e2e: sifting a tree', function () {
   this.timeout(90_000);
-  let browser: Browser;
-  let running: RunningApp;
-
-  before(async function () {
-    requireChromium(this);
-    running = await startBuiltApp();
-    browser = await launchBrowser();
-  });
-
-  after(async () => {
-    await browser?.close();
-    await running?.stop();
-  });
+  const running = browserSuite();
 
   async function freshSiftPage(query = ''): Promise<{ page: Page; errors: string[] }> {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
+    const context = await running.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
     const page = await context.newPage();
     const errors: string[] = [];
     page.on('pageerror', (error) => errors.push(error.message));
@@ -194,7 +182,7 @@ describe('e2e: sifting a tree', function () {
   });
 
   it('shows the loading, download-failed and no-match states', async () => {
-    const context = await browser.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
+    const context = await running.newContext({ viewport: { width: 1280, height: 900 }, serviceWorkers: 'block' });
     const page = await context.newPage();
     let failing = true;
     let release: () => void = () => undefined;
@@ -230,7 +218,7 @@ describe('e2e: sifting a tree', function () {
       ['sift-phone', { width: 360, height: 740 }],
       ['sift-desktop', { width: 1280, height: 900 }],
     ] as const) {
-      const context = await browser.newContext({ viewport, serviceWorkers: 'block' });
+      const context = await running.newContext({ viewport, serviceWorkers: 'block' });
       const page = await context.newPage();
       await page.goto(`${running.baseUrl}/sift?o=needles-per-fascicle:3;needle-length:6in&season=leaf-on&leeway=2`);
       await waitForSift(page);

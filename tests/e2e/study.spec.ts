@@ -1,10 +1,9 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { expect } from 'chai';
-import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { launchBrowser, requireChromium } from './support/browser';
+import type { BrowserContext, Page } from 'playwright-core';
 import { demoAccount, expectNoSidewaysOverflow, seriousViolations, signInThroughPage as signIn } from './support/checks';
-import { startBuiltApp, type RunningApp } from './support/server';
+import { browserSuite } from './support/harness';
 import { DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 import { DEMO_STUDY_SET } from '../../api/src/db/seeders/0003-demo-study-set';
 
@@ -65,27 +64,11 @@ async function revealedAnswer(page: Page): Promise<string> {
 
 describe('e2e: study sets and drills', function () {
   this.timeout(120_000);
-  let browser: Browser;
-  let running: RunningApp;
+  const running = browserSuite();
   let context: BrowserContext;
 
-  before(async function () {
-    requireChromium(this);
-    running = await startBuiltApp();
-    browser = await launchBrowser();
-  });
-
-  afterEach(async () => {
-    await context?.close();
-  });
-
-  after(async () => {
-    await browser?.close();
-    await running?.stop();
-  });
-
   it('a coach makes a set of three species, drills it with a fixed seed, and deletes it after confirming', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: DESKTOP });
+    context = await running.newContext({ serviceWorkers: 'block', viewport: DESKTOP });
     const page = await context.newPage();
     const pageErrors: string[] = [];
     page.on('pageerror', (error) => pageErrors.push(error.message));
@@ -292,7 +275,7 @@ describe('e2e: study sets and drills', function () {
   });
 
   it('a learner is told what study sets are for, and opens and drills a shared set from its link', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: PHONE });
+    context = await running.newContext({ serviceWorkers: 'block', viewport: PHONE });
     const page = await context.newPage();
     await signIn(page, running.baseUrl, 'learner', '/study');
     const explain = page.locator('.explain');
@@ -347,7 +330,7 @@ describe('e2e: study sets and drills', function () {
   });
 
   it('the coach screens fit a 360 px phone', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: PHONE });
+    context = await running.newContext({ serviceWorkers: 'block', viewport: PHONE });
     const page = await context.newPage();
     await signIn(page, running.baseUrl, 'coach', '/study');
     const demoCard = page.locator('.set-card', { hasText: DEMO_STUDY_SET.name });
@@ -366,7 +349,7 @@ describe('e2e: study sets and drills', function () {
   });
 
   it('asks before leaving the editor with unsaved changes, and keeps them when the coach stays', async () => {
-    context = await browser.newContext({ serviceWorkers: 'block', viewport: DESKTOP });
+    context = await running.newContext({ serviceWorkers: 'block', viewport: DESKTOP });
     const page = await context.newPage();
     const pageErrors: string[] = [];
     page.on('pageerror', (error) => pageErrors.push(error.message));

@@ -1,10 +1,10 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { DatePipe } from '@angular/common';
 import { Router, RouterLink } from '@angular/router';
 import { MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { AuthService } from '../../core/auth/auth-service';
-import { readableError } from '../../core/http/api-problem';
+import { FormSubmission } from '../../core/forms/form-submission';
 
 @Component({
   selector: 'sv-account-page',
@@ -21,7 +21,7 @@ import { readableError } from '../../core/http/api-problem';
         }
       </dl>
       <p>Study sets, study sheets and drills are under <a routerLink="/study">Study</a>. @if (me.role === 'reviewer' || me.role === 'admin') {Queries on doubtful values wait for an answer in <a routerLink="/review">Second look</a>.} @else {The queries you raise on doubtful values, from a species page, are under <a routerLink="/review">Your queries</a>.} Curating the matrix has no pages yet: curators do that through the <a href="/api/docs">API</a>.</p>
-    } @else if (problem(); as message) {
+    } @else if (loading.problem(); as message) {
       <p class="problem" role="alert">{{ message }}</p>
     } @else {
       <mat-progress-bar mode="indeterminate" aria-label="Loading your account" />
@@ -57,10 +57,11 @@ import { readableError } from '../../core/http/api-problem';
 export default class AccountPage {
   protected readonly auth = inject(AuthService);
   readonly #router = inject(Router);
-  protected readonly problem = signal<string | null>(null);
+  /** reading the account afresh: its failure is shown in place of the facts */
+  protected readonly loading = new FormSubmission();
 
   constructor() {
-    this.auth.refreshMe().subscribe({ error: (error: unknown) => this.problem.set(readableError(error)) });
+    this.loading.run(() => this.auth.refreshMe());
   }
 
   protected signOut(): void {

@@ -5,7 +5,7 @@ import { MatFormField, MatLabel, MatError } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
 import { MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
-import { readableError } from '../../core/http/api-problem';
+import { FormSubmission } from '../../core/forms/form-submission';
 import { AccountLinksService } from './account-links-service';
 
 @Component({
@@ -32,16 +32,18 @@ import { AccountLinksService } from './account-links-service';
             <mat-error>Enter your e-mail address.</mat-error>
           } @else if (form.controls.email.hasError('email')) {
             <mat-error>That does not look like an e-mail address.</mat-error>
+          } @else if (form.controls.email.hasError('server')) {
+            <mat-error>{{ form.controls.email.getError('server') }}</mat-error>
           }
         </mat-form-field>
-        @if (busy()) {
+        @if (submission.busy()) {
           <mat-progress-bar mode="indeterminate" aria-label="Sending the link" />
         }
-        @if (problem(); as message) {
+        @if (submission.problem(); as message) {
           <p class="problem" role="alert">{{ message }}</p>
         }
         <div class="actions">
-          <button mat-flat-button type="submit" [disabled]="busy()">Send the link</button>
+          <button mat-flat-button type="submit" [disabled]="submission.busy()">Send the link</button>
           <a routerLink="/sign-in">Back to sign in</a>
         </div>
       </form>
@@ -60,28 +62,18 @@ export default class ForgotPasswordPage {
     email: ['', [Validators.required, Validators.email]],
   });
   protected readonly sent = signal(false);
-  protected readonly problem = signal<string | null>(null);
-  protected readonly busy = signal(false);
+  protected readonly submission = new FormSubmission();
 
   protected requestLink(): void {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.problem.set(null);
-    this.#links.requestPasswordReset(this.form.controls.email.value.trim()).subscribe({
-      next: () => {
-        this.busy.set(false);
+    this.submission.submit(
+      this.form,
+      () => this.#links.requestPasswordReset(this.form.controls.email.value.trim()),
+      () => {
         this.sent.set(true);
         // Keyboard and screen-reader users land on the answer rather than on a vanished button.
         afterNextRender(() => this.sentNotice()?.nativeElement.focus(), { injector: this.#injector });
       },
-      error: (error: unknown) => {
-        this.problem.set(readableError(error));
-        this.busy.set(false);
-      },
-    });
+    );
   }
 
   protected askAgain(): void {

@@ -7,7 +7,7 @@ import { MatInput } from '@angular/material/input';
 import { MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { AuthService } from '../../core/auth/auth-service';
-import { readableError } from '../../core/http/api-problem';
+import { FormSubmission } from '../../core/forms/form-submission';
 import { AccountLinksService, isLinkNotValid } from './account-links-service';
 import { MAX_PASSWORD, MIN_PASSWORD } from './new-password';
 
@@ -32,6 +32,8 @@ import { MAX_PASSWORD, MIN_PASSWORD } from './new-password';
           <input matInput formControlName="displayName" autocomplete="name" required maxlength="120" />
           @if (form.controls.displayName.hasError('required') || form.controls.displayName.hasError('pattern')) {
             <mat-error>Enter a name.</mat-error>
+          } @else if (form.controls.displayName.hasError('server')) {
+            <mat-error>{{ form.controls.displayName.getError('server') }}</mat-error>
           }
         </mat-form-field>
         <mat-form-field appearance="outline">
@@ -42,16 +44,18 @@ import { MAX_PASSWORD, MIN_PASSWORD } from './new-password';
             <mat-error>Choose a password.</mat-error>
           } @else if (form.controls.password.hasError('minlength')) {
             <mat-error>Use at least {{ minPassword }} characters.</mat-error>
+          } @else if (form.controls.password.hasError('server')) {
+            <mat-error>{{ form.controls.password.getError('server') }}</mat-error>
           }
         </mat-form-field>
-        @if (busy()) {
+        @if (submission.busy()) {
           <mat-progress-bar mode="indeterminate" aria-label="Creating your account" />
         }
-        @if (problem(); as message) {
+        @if (submission.problem(); as message) {
           <p class="problem" role="alert">{{ message }}</p>
         }
         <div class="actions">
-          <button mat-flat-button type="submit" [disabled]="busy()">Create my account</button>
+          <button mat-flat-button type="submit" [disabled]="submission.busy()">Create my account</button>
         </div>
       </form>
     }
@@ -75,34 +79,30 @@ export default class InvitationPage {
     password: ['', [Validators.required, Validators.minLength(MIN_PASSWORD), Validators.maxLength(MAX_PASSWORD)]],
   });
   protected readonly linkGone = signal(false);
-  protected readonly problem = signal<string | null>(null);
-  protected readonly busy = signal(false);
+  protected readonly submission = new FormSubmission();
 
   protected acceptInvitation(): void {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.problem.set(null);
-    const { displayName, password } = this.form.getRawValue();
     let accepted = false;
-    this.#links
-      .acceptInvitation(this.token(), { displayName: displayName.trim(), password })
-      .pipe(
-        tap(() => (accepted = true)),
-        // accepting signs the new account in: keep that session rather than open a second one
-        switchMap((account) => this.#auth.adoptSession(account.session)),
-      )
-      .subscribe({
-        next: () => void this.#router.navigateByUrl('/account'),
-        error: (error: unknown) => {
+    this.submission.submit(
+      this.form,
+      () => {
+        const { displayName, password } = this.form.getRawValue();
+        return this.#links.acceptInvitation(this.token(), { displayName: displayName.trim(), password }).pipe(
+          tap(() => (accepted = true)),
+          // accepting signs the new account in: keep that session rather than open a second one
+          switchMap((account) => this.#auth.adoptSession(account.session)),
+        );
+      },
+      () => void this.#router.navigateByUrl('/account'),
+      {
+        onError: (error) => {
           // The account exists once the invitation is accepted; only taking over its session failed.
           if (accepted) void this.#router.navigate(['/sign-in'], { queryParams: { done: 'invitation' } });
           else if (isLinkNotValid(error)) this.linkGone.set(true);
-          else this.problem.set(readableError(error));
-          this.busy.set(false);
+          else return false;
+          return true;
         },
-      });
+      },
+    );
   }
 }

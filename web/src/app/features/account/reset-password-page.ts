@@ -5,7 +5,7 @@ import { MatFormField, MatLabel, MatError, MatHint } from '@angular/material/for
 import { MatInput } from '@angular/material/input';
 import { MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
-import { readableError } from '../../core/http/api-problem';
+import { FormSubmission } from '../../core/forms/form-submission';
 import { AccountLinksService, isLinkNotValid } from './account-links-service';
 import { MAX_PASSWORD, MIN_PASSWORD, matchesSibling } from './new-password';
 
@@ -34,6 +34,8 @@ import { MAX_PASSWORD, MIN_PASSWORD, matchesSibling } from './new-password';
             <mat-error>Choose a password.</mat-error>
           } @else if (form.controls.password.hasError('minlength')) {
             <mat-error>Use at least {{ minPassword }} characters.</mat-error>
+          } @else if (form.controls.password.hasError('server')) {
+            <mat-error>{{ form.controls.password.getError('server') }}</mat-error>
           }
         </mat-form-field>
         <mat-form-field appearance="outline">
@@ -45,14 +47,14 @@ import { MAX_PASSWORD, MIN_PASSWORD, matchesSibling } from './new-password';
             <mat-error>The two passwords are not the same.</mat-error>
           }
         </mat-form-field>
-        @if (busy()) {
+        @if (submission.busy()) {
           <mat-progress-bar mode="indeterminate" aria-label="Saving the new password" />
         }
-        @if (problem(); as message) {
+        @if (submission.problem(); as message) {
           <p class="problem" role="alert">{{ message }}</p>
         }
         <div class="actions">
-          <button mat-flat-button type="submit" [disabled]="busy()">Set new password</button>
+          <button mat-flat-button type="submit" [disabled]="submission.busy()">Set new password</button>
           <a routerLink="/sign-in">Back to sign in</a>
         </div>
       </form>
@@ -76,27 +78,24 @@ export default class ResetPasswordPage {
     confirmation: ['', [Validators.required, matchesSibling('password')]],
   });
   protected readonly linkGone = signal(false);
-  protected readonly problem = signal<string | null>(null);
-  protected readonly busy = signal(false);
+  protected readonly submission = new FormSubmission();
 
   protected recheckConfirmation(): void {
     this.form.controls.confirmation.updateValueAndValidity();
   }
 
   protected setPassword(): void {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.problem.set(null);
-    this.#links.resetPassword(this.token(), { password: this.form.controls.password.value }).subscribe({
-      next: () => void this.#router.navigate(['/sign-in'], { queryParams: { done: 'reset' } }),
-      error: (error: unknown) => {
-        if (isLinkNotValid(error)) this.linkGone.set(true);
-        else this.problem.set(readableError(error));
-        this.busy.set(false);
+    this.submission.submit(
+      this.form,
+      () => this.#links.resetPassword(this.token(), { password: this.form.controls.password.value }),
+      () => void this.#router.navigate(['/sign-in'], { queryParams: { done: 'reset' } }),
+      {
+        onError: (error) => {
+          if (!isLinkNotValid(error)) return false;
+          this.linkGone.set(true);
+          return true;
+        },
       },
-    });
+    );
   }
 }

@@ -1,11 +1,11 @@
-import { ChangeDetectionStrategy, Component, computed, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, input } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { Router, RouterLink } from '@angular/router';
 import { MatFormField, MatLabel, MatError } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
 import { MatButton } from '@angular/material/button';
 import { AuthService } from '../../core/auth/auth-service';
-import { readableError } from '../../core/http/api-problem';
+import { FormSubmission } from '../../core/forms/form-submission';
 
 /** Only same-app paths are followed after sign-in, never another site. */
 export function safeNext(next: string | undefined): string {
@@ -34,6 +34,8 @@ const DONE_NOTICES: Readonly<Record<string, string>> = {
           <mat-error>Enter your e-mail address.</mat-error>
         } @else if (form.controls.email.hasError('email')) {
           <mat-error>That does not look like an e-mail address.</mat-error>
+        } @else if (form.controls.email.hasError('server')) {
+          <mat-error>{{ form.controls.email.getError('server') }}</mat-error>
         }
       </mat-form-field>
       <mat-form-field appearance="outline">
@@ -41,13 +43,15 @@ const DONE_NOTICES: Readonly<Record<string, string>> = {
         <input matInput type="password" formControlName="password" autocomplete="current-password" required />
         @if (form.controls.password.hasError('required')) {
           <mat-error>Enter your password.</mat-error>
+        } @else if (form.controls.password.hasError('server')) {
+          <mat-error>{{ form.controls.password.getError('server') }}</mat-error>
         }
       </mat-form-field>
-      @if (problem(); as message) {
+      @if (submission.problem(); as message) {
         <p class="problem" role="alert">{{ message }}</p>
       }
       <div class="actions">
-        <button mat-flat-button type="submit" [disabled]="busy()">Sign in</button>
+        <button mat-flat-button type="submit" [disabled]="submission.busy()">Sign in</button>
         <a routerLink="/forgot-password">Forgot your password?</a>
         <a routerLink="/sign-up">Create an account</a>
       </div>
@@ -72,22 +76,13 @@ export default class SignInPage {
     email: ['', [Validators.required, Validators.email]],
     password: ['', Validators.required],
   });
-  protected readonly problem = signal<string | null>(null);
-  protected readonly busy = signal(false);
+  protected readonly submission = new FormSubmission();
 
   protected signIn(): void {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.problem.set(null);
-    this.#auth.signIn(this.form.getRawValue()).subscribe({
-      next: () => void this.#router.navigateByUrl(safeNext(this.next())),
-      error: (error: unknown) => {
-        this.problem.set(readableError(error));
-        this.busy.set(false);
-      },
-    });
+    this.submission.submit(
+      this.form,
+      () => this.#auth.signIn(this.form.getRawValue()),
+      () => void this.#router.navigateByUrl(safeNext(this.next())),
+    );
   }
 }

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { Router, RouterLink } from '@angular/router';
 import { switchMap } from 'rxjs';
@@ -6,7 +6,7 @@ import { MatFormField, MatLabel, MatError, MatHint } from '@angular/material/for
 import { MatInput } from '@angular/material/input';
 import { MatButton } from '@angular/material/button';
 import { AuthService } from '../../core/auth/auth-service';
-import { ApiProblem, readableError } from '../../core/http/api-problem';
+import { FormSubmission } from '../../core/forms/form-submission';
 
 @Component({
   selector: 'sv-sign-up-page',
@@ -20,6 +20,8 @@ import { ApiProblem, readableError } from '../../core/http/api-problem';
         <input matInput formControlName="displayName" autocomplete="name" required maxlength="120" />
         @if (form.controls.displayName.hasError('required')) {
           <mat-error>Enter a name.</mat-error>
+        } @else if (form.controls.displayName.hasError('server')) {
+          <mat-error>{{ form.controls.displayName.getError('server') }}</mat-error>
         }
       </mat-form-field>
       <mat-form-field appearance="outline">
@@ -29,6 +31,8 @@ import { ApiProblem, readableError } from '../../core/http/api-problem';
           <mat-error>Enter your e-mail address.</mat-error>
         } @else if (form.controls.email.hasError('email')) {
           <mat-error>That does not look like an e-mail address.</mat-error>
+        } @else if (form.controls.email.hasError('server')) {
+          <mat-error>{{ form.controls.email.getError('server') }}</mat-error>
         }
       </mat-form-field>
       <mat-form-field appearance="outline">
@@ -39,13 +43,15 @@ import { ApiProblem, readableError } from '../../core/http/api-problem';
           <mat-error>Choose a password.</mat-error>
         } @else if (form.controls.password.hasError('minlength')) {
           <mat-error>Use at least {{ minPassword }} characters.</mat-error>
+        } @else if (form.controls.password.hasError('server')) {
+          <mat-error>{{ form.controls.password.getError('server') }}</mat-error>
         }
       </mat-form-field>
-      @if (problem(); as message) {
+      @if (submission.problem(); as message) {
         <p class="problem" role="alert">{{ message }}</p>
       }
       <div class="actions">
-        <button mat-flat-button type="submit" [disabled]="busy()">Create account</button>
+        <button mat-flat-button type="submit" [disabled]="submission.busy()">Create account</button>
         <a routerLink="/sign-in">I already have an account</a>
       </div>
     </form>
@@ -64,26 +70,16 @@ export default class SignUpPage {
     email: ['', [Validators.required, Validators.email]],
     password: ['', [Validators.required, Validators.minLength(this.minPassword)]],
   });
-  protected readonly problem = signal<string | null>(null);
-  protected readonly busy = signal(false);
+  protected readonly submission = new FormSubmission();
 
   protected signUp(): void {
-    if (this.form.invalid) {
-      this.form.markAllAsTouched();
-      return;
-    }
-    this.busy.set(true);
-    this.problem.set(null);
-    const request = this.form.getRawValue();
-    this.#auth
-      .signUp(request)
-      .pipe(switchMap(() => this.#auth.signIn({ email: request.email, password: request.password })))
-      .subscribe({
-        next: () => void this.#router.navigateByUrl('/account'),
-        error: (error: unknown) => {
-          this.problem.set(error instanceof ApiProblem ? error.readable : readableError(error));
-          this.busy.set(false);
-        },
-      });
+    this.submission.submit(
+      this.form,
+      () => {
+        const request = this.form.getRawValue();
+        return this.#auth.signUp(request).pipe(switchMap(() => this.#auth.signIn({ email: request.email, password: request.password })));
+      },
+      () => void this.#router.navigateByUrl('/account'),
+    );
   }
 }

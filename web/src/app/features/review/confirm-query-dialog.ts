@@ -1,6 +1,7 @@
 import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
-import { MAT_DIALOG_DATA, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle } from '@angular/material/dialog';
+import { MAT_DIALOG_DATA, type MatDialog, MatDialogActions, MatDialogClose, MatDialogContent, MatDialogTitle } from '@angular/material/dialog';
 import { MatButton } from '@angular/material/button';
+import type { Observable } from 'rxjs';
 
 export interface ConfirmQueryData {
   title: string;
@@ -28,4 +29,11 @@ export interface ConfirmQueryData {
 })
 export class ConfirmQueryDialog {
   protected readonly data = inject<ConfirmQueryData>(MAT_DIALOG_DATA);
+}
+
+/** Asks the reviewer; answers `true` only when they confirm. */
+export function confirmQuery(dialog: MatDialog, data: ConfirmQueryData): Observable<boolean | undefined> {
+  return dialog
+    .open<ConfirmQueryDialog, ConfirmQueryData, boolean>(ConfirmQueryDialog, { data, autoFocus: 'first-tabbable', restoreFocus: true, maxWidth: '560px' })
+    .afterClosed();
 }

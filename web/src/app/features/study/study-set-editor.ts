@@ -1,22 +1,20 @@
 import { ChangeDetectionStrategy, Component, computed, effect, inject, input, signal, untracked } from '@angular/core';
-import { toSignal } from '@angular/core/rxjs-interop';
-import { FormControl, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { Router, RouterLink } from '@angular/router';
 import { CdkDrag, type CdkDragDrop, CdkDragHandle, CdkDropList, moveItemInArray } from '@angular/cdk/drag-drop';
-import { MatAutocomplete, MatAutocompleteTrigger, MatOption, type MatAutocompleteSelectedEvent } from '@angular/material/autocomplete';
-import { MatFormField, MatLabel, MatError, MatHint, MatPrefix } from '@angular/material/form-field';
+import { MatFormField, MatLabel, MatError, MatHint } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
 import { MatSlideToggle } from '@angular/material/slide-toggle';
 import { MatAnchor, MatButton, MatIconButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
-import { catchError, debounceTime, distinctUntilChanged, map, of, startWith, switchMap } from 'rxjs';
 import { AuthService } from '../../core/auth/auth-service';
 import { type StudySetDraft, StudyService, type TaxonMatch } from '../../core/api/study-service';
 import { ApiProblem, readableError } from '../../core/http/api-problem';
 import type { HoldsUnsavedChanges } from '../../core/navigation/unsaved-changes';
 import { keepsStudySets, shareLink, speciesName, studySetId } from './study-words';
+import { SpeciesSearch } from './species-search';
 
 /** One species in the list being edited. */
 interface ListedSpecies {
@@ -30,8 +28,6 @@ const MAX_SPECIES = 200;
 const FIELD_NAMES = ['name', 'event', 'eventDate', 'notes'] as const;
 type FieldName = (typeof FIELD_NAMES)[number];
 
-type SearchState = { status: 'idle' } | { status: 'searching' } | { status: 'done'; matches: TaxonMatch[] } | { status: 'error'; message: string };
-
 /** Makes a new study set (`/study/new`) or changes one (`/study/:id/edit`). */
 @Component({
   selector: 'sv-study-set-editor',
@@ -41,14 +37,10 @@ type SearchState = { status: 'idle' } | { status: 'searching' } | { status: 'don
     CdkDropList,
     CdkDrag,
     CdkDragHandle,
-    MatAutocomplete,
-    MatAutocompleteTrigger,
-    MatOption,
     MatFormField,
     MatLabel,
     MatError,
     MatHint,
-    MatPrefix,
     MatInput,
     MatSlideToggle,
     MatAnchor,
@@ -56,6 +48,7 @@ type SearchState = { status: 'idle' } | { status: 'searching' } | { status: 'don
     MatIconButton,
     MatIcon,
     MatProgressBar,
+    SpeciesSearch,
   ],
   templateUrl: './study-set-editor.html',
   styleUrl: './study.scss',
@@ -96,28 +89,6 @@ export default class StudySetEditor implements HoldsUnsavedChanges {
   protected readonly busy = signal(false);
   protected readonly savedShared = signal<{ id: number; shared: boolean } | null>(null);
 
-  protected readonly search = new FormControl<string | TaxonMatch>('', { nonNullable: true });
-  protected readonly searchState = toSignal(
-    this.search.valueChanges.pipe(
-      map((value) => (typeof value === 'string' ? value.trim() : '')),
-      debounceTime(200),
-      distinctUntilChanged(),
-      switchMap((words) =>
-        words.length < 2
-          ? of<SearchState>({ status: 'idle' })
-          : this.#study.searchSpecies(words).pipe(
-              map((matches): SearchState => ({ status: 'done', matches })),
-              catchError((error: unknown) => of<SearchState>({ status: 'error', message: readableError(error) })),
-              startWith<SearchState>({ status: 'searching' }),
-            ),
-      ),
-    ),
-    { initialValue: { status: 'idle' } as SearchState },
-  );
-  protected readonly matches = computed(() => {
-    const state = this.searchState();
-    return state.status === 'done' ? state.matches : [];
-  });
   protected readonly listedIds = computed(() => new Set(this.species().map((item) => item.id)));
   protected readonly shareLink = computed(() => {
     const saved = this.savedShared();
@@ -125,7 +96,6 @@ export default class StudySetEditor implements HoldsUnsavedChanges {
   });
 
   protected readonly speciesName = speciesName;
-  protected readonly displayNothing = () => '';
 
   readonly unsavedSubject = 'this study set';
   /** the fields and species as last loaded or saved; anything else is an unsaved edit */
@@ -170,9 +140,7 @@ export default class StudySetEditor implements HoldsUnsavedChanges {
     });
   }
 
-  protected addSpecies(event: MatAutocompleteSelectedEvent): void {
-    const match = event.option.value as TaxonMatch;
-    this.search.setValue('');
+  protected addSpecies(match: TaxonMatch): void {
     if (this.listedIds().has(match.id)) return;
     if (this.species().length >= MAX_SPECIES) {
       this.saveProblem.set(`A study set holds at most ${MAX_SPECIES} species.`);

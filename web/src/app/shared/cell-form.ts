@@ -1,7 +1,15 @@
 import { FormControl, FormGroup, FormRecord, Validators, type AbstractControl, type ValidationErrors, type ValidatorFn } from '@angular/forms';
-import type { CompiledTrait } from '@shared/engine/compiled';
 import type { Cell, DiscreteCell } from '@shared/engine/types';
-import { isDiscreteCell, isNumericCell } from '../../shared/matrix-words';
+import { isDiscreteCell, isNumericCell } from './matrix-words';
+
+/** What the cell editor needs to know of a trait: its kind, its values in order, and its unit. */
+export interface CellTrait {
+  kind: 'state' | 'numeric' | 'count';
+  /** the values a state or count cell can hold, in the order shown; empty for numeric traits */
+  values: ReadonlyArray<{ code: string | number; label: string }>;
+  /** the unit of a numeric range */
+  unit?: string;
+}
 
 /** How often a taxon shows one value of a state or count trait; '' for not at all. */
 export type Frequency = '' | 'usual' | 'occasional' | 'rare';
@@ -21,14 +29,13 @@ export type CellForm = FormGroup<{
   mode: FormControl<CellMode>;
   frequencies: FormRecord<FormControl<Frequency>>;
   range: RangeGroup;
-  reason: FormControl<string>;
 }>;
 
 /**
  * The cell a form describes must be codable: some value of a state or count trait, or a numeric
  * range in order, min ≤ low ≤ high ≤ max, none negative; `unknown` and `inapplicable` always are.
  */
-function cellValidator(kind: () => CompiledTrait['kind'] | null): ValidatorFn {
+function cellValidator(kind: () => CellTrait['kind'] | null): ValidatorFn {
   return (control: AbstractControl): ValidationErrors | null => {
     const form = control as CellForm;
     if (form.controls.mode.value !== 'coded') return null;
@@ -43,30 +50,29 @@ function cellValidator(kind: () => CompiledTrait['kind'] | null): ValidatorFn {
   };
 }
 
-export function buildCellForm(kind: () => CompiledTrait['kind'] | null): CellForm {
+export function buildCellForm(kind: () => CellTrait['kind'] | null): CellForm {
   const number = () => new FormControl<number | null>(null, { validators: [Validators.min(0)] });
   return new FormGroup(
     {
       mode: new FormControl<CellMode>('coded', { nonNullable: true }),
       frequencies: new FormRecord<FormControl<Frequency>>({}),
       range: new FormGroup({ min: number(), low: number(), high: number(), max: number() }),
-      reason: new FormControl('', { nonNullable: true, validators: [Validators.required, Validators.minLength(3), Validators.maxLength(2000)] }),
     },
     { validators: cellValidator(kind) },
   );
 }
 
 /** What is wrong with the cell the form describes, in a sentence; null when it can be written. */
-export function cellProblem(form: CellForm): string | null {
+export function cellProblem(form: CellForm, unit = 'cm'): string | null {
   if (form.hasError('noValue')) return 'Choose how often at least one value is seen, or mark the cell unknown or inapplicable.';
-  if (form.hasError('rangeMissing')) return 'Give all four numbers of the range, in cm.';
+  if (form.hasError('rangeMissing')) return `Give all four numbers of the range, in ${unit}.`;
   if (form.hasError('rangeNegative')) return 'Lengths cannot be negative.';
   if (form.hasError('rangeOrder')) return 'The range must read smallest ≤ typical from ≤ typical to ≤ largest.';
   return null;
 }
 
 /** Sets the form to show a cell; the frequency controls are made for the trait's values. */
-export function fillCellForm(form: CellForm, trait: CompiledTrait, cell: Cell): void {
+export function fillCellForm(form: CellForm, trait: CellTrait, cell: Cell): void {
   const frequencies = form.controls.frequencies;
   for (const key of Object.keys(frequencies.controls)) frequencies.removeControl(key, { emitEvent: false });
   const frequencyOf = (code: string | number): Frequency => {
@@ -75,7 +81,7 @@ export function fillCellForm(form: CellForm, trait: CompiledTrait, cell: Cell): 
     return has(cell.usual) ? 'usual' : has(cell.occasional) ? 'occasional' : has(cell.rare) ? 'rare' : '';
   };
   if (trait.kind !== 'numeric') {
-    for (const code of trait.answerCodes) frequencies.addControl(String(code), new FormControl<Frequency>(frequencyOf(code), { nonNullable: true }), { emitEvent: false });
+    for (const { code } of trait.values) frequencies.addControl(String(code), new FormControl<Frequency>(frequencyOf(code), { nonNullable: true }), { emitEvent: false });
   }
   const range = isNumericCell(cell) ? cell : null;
   form.controls.range.setValue({ min: range?.min ?? null, low: range?.low ?? null, high: range?.high ?? null, max: range?.max ?? null }, { emitEvent: false });
@@ -84,7 +90,7 @@ export function fillCellForm(form: CellForm, trait: CompiledTrait, cell: Cell): 
 }
 
 /** The cell the form describes, in the matrix's own shape (count codes stay numbers). */
-export function cellFromForm(form: CellForm, trait: CompiledTrait): Cell {
+export function cellFromForm(form: CellForm, trait: CellTrait): Cell {
   const mode = form.controls.mode.value;
   if (mode !== 'coded') return mode;
   if (trait.kind === 'numeric') {
@@ -92,7 +98,7 @@ export function cellFromForm(form: CellForm, trait: CompiledTrait): Cell {
     return { min: range.min ?? 0, low: range.low ?? 0, high: range.high ?? 0, max: range.max ?? 0 };
   }
   const cell: DiscreteCell = {};
-  for (const code of trait.answerCodes) {
+  for (const { code } of trait.values) {
     const frequency = form.controls.frequencies.controls[String(code)]?.value ?? '';
     if (frequency !== '') (cell[frequency] ??= []).push(code);
   }

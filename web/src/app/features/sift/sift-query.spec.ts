@@ -1,7 +1,7 @@
 import { expect } from 'chai';
 import { compileMatrix } from '@shared/engine';
-import { loadReferenceMatrix } from '../../seeds/load-matrix';
-import { formatObservations, parseLeeway, parseObservations, parseSeason, siftQueryParams } from '../../web/src/app/features/sift/sift-query';
+import { loadReferenceMatrix } from '../../../../../seeds/load-matrix';
+import { formatObservations, parseLeeway, parseObservations, parseSeason, siftQueryParams } from './sift-query';
 
 describe('sift links (the query string of /sift)', () => {
   const compiled = compileMatrix(loadReferenceMatrix());
