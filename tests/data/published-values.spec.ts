@@ -7,11 +7,9 @@
  * it; where two sources disagree both are listed and the coding must cover both.
  */
 import { expect } from 'chai';
-import { readdirSync, readFileSync } from 'node:fs';
-import { join } from 'node:path';
 import type { MatrixDocument, Taxon } from '@shared/engine/types';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
-import { TAXA_DIR, genusOf, isDiscreteCell, isNumericCell, valuesOf } from './matrix-facts';
+import { genusOf, isDiscreteCell, isNumericCell, valuesOf } from './matrix-facts';
 
 const doc: MatrixDocument = loadReferenceMatrix();
 const taxonById = new Map(doc.taxa.map((taxon) => [taxon.id, taxon]));
@@ -142,8 +140,7 @@ describe('published values: pines', () => {
       it('needles per bundle agree with the published counts', () => {
         // source: see countSource in the table above
         const cell = taxon(id).cells['needles-per-fascicle'];
-        expect(isDiscreteCell(cell)).to.be.true;
-        if (!isDiscreteCell(cell)) return;
+        if (!isDiscreteCell(cell)) expect.fail(`${id}.needles-per-fascicle is ${JSON.stringify(cell)}, not a value set`);
         expect(cell.usual ?? [], facts.countSource).to.have.members(facts.usualCounts);
         expect(valuesOf(cell), facts.countSource).to.include.members([...facts.usualCounts, ...facts.otherCounts]);
         for (const count of valuesOf(cell)) {
@@ -288,11 +285,15 @@ describe('published values: oaks, hickories and walnuts', () => {
 
   it('gives walnuts a chambered pith and hickories a solid one', () => {
     // Flora of North America vol. 3, Juglandaceae key to genera (from memory)
-    for (const t of doc.taxa.filter((item) => genusOf(item) === 'Juglans')) {
+    const walnuts = doc.taxa.filter((item) => genusOf(item) === 'Juglans');
+    const hickories = doc.taxa.filter((item) => genusOf(item) === 'Carya');
+    expect(walnuts.map((t) => t.id)).to.have.members(['juglans-cinerea', 'juglans-nigra']);
+    expect(hickories.map((t) => t.id)).to.include.members(Object.keys(LEAFLETS).filter((id) => id.startsWith('carya-')));
+    for (const t of walnuts) {
       const cell = t.cells['pith'];
       expect(isDiscreteCell(cell) ? cell.usual : cell, t.id).to.deep.equal(['chambered']);
     }
-    for (const t of doc.taxa.filter((item) => genusOf(item) === 'Carya')) {
+    for (const t of hickories) {
       const cell = t.cells['pith'];
       expect(isDiscreteCell(cell) ? valuesOf(cell) : cell, t.id).to.not.include('chambered');
     }
@@ -324,27 +325,17 @@ describe('published values: opposite-leaved genera', () => {
   // Cornus alternifolia is the one alternate-leaved dogwood. common practice, no source
   const ALTERNATE_EXCEPTIONS = ['cornus-alternifolia'];
 
-  const hardwoodFiles = readdirSync(TAXA_DIR).filter((name) => /^hardwoods-.*\.json$/.test(name));
-  /** The alphabetical span of families each hardwood file holds (the files are split by family). */
-  const spans = hardwoodFiles.map((name) => {
-    const families = (JSON.parse(readFileSync(join(TAXA_DIR, name), 'utf8')) as { taxa: Taxon[] }).taxa.map((t) => t.family).sort();
-    return { name, first: families[0], last: families[families.length - 1] };
-  });
   const usualArrangement = (t: Taxon) => {
     const cell = t.cells['leaf-arrangement'];
     return isDiscreteCell(cell) ? (cell.usual ?? []).map(String) : [];
   };
 
   for (const [genus, { family, allowed }] of Object.entries(OPPOSITE)) {
-    it(`${genus} (${family}) is coded ${allowed.join(' or ')}`, function () {
+    it(`${genus} (${family}) is coded ${allowed.join(' or ')}`, () => {
       const members = doc.taxa.filter((t) => genusOf(t) === genus && !ALTERNATE_EXCEPTIONS.includes(t.id));
-      if (members.length === 0) {
-        const holder = spans.find((span) => span.first <= family && family <= span.last);
-        // Skipped only while the hardwood file that would hold this family has not landed.
-        if (!holder) this.skip();
-        expect.fail(`${genus} is missing although ${holder?.name} holds ${family}`);
-      }
+      expect(members, `no ${genus} in the matrix`).to.not.be.empty;
       for (const t of members) {
+        expect(t.family, t.id).to.equal(family);
         const usual = usualArrangement(t);
         expect(usual, t.id).to.not.be.empty;
         for (const value of usual) expect(allowed, t.id).to.include(value);
@@ -421,8 +412,8 @@ describe('published values: names and authorities', () => {
     'Juglans nigra': 'L.',
     'Juglans cinerea': 'L.',
   };
-  // Hardwoods another file may hold; checked when present (same checklist, from memory).
-  const CHECKLIST_IF_PRESENT: Record<string, string> = {
+  // The hardwoods (same checklist, from memory).
+  const HARDWOOD_CHECKLIST: Record<string, string> = {
     'Liquidambar styraciflua': 'L.',
     'Liriodendron tulipifera': 'L.',
     'Magnolia grandiflora': 'L.',
@@ -473,20 +464,13 @@ describe('published values: names and authorities', () => {
 
   const byName = new Map(doc.taxa.map((t) => [t.scientificName, t]));
 
-  for (const [name, authority] of Object.entries(CHECKLIST)) {
+  for (const [name, authority] of Object.entries({ ...CHECKLIST, ...HARDWOOD_CHECKLIST })) {
     it(`${name} ${authority}`, () => {
       const t = byName.get(name);
       expect(t, `${name} missing from the matrix`).to.exist;
       expect(normalise(t?.authority ?? '')).to.equal(authority);
     });
   }
-
-  it('spells the authorities of the hardwoods present as the checklist does', () => {
-    for (const [name, authority] of Object.entries(CHECKLIST_IF_PRESENT)) {
-      const t = byName.get(name);
-      if (t) expect(normalise(t.authority), name).to.equal(authority);
-    }
-  });
 
   it('uses the same spelling of an author throughout the matrix', () => {
     // One standard form per author, so a search for an author finds every taxon. common practice, no source
