@@ -138,7 +138,21 @@ describe('reference matrix: traits', () => {
     const needles = traitOf('needles-per-fascicle');
     expect(needles.countRange).to.deep.equal({ min: 1, max: 5 });
     expect((needles.values ?? []).map((value) => value.code)).to.deep.equal(['1', '2', '3', '4', '5']);
-    expect(traitOf('leaflet-count').countRange).to.deep.equal({ min: 3, max: 41 });
+  });
+
+  it('spans each count trait exactly over the counts the taxa show', () => {
+    // A count range wider than any coded count offers the observer numbers no tree in the matrix has;
+    // a narrower one would refuse a coded count. The span is derived from the cells, not restated.
+    const countTraits = doc.traits.filter((trait) => trait.kind === 'count');
+    expect(countTraits.map((trait) => trait.code)).to.include.members(['leaflet-count', 'needles-per-fascicle']);
+    for (const trait of countTraits) {
+      const coded = doc.taxa.flatMap((taxon) => {
+        const cell = taxon.cells[trait.code];
+        return isDiscreteCell(cell) ? valuesOf(cell).map(Number) : [];
+      });
+      expect(coded, `${trait.code}: no taxon codes a count`).to.not.be.empty;
+      expect(trait.countRange, trait.code).to.deep.equal({ min: Math.min(...coded), max: Math.max(...coded) });
+    }
   });
 
   it('lets every appliesWhen name an existing trait and existing values', () => {
