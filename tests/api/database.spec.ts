@@ -2,7 +2,7 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { expect } from 'chai';
-import { QueryTypes } from 'sequelize';
+import { ForeignKeyConstraintError, QueryTypes } from 'sequelize';
 import { createApp, type CreatedApp } from '../../api/src/app';
 import { loadConfig } from '../../api/src/config';
 import { migrations } from '../../api/src/db/migrations';
@@ -38,13 +38,15 @@ describe('api: database set-up', function () {
     expect(journal?.journal_mode).to.equal('wal');
     const [keys] = await created.context.sequelize.query<{ foreign_keys: number }>('PRAGMA foreign_keys', { type: QueryTypes.SELECT });
     expect(keys?.foreign_keys).to.equal(1);
-    let rejected = false;
+    // A cell that is valid in every way except that its taxon does not exist: only the foreign key can refuse it.
+    let refusal: unknown;
     try {
       await created.context.models.Cell.create({ taxonId: 'no-such-taxon', traitCode: 'foliage', value: 'unknown' });
-    } catch {
-      rejected = true;
+    } catch (error) {
+      refusal = error;
     }
-    expect(rejected, 'a cell pointing at a missing taxon must be rejected').to.equal(true);
+    expect(refusal, 'a cell pointing at a missing taxon must be rejected').to.be.instanceOf(ForeignKeyConstraintError);
+    expect(String((refusal as ForeignKeyConstraintError).parent?.message), 'SQLite names the failed constraint').to.match(/FOREIGN KEY constraint failed/);
   });
 
   it('seeds the reference matrix once and publishes it as edition 1', async () => {

@@ -89,9 +89,18 @@ describe('api: POST /api/v1/identify', () => {
         expect(s.expectedGain).to.be.at.least(0);
         expect(s.preview.length).to.be.greaterThan(0);
       }
-      const winter = await post({ observations: [{ trait: 'foliage', values: ['broad'] }], season: 'leaf-off' }).expect(200);
-      const leafOn = new Set(['leaf-type', 'leaf-shape', 'leaf-lobing', 'leaf-margin', 'fall-color']);
-      for (const s of winter.body.suggestions as Array<{ trait: string }>) expect(leafOn.has(s.trait), s.trait).to.be.false;
+      // Every trait the edition marks leaf-on, as the API itself lists them.
+      const traits = await request(created.app).get('/api/v1/traits').expect(200);
+      const leafOn = new Set((traits.body.traits as Array<{ code: string; season: string }>).filter((t) => t.season === 'leaf-on').map((t) => t.code));
+      expect(leafOn.size, 'leaf-on traits in the edition').to.be.greaterThan(5);
+      const broadleaf = { observations: [{ trait: 'foliage', values: ['broad'] }] };
+      // In leaf the same sighting is told to look at leaves, so the leaf-off check below has something to leave out.
+      const summer = await post({ ...broadleaf, season: 'leaf-on' }).expect(200);
+      expect((summer.body.suggestions as Array<{ trait: string }>).some((s) => leafOn.has(s.trait)), 'a leaf-on suggestion in leaf').to.be.true;
+      const winter = await post({ ...broadleaf, season: 'leaf-off' }).expect(200);
+      const winterTraits = (winter.body.suggestions as Array<{ trait: string }>).map((s) => s.trait);
+      expect(winterTraits, 'suggestions in leaf-off').to.not.be.empty;
+      for (const trait of winterTraits) expect(leafOn.has(trait), `${trait} needs leaves`).to.be.false;
     });
 
     it('ranks a taxon whose needles are far longer below the loblolly', async () => {

@@ -139,8 +139,11 @@ describe('api: partner keys', () => {
 
     before(async function () {
       if (!redisBinary) {
+        const message = 'redis-server not found at /usr/bin or /usr/local/bin: install it with "apt-get install -y redis-server"';
+        // Under CI the shared quota must be proven, so a missing server fails the suite instead of skipping it.
+        if (process.env['CI']) throw new Error(`${message} (CI is set, so the Redis suite must run)`);
+        console.warn(`\n  !!! ${message}. SKIPPING "${this.test?.parent?.title ?? ''}". !!!\n`);
         this.skip();
-        return;
       }
       port = await new Promise<number>((resolve) => {
         const probe = createServer().listen(0, '127.0.0.1', () => {

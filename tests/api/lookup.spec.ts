@@ -5,12 +5,11 @@ import request from 'supertest';
 import { decodeBundle } from '@shared/engine';
 import type { CreatedApp } from '../../api/src/app';
 import { REPO_ROOT } from '../../api/src/config';
+import { loadGlossary } from '../data/matrix-facts';
 import { assertContractKept, startTestApp } from './support/test-app';
 
-interface Glossary {
-  traits: Array<{ code: string; values?: Array<{ code: string }> }>;
-}
-const glossary = JSON.parse(fs.readFileSync(path.join(REPO_ROOT, '../shared/trait-glossary.json'), 'utf8')) as Glossary;
+// The shared glossary beside the checkout, or the committed copy when the checkout stands alone.
+const { glossary } = loadGlossary();
 
 describe('api: published lookups (taxa, traits, editions, bundle)', () => {
   let created: CreatedApp;
@@ -103,6 +102,7 @@ describe('api: published lookups (taxa, traits, editions, bundle)', () => {
     it('carries every core glossary trait and value code verbatim', async () => {
       const res = await request(created.app).get('/api/v1/traits').expect(200);
       const byCode = new Map<string, { values: Array<{ code: string }> }>(res.body.traits.map((t: { code: string }) => [t.code, t]));
+      expect(glossary.traits.length, 'core glossary traits').to.be.greaterThan(20);
       for (const trait of glossary.traits) {
         expect(byCode.has(trait.code), trait.code).to.be.true;
         const served = byCode.get(trait.code)!.values.map((v) => v.code);

@@ -47,7 +47,6 @@ function traitOf(code: string): Trait {
 }
 
 function listSvgFiles(dir: string): string[] {
-  if (!existsSync(dir)) return [];
   const found: string[] = [];
   for (const entry of readdirSync(dir, { withFileTypes: true })) {
     const path = join(dir, entry.name);
@@ -74,8 +73,7 @@ describe('reference matrix: glossary contract', () => {
   for (const core of glossary.traits) {
     it(`keeps core trait ${core.code} verbatim`, () => {
       const trait = traitByCode.get(core.code);
-      expect(trait, `core trait ${core.code} missing`).to.exist;
-      if (!trait) return;
+      if (!trait) expect.fail(`core trait ${core.code} missing`);
       expect(trait.kind).to.equal(core.kind);
       expect(trait.part).to.equal(core.part);
       expect(trait.season).to.equal(core.season);
@@ -140,7 +138,21 @@ describe('reference matrix: traits', () => {
     const needles = traitOf('needles-per-fascicle');
     expect(needles.countRange).to.deep.equal({ min: 1, max: 5 });
     expect((needles.values ?? []).map((value) => value.code)).to.deep.equal(['1', '2', '3', '4', '5']);
-    expect(traitOf('leaflet-count').countRange).to.deep.equal({ min: 3, max: 41 });
+  });
+
+  it('spans each count trait exactly over the counts the taxa show', () => {
+    // A count range wider than any coded count offers the observer numbers no tree in the matrix has;
+    // a narrower one would refuse a coded count. The span is derived from the cells, not restated.
+    const countTraits = doc.traits.filter((trait) => trait.kind === 'count');
+    expect(countTraits.map((trait) => trait.code)).to.include.members(['leaflet-count', 'needles-per-fascicle']);
+    for (const trait of countTraits) {
+      const coded = doc.taxa.flatMap((taxon) => {
+        const cell = taxon.cells[trait.code];
+        return isDiscreteCell(cell) ? valuesOf(cell).map(Number) : [];
+      });
+      expect(coded, `${trait.code}: no taxon codes a count`).to.not.be.empty;
+      expect(trait.countRange, trait.code).to.deep.equal({ min: Math.min(...coded), max: Math.max(...coded) });
+    }
   });
 
   it('lets every appliesWhen name an existing trait and existing values', () => {
@@ -235,15 +247,14 @@ describe('reference matrix: taxa and cells', () => {
     for (const taxon of doc.taxa) {
       for (const [code, cell] of Object.entries(taxon.cells)) {
         const trait = traitByCode.get(code);
-        expect(trait, `${taxon.id}: unknown trait ${code}`).to.exist;
-        if (!trait || cell === 'unknown' || cell === 'inapplicable') continue;
+        if (!trait) expect.fail(`${taxon.id}: unknown trait ${code}`);
+        if (cell === 'unknown' || cell === 'inapplicable') continue;
         const where = `${taxon.id}.${code}`;
         if (trait.kind === 'numeric') {
           expect(isNumericCell(cell), `${where} should be a range`).to.be.true;
           continue;
         }
-        expect(isDiscreteCell(cell), `${where} should be a value set`).to.be.true;
-        if (!isDiscreteCell(cell)) continue;
+        if (!isDiscreteCell(cell)) expect.fail(`${where} should be a value set`);
         const values = valuesOf(cell);
         expect(values.length, `${where} empty`).to.be.greaterThan(0);
         expect(new Set(values.map(String)).size, `${where} lists a value twice`).to.equal(values.length);
@@ -327,7 +338,7 @@ describe('reference matrix: separation', () => {
   it('lists as inseparable only pairs that really are', () => {
     for (const pair of doc.inseparable ?? []) {
       const [a, b] = pair.taxa.map((id) => taxonById.get(id));
-      if (!a || !b) continue;
+      if (!a || !b) expect.fail(`inseparable pair ${pair.taxa.join(' / ')} names a missing taxon`);
       expect(separatingTraits(a, b, doc.traits), `${a.id} / ${b.id} is separable`).to.deep.equal([]);
     }
   });

@@ -1,7 +1,7 @@
 import { expect } from 'chai';
-import { AxeBuilder } from '@axe-core/playwright';
 import type { BrowserContext, Page } from 'playwright-core';
 import { browserSuite } from './support/harness';
+import { seriousViolations } from './support/checks';
 import { mailedLinkPath } from './support/mail';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 
@@ -9,15 +9,6 @@ const SENT_NOTICE = "If an account uses that address, we've sent a link to it.";
 
 let addressCount = 0;
 const uniqueEmail = (who: string) => `${who}.${Date.now()}.${++addressCount}@example.invalid`;
-
-async function seriousViolations(page: Page): Promise<string[]> {
-  // Field errors fade in; a scan part-way through would measure a half-transparent colour, not the page's.
-  await page.waitForFunction(() => document.getAnimations().every((animation) => animation.playState !== 'running'));
-  const results = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa']).analyze();
-  return results.violations
-    .filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
-    .map((violation) => `${violation.id} (${violation.impact}): ${violation.nodes.map((node) => node.target.join(' ')).slice(0, 5).join(', ')}`);
-}
 
 const squash = (text: string | null) => (text ?? '').replace(/\s+/g, ' ').trim();
 

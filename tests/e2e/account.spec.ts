@@ -66,12 +66,29 @@ describe('e2e: accounts and edition updates', function () {
     expect(token).to.be.a('string');
 
     // the server unreachable while the page loads: the session is kept, not thrown away
+    // The page counts its settled /api/v1/me calls one task after each settles, when every promise
+    // reaction of the app's error handling has run: that count is the signal to wait for.
+    await page.addInitScript(() => {
+      const counter = window as unknown as { sylvasiftMeSettled: number };
+      counter.sylvasiftMeSettled = 0;
+      const original = window.fetch.bind(window);
+      window.fetch = (input, init) => {
+        const pending = original(input, init);
+        const url = typeof input === 'string' ? input : input instanceof URL ? input.href : input.url;
+        if (url.endsWith('/api/v1/me')) {
+          pending.finally(() => setTimeout(() => counter.sylvasiftMeSettled++, 0)).catch(() => undefined);
+        }
+        return pending;
+      };
+    });
     await page.route('**/api/v1/me', (route) => route.abort('internetdisconnected'));
     const failed = page.waitForEvent('requestfailed', (request) => request.url().endsWith('/api/v1/me'));
     await page.goto(`${running.baseUrl}/sift`);
     await failed;
-    // give the page's error handling a moment to run before reading what it kept
-    await page.waitForTimeout(300);
+    await page.waitForFunction(() => (window as unknown as { sylvasiftMeSettled?: number }).sylvasiftMeSettled === 1);
+    // the header still offers the account, not Sign in
+    await page.locator('header .account-link').waitFor();
+    expect(await page.locator('header a', { hasText: 'Sign in' }).count()).to.equal(0);
     expect(await page.evaluate(() => localStorage.getItem('sylvasift.session'))).to.equal(token);
     await page.unroute('**/api/v1/me');
 

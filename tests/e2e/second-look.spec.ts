@@ -29,12 +29,6 @@ async function shoot(page: Page, name: string, fullPage = true): Promise<void> {
   await page.screenshot({ path: path.join(SHOTS, `${name}.png`), fullPage });
 }
 
-/** Axe's serious violations once running animations (an error fading in, a dialog opening) have ended. */
-async function violationsWhenStill(page: Page): Promise<string[]> {
-  await page.waitForFunction(() => document.getAnimations().every((animation) => animation.playState !== 'running'), undefined, { timeout: 5_000 });
-  return seriousViolations(page);
-}
-
 /** A bearer token for a demo account, for checking through the API what the screens did. */
 async function tokenFor(request: APIRequestContext, baseUrl: string, role: string): Promise<string> {
   const session = await request.post(`${baseUrl}/api/v1/sessions`, { data: { email: demoAccount(role).email, password: DEMO_PASSWORD } });
@@ -80,7 +74,7 @@ describe('e2e: Second look and raising a query', function () {
     // The note is required: an empty one is refused in the form.
     await dialog.getByRole('button', { name: 'Raise query' }).click();
     expect(await dialog.locator('mat-error').textContent()).to.contain('Say what you saw');
-    expect(await violationsWhenStill(page)).to.deep.equal([]);
+    expect(await seriousViolations(page)).to.deep.equal([]);
     await expectNoSidewaysOverflow(page, 'the query dialog');
     await shoot(page, 'flag-dialog-phone', false);
 
@@ -110,7 +104,7 @@ describe('e2e: Second look and raising a query', function () {
     const listed = await page.locator('.query-card').evaluateAll((cards) => cards.map((card) => card.textContent ?? ''));
     expect(listed.some((text) => text.includes('Shortleaf pine') && text.includes('Open'))).to.equal(true);
     expect(listed.some((text) => text.includes('Northern red oak') || text.includes('Bark'))).to.equal(false);
-    expect(await violationsWhenStill(page)).to.deep.equal([]);
+    expect(await seriousViolations(page)).to.deep.equal([]);
     await expectNoSidewaysOverflow(page, 'the learner’s queries');
     await shoot(page, 'your-queries-phone');
 
@@ -159,7 +153,7 @@ describe('e2e: Second look and raising a query', function () {
     expect(cardText).to.contain(`Coded now: ${raisedWords}`);
     expect(cardText).to.contain('bundles of four');
     expect(cardText).to.contain(`by ${demoAccount('learner').displayName}`);
-    expect(await violationsWhenStill(page)).to.deep.equal([]);
+    expect(await seriousViolations(page)).to.deep.equal([]);
     await shoot(page, 'queue-desktop');
 
     // Nothing is answered yet: the filter says so, and the state is kept in the URL.
@@ -178,7 +172,7 @@ describe('e2e: Second look and raising a query', function () {
     // The answer is required: nothing is sent without it.
     await answerButton.click();
     expect(await page.locator('mat-error').first().textContent()).to.contain('Write the answer');
-    expect(await violationsWhenStill(page)).to.deep.equal([]);
+    expect(await seriousViolations(page)).to.deep.equal([]);
     await shoot(page, 'query-open-desktop');
 
     await page.getByRole('textbox', { name: 'Answer', exact: true }).fill('Fours are not recorded for this species; bundles of two and three are usual. Check for a second species nearby.');
@@ -195,7 +189,7 @@ describe('e2e: Second look and raising a query', function () {
     const ask = page.getByRole('dialog', { name: 'Settle this query?' });
     await ask.waitFor();
     expect(await ask.textContent()).to.contain(raisedWords);
-    expect(await violationsWhenStill(page)).to.deep.equal([]);
+    expect(await seriousViolations(page)).to.deep.equal([]);
     await shoot(page, 'settle-dialog-desktop', false);
     await ask.getByRole('button', { name: 'Go back' }).click();
     await ask.waitFor({ state: 'detached' });
@@ -246,7 +240,7 @@ describe('e2e: Second look and raising a query', function () {
     await low.waitFor();
     // An admin may read the working matrix, so the recode is based on the version read.
     await page.locator('.hint', { hasText: `based on version ${cell.version} of the cell` }).waitFor();
-    expect(await violationsWhenStill(page)).to.deep.equal([]);
+    expect(await seriousViolations(page)).to.deep.equal([]);
     // The editor starts from the published range; the seeded loblolly needle length is 10 (12–23) 23 cm.
     expect(await low.inputValue()).to.equal('12');
     await low.fill('30');
@@ -285,7 +279,7 @@ describe('e2e: Second look and raising a query', function () {
     await signIn(page, base, 'reviewer', '/review');
     await page.locator(`.query-card[data-query="${queryId}"]`).waitFor();
     await expectNoSidewaysOverflow(page, 'the Second look queue');
-    expect(await violationsWhenStill(page)).to.deep.equal([]);
+    expect(await seriousViolations(page)).to.deep.equal([]);
     await shoot(page, 'queue-phone');
     await page.locator(`.query-card[data-query="${queryId}"]`).getByRole('link').click();
     await page.waitForURL(new RegExp(`/review/${queryId}$`));
@@ -314,7 +308,7 @@ describe('e2e: Second look and raising a query', function () {
     const ask = page.getByRole('dialog', { name: 'Recode this cell?' });
     await ask.waitFor();
     expect(await ask.textContent()).to.contain('Smooth, deeply furrowed');
-    expect(await violationsWhenStill(page)).to.deep.equal([]);
+    expect(await seriousViolations(page)).to.deep.equal([]);
     await shoot(page, 'recode-dialog-phone', false);
     await ask.getByRole('button', { name: 'Recode and settle' }).click();
 
@@ -326,7 +320,7 @@ describe('e2e: Second look and raising a query', function () {
     expect(await smooth.textContent()).to.contain('Usual');
     expect(await page.getByLabel('Reason').inputValue()).to.contain('smooth stripes');
     expect(((await (await page.request.get(cellUrl, { headers: asCurator })).json()) as { value: unknown }).value).to.deep.equal(curatorValue);
-    expect(await violationsWhenStill(page)).to.deep.equal([]);
+    expect(await seriousViolations(page)).to.deep.equal([]);
     await expectNoSidewaysOverflow(page, 'the stale recode');
     await shoot(page, 'recode-stale-phone');
     await stale.scrollIntoViewIfNeeded();

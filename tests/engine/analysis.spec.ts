@@ -202,18 +202,26 @@ describe('buildKey', () => {
   });
 
   it('ends in a lead naming several taxa when nothing splits them', () => {
-    const key = buildKey(compiled, ['pinus-taeda', 'pinus-echinata']);
-    // their codings overlap on every trait except where both show 3 needles and plated bark
-    const ends = leaves(key.root);
-    expect(ends.some((end) => end.length >= 1)).to.equal(true);
+    const sortedEnds = (node: KeyNode) => leaves(node).map((end) => [...end].sort());
+    // Contrast: loblolly and shortleaf differ in typical needle length (12–18 against 7–11 cm), so
+    // each gets an end of its own.
+    const pair = buildKey(compiled, ['pinus-taeda', 'pinus-echinata']);
+    expect(sortedEnds(pair.root)).to.have.deep.members([['pinus-echinata'], ['pinus-taeda']]);
+    const foliage = compiled.traits[0];
+    expect(foliage.code).to.equal('foliage');
     const identical: MatrixDocument = {
       format: 'sylvasift-matrix', version: 1, title: 'Twins',
-      traits: compiled.traits.slice(0, 1).map((trait) => ({ code: trait.code, label: trait.label, part: trait.part, kind: trait.kind, season: trait.season, ease: trait.ease, errorRate: trait.codedErrorRate, values: trait.values })),
+      traits: [{ code: foliage.code, label: foliage.label, part: foliage.part, kind: foliage.kind, season: foliage.season, ease: foliage.ease, errorRate: foliage.codedErrorRate, values: foliage.values }],
       taxa: [taxon('twin-a', { foliage: { usual: ['needle'] } }), taxon('twin-b', { foliage: { usual: ['needle'] } })],
     };
     const twins = buildKey(compileMatrix(identical), ['twin-a', 'twin-b']);
     expect(twins.root).to.deep.equal({ kind: 'taxa', taxa: ['twin-a', 'twin-b'] });
     expect(twins.couplets).to.equal(0);
+    // Below a couplet too: a broadleaf is keyed out and the twins share the other lead.
+    const withBroadleaf = { ...identical, taxa: [...identical.taxa, taxon('broadleaf', { foliage: { usual: ['broad'] } })] };
+    const three = buildKey(compileMatrix(withBroadleaf), ['twin-a', 'twin-b', 'broadleaf']);
+    expect(sortedEnds(three.root)).to.have.deep.members([['twin-a', 'twin-b'], ['broadleaf']]);
+    expect(three.couplets).to.equal(1);
   });
 
   it('prints numbered couplets', () => {

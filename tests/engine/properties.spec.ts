@@ -118,11 +118,13 @@ describe('rank properties on random matrices', () => {
   });
 
   it('ranks a measurement in inches exactly as the same measurement in centimetres (NIST SP 811: 1 in = 2.54 cm)', () => {
+    let measured = 0;
     fc.assert(
       fc.property(matrixArbitrary, fc.double({ min: 0, max: 60, noNaN: true }), (options, inches) => {
         const compiled = compiledFor({ ...options, traits: Math.max(options.traits, 4) });
         const numeric = compiled.traits.find((trait) => trait.kind === 'numeric');
         if (!numeric) return;
+        measured++;
         const inInches = rank(compiled, [{ trait: numeric.code, value: inches, unit: 'in' }], { limit: Infinity });
         const inCentimetres = rank(compiled, [{ trait: numeric.code, value: inches * 2.54, unit: 'cm' }], { limit: Infinity });
         expect(inInches.candidates.map((candidate) => [candidate.taxonId, candidate.probability])).to.deep.equal(
@@ -131,14 +133,29 @@ describe('rank properties on random matrices', () => {
       }),
       { numRuns: RUNS },
     );
+    // Most synthetic matrices of four or more traits carry a numeric trait; the property must have run on a
+    // good share of them (about three runs in four do; a third is the floor).
+    expect(measured, `runs with a numeric trait out of ${RUNS}`).to.be.at.least(RUNS / 3);
   });
 
   it('does not depend on the order of the observations', () => {
+    const MAX_OBSERVATIONS = 10;
+    const indices = Array.from({ length: MAX_OBSERVATIONS }, (_, i) => i);
+    let reordered = 0;
     fc.assert(
-      fc.property(matrixArbitrary, fc.nat(), fc.integer({ min: 2, max: 10 }), (options, seed, count) => {
-        const compiled = compiledFor(options);
+      fc.property(
+        matrixArbitrary,
+        fc.nat(),
+        fc.integer({ min: 2, max: MAX_OBSERVATIONS }),
+        // a uniformly random permutation of 0..9; its restriction to 0..n-1 is a uniform permutation of n
+        fc.shuffledSubarray(indices, { minLength: MAX_OBSERVATIONS, maxLength: MAX_OBSERVATIONS }),
+        (options, seed, count, permutation) => {
+        // at least four traits, so most runs have two or more observations to reorder
+        const compiled = compiledFor({ ...options, traits: Math.max(options.traits, 4) });
         const observations = observationsOf(compiled, seed % compiled.taxonCount, seed, count);
-        const shuffled = [...observations].reverse();
+        const shuffled = permutation.filter((i) => i < observations.length).map((i) => observations[i]);
+        expect(shuffled).to.have.deep.members(observations);
+        if (shuffled.some((observation, i) => observation !== observations[i])) reordered++;
         const a = probabilityMap(everything(compiled, observations));
         const b = probabilityMap(everything(compiled, shuffled));
         for (const [id, probability] of a) expect(b.get(id)).to.be.closeTo(probability, 1e-12);
@@ -148,9 +165,12 @@ describe('rank properties on random matrices', () => {
         orderA.forEach((id, i) => {
           if (orderB[i] !== id) expect(a.get(orderB[i])).to.be.closeTo(a.get(id) ?? -1, 1e-12);
         });
-      }),
+        },
+      ),
       { numRuns: RUNS },
     );
+    // Runs with fewer than two observations, or a permutation that happens to keep the order, prove nothing.
+    expect(reordered, `runs whose observations were really reordered, out of ${RUNS}`).to.be.at.least(RUNS / 3);
   });
 
   it('ranks and suggests identically after encoding and decoding the bundle', () => {

@@ -100,9 +100,12 @@ describe('rank: southern trees', () => {
       { trait: 'foliage', values: ['needle'] },
       { trait: 'needles-per-fascicle', values: [3] },
       { trait: 'needle-length', value: 6, unit: 'in' },
+      { trait: 'bark-texture', values: ['plated'] },
     ]);
     expect(result.candidates[0].taxonId).to.equal('pinus-taeda');
-    expect(result.candidates[0].reasons.map((reason) => reason.status)).to.deep.equal(['matched', 'matched', 'matched']);
+    expect(result.candidates[0].reasons.map((reason) => [reason.trait, reason.status])).to.deep.equal([
+      ['foliage', 'matched'], ['needles-per-fascicle', 'matched'], ['needle-length', 'matched'], ['bark-texture', 'matched'],
+    ]);
   });
 
   it('lowers a taxon for one wrong answer instead of removing it', () => {

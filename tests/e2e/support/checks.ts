@@ -4,8 +4,22 @@ import { expect } from 'chai';
 import type { Page } from 'playwright-core';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD } from '../../../api/src/db/seeders/0002-demo-scenario';
 
-/** Serious and critical WCAG 2.1 A/AA violations axe finds on the page, one line each. */
+/**
+ * Waits until no finite animation or transition is running: an error fading in or a dialog opening
+ * measures as a half-transparent colour part-way through. Endless ones (a progress spinner) never end
+ * and are not waited for.
+ */
+export async function waitForAnimationsToEnd(page: Page, timeout = 5_000): Promise<void> {
+  await page.waitForFunction(
+    () => document.getAnimations().every((animation) => animation.playState !== 'running' || animation.effect?.getTiming().iterations === Infinity),
+    undefined,
+    { timeout },
+  );
+}
+
+/** Serious and critical WCAG 2.1 A/AA violations axe finds on the page once it is still, one line each. */
 export async function seriousViolations(page: Page): Promise<string[]> {
+  await waitForAnimationsToEnd(page);
   const results = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa']).analyze();
   return results.violations
     .filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
