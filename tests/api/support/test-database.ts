@@ -60,6 +60,8 @@ export const mochaHooks = {
       this.skip();
     }
     server = await startPostgresServer();
+    // should mocha be stopped half-way, the server goes with it (stop() is synchronous)
+    process.once('exit', () => server?.stop());
     admin = new Sequelize(server.url('postgres'), { dialect: 'postgres', logging: false, pool: { max: 1 } });
     await admin.authenticate();
     console.log(`  (API suites on ${server.version}, port ${server.port})`);
