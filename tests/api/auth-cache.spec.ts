@@ -126,7 +126,7 @@ describe('api: cached principals and batched key usage', () => {
       counter.record(id + 1000);
       await counter.flush(); // fails on the missing key; the live key's count is kept
       await counter.flush();
-      const [rows] = await created.context.sequelize.query('SELECT key_id AS keyId, count FROM key_usage ORDER BY key_id');
+      const [rows] = await created.context.sequelize.query('SELECT key_id AS "keyId", count FROM key_usage ORDER BY key_id');
       expect(rows).to.deep.equal([{ keyId: id, count: 1 }]);
       await counter.close();
     });

@@ -4,6 +4,7 @@ import { randomBytes } from 'node:crypto';
 import type { Sequelize } from 'sequelize';
 import { HttpProblem, problems } from '../http/problem';
 import { migrations } from '../db/migrations';
+import { isPostgres, postgresBackupCommands } from '../db/dialect';
 
 export interface Backup {
   name: string;
@@ -24,8 +25,21 @@ interface ConnectionManager {
   releaseConnection(connection: RawSqlite): Promise<void> | void;
 }
 
-const notSqlite = () =>
-  new HttpProblem(501, 'not-implemented', 'Not implemented', 'Backups and restores here work on SQLite only; back up other databases with their own tools.');
+/** Backups here copy SQLite files; on PostgreSQL the answer names the server's own tools for this database. */
+function notSqlite(sequelize: Sequelize): HttpProblem {
+  if (!isPostgres(sequelize)) {
+    return new HttpProblem(501, 'not-implemented', 'Not implemented', 'Backups and restores here work on SQLite only; back up other databases with their own tools.');
+  }
+  const commands = postgresBackupCommands(sequelize);
+  return new HttpProblem(
+    501,
+    'not-implemented',
+    'Not implemented',
+    'Backups and restores here work on SQLite only, and this Sylvasift runs on PostgreSQL: nothing was backed up or restored. ' +
+      `Back it up with \`${commands.backup}\`; restore, with the API stopped, with \`${commands.restore}\` ` +
+      '(both read the password from PGPASSWORD or ~/.pgpass).',
+  );
+}
 const notOurs = (detail: string) => new HttpProblem(422, 'not-a-sylvasift-backup', 'Not a Sylvasift backup', detail);
 
 const exec = (db: RawSqlite, sql: string) => new Promise<void>((resolve, reject) => db.exec(sql, (error) => (error ? reject(error) : resolve())));
@@ -40,7 +54,7 @@ function stamp(date: Date): string {
 
 export function backupService(sequelize: Sequelize, backupDir: string, afterRestore: () => void) {
   function requireSqlite(): void {
-    if (sequelize.getDialect() !== 'sqlite') throw notSqlite();
+    if (sequelize.getDialect() !== 'sqlite') throw notSqlite(sequelize);
   }
 
   function fileOf(name: string): string {

@@ -4,6 +4,8 @@ import type { Logger } from 'pino';
 
 /** How long a connection waits for another writer before SQLite reports SQLITE_BUSY. */
 const BUSY_TIMEOUT_MS = 5000;
+/** Most PostgreSQL connections one process holds (the server's default limit is 100 for all clients). */
+const POSTGRES_POOL_MAX = 10;
 
 interface SqliteConnection {
   configure(option: 'busyTimeout', value: number): void;
@@ -23,7 +25,12 @@ interface ConnectionManagerLike {
 export async function openDatabase(databaseUrl: string, logger?: Logger): Promise<Sequelize> {
   const logging = logger ? (sql: string) => logger.debug({ sql }, 'sql') : false;
   if (!databaseUrl.startsWith('sqlite:')) {
-    const sequelize = new Sequelize(databaseUrl, { logging });
+    // PostgreSQL: a connection pool, none of the SQLite pragmas (foreign keys are always enforced there).
+    const sequelize = new Sequelize(databaseUrl, {
+      dialect: 'postgres',
+      logging,
+      pool: { max: POSTGRES_POOL_MAX, min: 0, idle: 10_000, acquire: 30_000 },
+    });
     await sequelize.authenticate();
     return sequelize;
   }

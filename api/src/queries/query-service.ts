@@ -51,6 +51,8 @@ export function queryService(deps: QueryDeps) {
   /** Moves a query in a transaction, records who did it, then mails the people following it. */
   async function move(actor: User, id: number, action: QueryAction, from: QueryState[], note: string | null, write: (transaction: Transaction) => Promise<void>): Promise<CellQuery> {
     const query = await sequelize.transaction(async (transaction) => {
+      // PostgreSQL: hold the query's row until commit, so two moves of one query cannot both pass the check (SQLite ignores row locks; it has one writer).
+      await models.Query.findByPk(id, { attributes: ['id'], lock: transaction.LOCK.UPDATE, transaction });
       const before = await one(id, transaction);
       if (!from.includes(before.state)) {
         throw problems.conflict(`Query ${id} is ${before.state}; it can be ${action} only when ${from.join(' or ')}.`, { state: before.state });

@@ -66,13 +66,12 @@ export async function insertMatrixDocument(models: Models, doc: MatrixDocument, 
 
 /** Reads the working matrix (retired taxa and traits left out) as a matrix document. */
 export async function readWorkingMatrix(models: Models, meta: { title: string; region?: string }, transaction?: Transaction): Promise<MatrixDocument> {
-  const [traitRows, valueRows, taxonRows, cellRows, pairRows] = await Promise.all([
-    models.Trait.findAll({ where: { retired: false }, order: [['position', 'ASC'], ['code', 'ASC']], transaction }),
-    models.TraitValue.findAll({ where: { retired: false }, order: [['position', 'ASC'], ['id', 'ASC']], transaction }),
-    models.Taxon.findAll({ where: { retired: false }, order: [['id', 'ASC']], transaction }),
-    models.Cell.findAll({ order: [['id', 'ASC']], transaction }),
-    models.InseparablePair.findAll({ order: [['id', 'ASC']], transaction }),
-  ]);
+  // One read after another: in a transaction they share one connection, and a PostgreSQL connection runs one query at a time.
+  const traitRows = await models.Trait.findAll({ where: { retired: false }, order: [['position', 'ASC'], ['code', 'ASC']], transaction });
+  const valueRows = await models.TraitValue.findAll({ where: { retired: false }, order: [['position', 'ASC'], ['id', 'ASC']], transaction });
+  const taxonRows = await models.Taxon.findAll({ where: { retired: false }, order: [['id', 'ASC']], transaction });
+  const cellRows = await models.Cell.findAll({ order: [['id', 'ASC']], transaction });
+  const pairRows = await models.InseparablePair.findAll({ order: [['id', 'ASC']], transaction });
 
   const valuesByTrait = new Map<string, typeof valueRows>();
   for (const row of valueRows) {
