@@ -4,7 +4,7 @@ import { isRole } from '../auth/principal';
 import { problems } from '../http/problem';
 import { SignInLocked, type AccountService } from './account-service';
 import { accountView, sessionView } from './account-views';
-import { stringField } from './request-fields';
+import { stringField } from '../http/request-fields';
 
 const bearerToken = (header: string | undefined) => (header ?? '').replace(/^Bearer\s+/i, '').trim();
 

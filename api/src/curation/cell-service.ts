@@ -2,9 +2,9 @@ import type { Sequelize } from 'sequelize';
 import type { Cell } from '@shared/engine';
 import type { Models } from '../db/models';
 import { problems } from '../http/problem';
-import { recordAudit, type Actor } from './audit-store';
+import { recordAudit, type Actor } from '../matrix/audit-store';
 import { changeKeepingMatrixValid } from './matrix-guard';
-import { writeTransaction } from './write-transaction';
+import { writeTransaction } from '../matrix/write-transaction';
 import { readCell, writeCellIfVersion, type CellState } from './working-matrix-store';
 
 export interface CurationDeps {

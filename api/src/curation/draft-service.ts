@@ -2,7 +2,7 @@ import { validateMatrix, type MatrixProblem } from '@shared/engine';
 import type { EditionSummary, Models } from '../db/models';
 import type { EditionCatalog } from '../editions/edition-catalog';
 import { summariseChanges } from '../editions/edition-service';
-import { readWorkingMatrix } from '../taxa/matrix-store';
+import { readWorkingMatrix } from '../matrix/matrix-store';
 
 export interface DraftSummary {
   /** the edition the draft is compared with (the current one), or null before the first */

@@ -1,10 +1,10 @@
 import { UniqueConstraintError } from 'sequelize';
 import type { PlantPart, Season, TraitKind } from '@shared/engine';
 import { problems } from '../http/problem';
-import { recordAudit, type Actor } from './audit-store';
+import { recordAudit, type Actor } from '../matrix/audit-store';
 import type { CurationDeps } from './cell-service';
 import { changeKeepingMatrixValid } from './matrix-guard';
-import { writeTransaction } from './write-transaction';
+import { writeTransaction } from '../matrix/write-transaction';
 
 export interface TaxonFields {
   scientificName: string;

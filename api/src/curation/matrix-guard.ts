@@ -1,8 +1,8 @@
 import type { Transaction } from 'sequelize';
 import type { MatrixProblem } from '@shared/engine';
 import type { Models } from '../db/models';
-import { readWorkingMatrix } from '../taxa/matrix-store';
-import { matrixErrors, matrixInvalid } from './matrix-problems';
+import { readWorkingMatrix } from '../matrix/matrix-store';
+import { matrixErrors, matrixInvalid } from '../matrix/matrix-problems';
 
 function keyOf(problem: MatrixProblem): string {
   return `${problem.code}|${problem.path}|${problem.message}`;

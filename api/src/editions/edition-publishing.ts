@@ -1,7 +1,7 @@
 import type { Sequelize } from 'sequelize';
 import type { Models } from '../db/models';
-import { recordAudit, type Actor } from '../curation/audit-store';
-import { assertPublishable } from '../curation/matrix-problems';
+import { recordAudit, type Actor } from '../matrix/audit-store';
+import { assertPublishable } from '../matrix/matrix-problems';
 import type { EditionCatalog } from './edition-catalog';
 import { publishEdition } from './edition-service';
 import { editionView, type EditionView } from './edition-views';

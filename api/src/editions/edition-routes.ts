@@ -1,8 +1,8 @@
 import { Router } from 'express';
 import { requireUser } from '../auth/guards';
-import { actorOf } from '../curation/actor';
+import { actorOf } from '../matrix/actor';
 import { cachePolicy } from '../http/caching';
-import { openToAnonymousButKeysNeed } from '../http/lookup-access';
+import { openToAnonymousButKeysNeed } from '../auth/lookup-access';
 import { getEdition, listEditions } from './edition-reading';
 import { publishWorkingMatrix, type PublishingDeps } from './edition-publishing';
 

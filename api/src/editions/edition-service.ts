@@ -1,8 +1,8 @@
 import type { Sequelize, Transaction } from 'sequelize';
 import type { MatrixDocument } from '@shared/engine/types';
 import type { EditionSummary, Models } from '../db/models';
-import { readWorkingMatrix } from '../taxa/matrix-store';
-import { writeTransaction } from '../curation/write-transaction';
+import { readWorkingMatrix } from '../matrix/matrix-store';
+import { writeTransaction } from '../matrix/write-transaction';
 
 export interface PublishRequest {
   title: string;

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { requireUser } from '../auth/guards';
-import { actorOf } from '../curation/actor';
+import { actorOf } from '../matrix/actor';
 import type { CurationDeps } from '../curation/cell-service';
 import { cachePolicy } from '../http/caching';
 import { applyImport, previewImport, type ImportMode, type UploadedSheet } from './import-service';

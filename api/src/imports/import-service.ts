@@ -1,11 +1,11 @@
-import type { Actor } from '../curation/audit-store';
-import { recordAudit } from '../curation/audit-store';
+import type { Actor } from '../matrix/audit-store';
+import { recordAudit } from '../matrix/audit-store';
 import type { CurationDeps } from '../curation/cell-service';
 import { changeKeepingMatrixValid } from '../curation/matrix-guard';
-import { writeTransaction } from '../curation/write-transaction';
+import { writeTransaction } from '../matrix/write-transaction';
 import { writeCellIfVersion } from '../curation/working-matrix-store';
 import { HttpProblem, problems } from '../http/problem';
-import { readWorkingMatrix } from '../taxa/matrix-store';
+import { readWorkingMatrix } from '../matrix/matrix-store';
 import { planImport, type ImportPlan } from './import-plan';
 import { readCellVersions } from './import-store';
 import { readSheet, type SheetProblem } from './sheet-reading';

@@ -2,7 +2,7 @@ import { Router } from 'express';
 import type { AppContext } from '../app';
 import { currentUser, requireUser } from '../auth/guards';
 import { problems } from '../http/problem';
-import { idParam } from '../accounts/request-fields';
+import { idParam } from '../http/request-fields';
 import { studyService, type NewStudySet, type StudySetChange } from './study-service';
 import type { StudySet } from './study-store';
 

@@ -2,7 +2,7 @@ import type { Sequelize } from 'sequelize';
 import type { Models } from '../db/models';
 import type { Principal } from '../auth/principal';
 import { problems, type InvalidParam } from '../http/problem';
-import { writeTransaction } from '../curation/write-transaction';
+import { writeTransaction } from '../matrix/write-transaction';
 import { studyModels } from './study-models';
 import { deleteStudySet, findTaxa, insertStudySet, readStudySets, replaceTaxa, updateStudySet, type StudyData, type StudySet, type StudySetFields } from './study-store';
 

@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { requireUser } from '../auth/guards';
-import { actorOf } from '../curation/actor';
+import { actorOf } from '../matrix/actor';
 import { attachPhoto, locatePhoto, type PhotoDeps } from './photo-service';
 
 interface MultipartFile {

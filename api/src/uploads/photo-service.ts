@@ -4,7 +4,7 @@ import path from 'node:path';
 import sharp from 'sharp';
 import type { Models } from '../db/models';
 import { HttpProblem, problems } from '../http/problem';
-import { recordAudit, type Actor } from '../curation/audit-store';
+import { recordAudit, type Actor } from '../matrix/audit-store';
 import { findPhotoByFileName, insertPhoto } from './photo-store';
 import { photoView, type PhotoView } from './photo-urls';
 

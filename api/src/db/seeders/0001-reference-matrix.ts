@@ -1,7 +1,7 @@
 import path from 'node:path';
 import { loadReferenceMatrix } from '../../../../seeds/load-matrix';
 import { REPO_ROOT } from '../../config';
-import { insertMatrixDocument } from '../../taxa/matrix-store';
+import { insertMatrixDocument } from '../../matrix/matrix-store';
 import { publishEdition } from '../../editions/edition-service';
 import type { Step } from '../migrator';
 

@@ -10,7 +10,7 @@
  */
 import type { Model, ModelStatic, Transaction } from 'sequelize';
 import type { Models } from '../db/models';
-import type { Principal } from './principal';
+import type { Principal } from '../auth/principal';
 
 /** How long a looked-up principal is trusted: the most another process may lag a revocation. */
 export const PRINCIPAL_CACHE_MS = 5000;

@@ -2,11 +2,11 @@ import type { RequestHandler } from 'express';
 import passport from 'passport';
 import { Strategy as BearerStrategy } from 'passport-http-bearer';
 import type { Models } from '../db/models';
-import { unauthorized } from './challenge';
-import type { Principal } from './principal';
+import { unauthorized } from '../auth/challenge';
+import type { Principal } from '../auth/principal';
 import type { PrincipalCache } from './principal-cache';
 import { findKeyPrincipal, findSessionPrincipal } from './principal-store';
-import { hashToken, KEY_PREFIX, SESSION_PREFIX } from './tokens';
+import { hashToken, KEY_PREFIX, SESSION_PREFIX } from '../auth/tokens';
 
 async function principalFor(models: Models, principals: PrincipalCache, token: string): Promise<Principal | undefined> {
   if (token.startsWith(SESSION_PREFIX)) {

@@ -1,6 +1,6 @@
 import { Op } from 'sequelize';
 import type { Models } from '../db/models';
-import { isScope } from './principal';
+import { isScope } from '../auth/principal';
 import type { Found } from './principal-cache';
 
 /** Latest representable date: a partner key has no expiry of its own. */

@@ -5,12 +5,12 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { pino } from 'pino';
-import { loadConfig } from '../config';
-import { openDatabase } from './database';
-import { createMigrator, createSeeder } from './migrator';
-import { defineModels } from './models';
+import { loadConfig } from './config';
+import { openDatabase } from './db/database';
+import { createMigrator, createSeeder } from './db/migrator';
+import { defineModels } from './db/models';
 
-const USAGE = 'usage: tsx api/src/db/cli.ts migrate | seed | reset';
+const USAGE = 'usage: tsx api/src/db-cli.ts migrate | seed | reset';
 
 async function main(command: string | undefined): Promise<void> {
   if (command !== 'migrate' && command !== 'seed' && command !== 'reset') throw new Error(USAGE);
