@@ -1,6 +1,7 @@
 import type { Sequelize } from 'sequelize';
 import type { Cell } from '@shared/engine';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionModels } from '../editions/edition-models';
 import { problems } from '../http/problem';
 import { recordAudit, type Actor } from '../matrix/audit-store';
 import { changeKeepingMatrixValid } from './matrix-guard';
@@ -9,7 +10,7 @@ import { readCell, writeCellIfVersion, type CellState } from './working-matrix-s
 
 export interface CurationDeps {
   sequelize: Sequelize;
-  models: Models;
+  models: MatrixModels & EditionModels;
 }
 
 export interface CellChange {
@@ -19,7 +20,7 @@ export interface CellChange {
   reason: string;
 }
 
-async function assertCellExists(models: Models, taxonId: string, traitCode: string): Promise<void> {
+async function assertCellExists(models: MatrixModels & EditionModels, taxonId: string, traitCode: string): Promise<void> {
   const [taxon, trait] = await Promise.all([models.Taxon.findByPk(taxonId), models.Trait.findByPk(traitCode)]);
   if (!taxon || taxon.retired) throw problems.notFound(`There is no taxon "${taxonId}" in the working matrix.`);
   if (!trait || trait.retired) throw problems.notFound(`There is no trait "${traitCode}" in the working matrix.`);

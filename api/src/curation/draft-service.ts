@@ -1,5 +1,6 @@
 import { validateMatrix, type MatrixProblem } from '@shared/engine';
-import type { EditionSummary, Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionSummary, EditionModels } from '../editions/edition-models';
 import type { EditionCatalog } from '../editions/edition-catalog';
 import { summariseChanges } from '../editions/edition-service';
 import { readWorkingMatrix } from '../matrix/matrix-store';
@@ -15,7 +16,7 @@ export interface DraftSummary {
 }
 
 /** What publishing now would change, and whether the draft can be published. */
-export async function summariseDraft(models: Models, editions: EditionCatalog): Promise<DraftSummary> {
+export async function summariseDraft(models: MatrixModels & EditionModels, editions: EditionCatalog): Promise<DraftSummary> {
   const draft = await readWorkingMatrix(models, { title: 'draft' });
   const current = (await models.Edition.count()) > 0 ? await editions.current() : undefined;
   const summary = summariseChanges(current?.document, draft);

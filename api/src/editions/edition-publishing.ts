@@ -1,5 +1,6 @@
 import type { Sequelize } from 'sequelize';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionModels } from './edition-models';
 import { recordAudit, type Actor } from '../matrix/audit-store';
 import { assertPublishable } from '../matrix/matrix-problems';
 import type { EditionCatalog } from './edition-catalog';
@@ -8,7 +9,7 @@ import { editionView, type EditionView } from './edition-views';
 
 export interface PublishingDeps {
   sequelize: Sequelize;
-  models: Models;
+  models: MatrixModels & EditionModels;
   editions: EditionCatalog;
 }
 

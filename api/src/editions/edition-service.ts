@@ -1,6 +1,7 @@
 import type { Sequelize, Transaction } from 'sequelize';
 import type { MatrixDocument } from '@shared/engine/types';
-import type { EditionSummary, Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionSummary, EditionModels } from './edition-models';
 import { readWorkingMatrix } from '../matrix/matrix-store';
 import { writeTransaction } from '../matrix/write-transaction';
 
@@ -51,7 +52,7 @@ export interface PublishHooks {
 }
 
 /** Publishes the working matrix as the next immutable, numbered edition, in one transaction. */
-export async function publishEdition(sequelize: Sequelize, models: Models, request: PublishRequest, hooks: PublishHooks = {}): Promise<PublishedEdition> {
+export async function publishEdition(sequelize: Sequelize, models: MatrixModels & EditionModels, request: PublishRequest, hooks: PublishHooks = {}): Promise<PublishedEdition> {
   return writeTransaction(sequelize, async (transaction) => {
     const document = await readWorkingMatrix(models, { title: request.title, region: request.region }, transaction);
     hooks.check?.(document);

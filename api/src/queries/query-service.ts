@@ -1,6 +1,9 @@
 import type { Logger } from 'pino';
 import type { Sequelize, Transaction } from 'sequelize';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { AccountModels } from '../accounts/account-models';
+import type { QueryModels } from './query-models';
+import type { EditionModels } from '../editions/edition-models';
 import type { Mailer } from '../mail/mailer';
 import type { Principal } from '../auth/principal';
 import { problems } from '../http/problem';
@@ -14,7 +17,7 @@ type User = Extract<Principal, { kind: 'user' }>;
 
 export interface QueryDeps {
   sequelize: Sequelize;
-  models: Models;
+  models: MatrixModels & EditionModels & AccountModels & QueryModels;
   mailer: Mailer;
   logger: Logger;
   publicUrl: string;

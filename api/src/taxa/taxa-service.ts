@@ -1,5 +1,7 @@
 import { compare, diagnose, type SeparationStrength } from '@shared/engine';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionModels } from '../editions/edition-models';
+import type { PhotoModels } from '../uploads/photo-models';
 import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog';
 import { problems } from '../http/problem';
 import { listPhotos } from '../uploads/photo-store';
@@ -11,7 +13,7 @@ import { codedTraits, taxonReference, taxonSummary, type CodedTrait, type TaxonS
 
 export interface LookupDeps {
   editions: EditionCatalog;
-  models: Models;
+  models: MatrixModels & EditionModels & PhotoModels;
 }
 
 export interface TaxonPage {

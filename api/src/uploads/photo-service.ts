@@ -2,7 +2,8 @@ import { randomBytes } from 'node:crypto';
 import fs from 'node:fs/promises';
 import path from 'node:path';
 import sharp from 'sharp';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { PhotoModels } from './photo-models';
 import { HttpProblem, problems } from '../http/problem';
 import { recordAudit, type Actor } from '../matrix/audit-store';
 import { findPhotoByFileName, insertPhoto } from './photo-store';
@@ -18,7 +19,7 @@ const ACCEPTED_FORMATS = new Set(['jpeg', 'png', 'webp', 'heif', 'avif', 'tiff']
 const STORED_NAME = /^[0-9a-f]{32}\.(jpg|webp)$/;
 
 export interface PhotoDeps {
-  models: Models;
+  models: MatrixModels & PhotoModels;
   uploadsDir: string;
 }
 
