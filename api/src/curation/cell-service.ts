@@ -27,7 +27,7 @@ async function assertCellExists(models: MatrixModels & EditionModels, taxonId: s
 }
 
 /** One cell of the working matrix with its version, for editing. */
-export async function getCell(deps: CurationDeps, taxonId: string, traitCode: string): Promise<CellState> {
+async function getCell(deps: CurationDeps, taxonId: string, traitCode: string): Promise<CellState> {
   await assertCellExists(deps.models, taxonId, traitCode);
   return readCell(deps.models, taxonId, traitCode);
 }
@@ -36,7 +36,7 @@ export async function getCell(deps: CurationDeps, taxonId: string, traitCode: st
  * Sets one cell. The curator names the version they read; if someone else saved in between, nothing
  * is written and the answer is 409 with the cell as it is now. The new value must fit the trait.
  */
-export async function setCell(deps: CurationDeps, actor: Actor, taxonId: string, traitCode: string, change: CellChange): Promise<CellState> {
+async function setCell(deps: CurationDeps, actor: Actor, taxonId: string, traitCode: string, change: CellChange): Promise<CellState> {
   await assertCellExists(deps.models, taxonId, traitCode);
   return writeTransaction(deps.sequelize, async (transaction) => {
     const before = await readCell(deps.models, taxonId, traitCode, transaction);
@@ -59,3 +59,13 @@ export async function setCell(deps: CurationDeps, actor: Actor, taxonId: string,
     return { taxonId, traitCode, value: change.value, version };
   });
 }
+
+/** Cells of the working matrix, read and written with optimistic locking. */
+export function cellService(deps: CurationDeps) {
+  return {
+    get: getCell.bind(null, deps),
+    set: setCell.bind(null, deps),
+  };
+}
+
+export type CellService = ReturnType<typeof cellService>;

@@ -1,6 +1,6 @@
 import { loadReferenceMatrix } from '../../../../seeds/load-matrix';
 import { insertMatrixDocument } from '../../matrix/matrix-store';
-import { publishEdition } from '../../editions/edition-service';
+import { snapshotWorkingMatrix } from '../../editions/edition-snapshot';
 import type { Step } from '../step';
 
 /** Loads the reference tree matrix from seeds/matrix into the working matrix and publishes edition 1. */
@@ -9,7 +9,7 @@ export const referenceMatrix: Step = {
   async up({ context: { sequelize, models, config, logger } }) {
     const doc = loadReferenceMatrix(config.seedsDir);
     await sequelize.transaction((transaction) => insertMatrixDocument(models, doc, transaction));
-    const edition = await publishEdition(sequelize, models, { title: doc.title, region: doc.region, publishedBy: 'seed' });
+    const edition = await snapshotWorkingMatrix(sequelize, models, { title: doc.title, region: doc.region, publishedBy: 'seed' });
     logger?.info({ edition: edition.number, taxa: doc.taxa.length, traits: doc.traits.length }, 'reference matrix seeded');
   },
   async down({ context: { sequelize, models } }) {
