@@ -2,44 +2,25 @@
 import eslint from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import angular from 'angular-eslint';
+import { readFileSync } from 'node:fs';
 import globals from 'globals';
 import { importX } from 'eslint-plugin-import-x';
 import { createTypeScriptImportResolver } from 'eslint-import-resolver-typescript';
 
 /**
- * Which api/src folders each folder may import (besides its own files and packages). Lower layers
- * first; a folder never imports one that imports it, so there are no folder cycles. The files
+ * api/layers.json: which api/src folders each folder may import (besides its own files and
+ * packages; `*` is any folder). Lower layers first; a folder never imports one that imports it, so there are no folder cycles. The files
  * directly in api/src (app.ts, config.ts, server.ts, db-cli.ts) are the composition root: they may
  * import any folder and no folder imports them. db/ assembles every feature's models, runs the
  * migrations and seeders, and is imported by the root alone (admin reads only the migration list).
- * scripts/check-layers.ts checks the same thing from the actual imports, so a table entry added
- * here cannot bring a cycle in unnoticed.
+ * scripts/check-layers.ts reads the same table and fails on a folder missing from it, on an import
+ * the table does not allow, and on any folder cycle in the actual imports (type-only ones included).
  */
-const API_LAYERS = {
-  http: [],
-  mail: [],
-  docs: [],
-  health: [],
-  site: [],
-  auth: ['http'],
-  matrix: ['auth', 'http'],
-  editions: ['auth', 'http', 'matrix'],
-  uploads: ['auth', 'http', 'matrix'],
-  taxa: ['editions', 'http', 'matrix', 'uploads'],
-  traits: ['editions', 'http'],
-  compare: ['editions', 'http', 'taxa'],
-  identify: ['auth', 'editions', 'http', 'taxa'],
-  curation: ['auth', 'editions', 'http', 'matrix'],
-  imports: ['auth', 'curation', 'http', 'matrix', 'taxa'],
-  accounts: ['auth', 'http', 'mail'],
-  keys: ['auth', 'http'],
-  gate: ['accounts', 'auth', 'http', 'keys'],
-  admin: ['accounts', 'auth', 'db/migrations', 'http', 'keys'],
-  queries: ['accounts', 'auth', 'curation', 'editions', 'http', 'mail', 'matrix'],
-  study: ['accounts', 'auth', 'http', 'matrix'],
-};
+const API_LAYERS = JSON.parse(readFileSync(new URL('./api/layers.json', import.meta.url), 'utf8'));
 
-const layerRules = Object.entries(API_LAYERS).map(([folder, allowed]) => ({
+const layerRules = Object.entries(API_LAYERS)
+  .filter(([, allowed]) => !allowed.includes('*'))
+  .map(([folder, allowed]) => ({
   files: [`api/src/${folder}/**/*.ts`],
   rules: {
     'no-restricted-imports': [
@@ -49,7 +30,7 @@ const layerRules = Object.entries(API_LAYERS).map(([folder, allowed]) => ({
           {
             // `../<folder>/…` is another api/src folder; `db/migrations` is allowed as the list itself only
             regex: `^\\.\\./(?!(?:${allowed.map((a) => (a.includes('/') ? `${a}$` : `${a}/`)).join('|') || '(?!)'}))[^./][^/]*(/|$)`,
-            message: `api/src/${folder} may import only ${allowed.length ? allowed.join(', ') : 'no other api/src folder'} (see API_LAYERS in eslint.config.js and DEVELOPERS.md).`,
+            message: `api/src/${folder} may import only ${allowed.length ? allowed.join(', ') : 'no other api/src folder'} (see api/layers.json and DEVELOPERS.md).`,
           },
           {
             regex: '-routes$',

@@ -1,14 +1,19 @@
 /**
  * Fails when the folders of api/src import each other in a circle. ESLint's import-x/no-cycle sees
  * cycles between files only; this sees cycles between folders (accounts -> keys -> accounts), which
- * is what keeps the components apart. The files directly in api/src (app.ts, config.ts, server.ts)
- * are the composition root: they may import every folder, and no folder may import them.
+ * is what keeps the components apart. It also fails on a folder that api/layers.json (the table
+ * eslint.config.js enforces) does not list, and on an import that table does not allow. The files
+ * directly in api/src (app.ts, config.ts, server.ts, db-cli.ts) are the composition root: they may
+ * import every folder, and no folder may import them. Type-only imports count: a type cycle is a cycle.
  *
- * Prints every folder's imports, then every cycle (or that there is none). `--quiet` prints only problems.
+ * Prints every folder's imports, then the problems (or that there are none). `--quiet` prints only problems.
  */
 import fs from 'node:fs';
 import path from 'node:path';
 import ts from 'typescript';
+import layers from '../api/layers.json';
+
+const LAYERS: Record<string, string[]> = layers;
 
 const ROOT = path.resolve(import.meta.dirname, '..');
 const SOURCE = path.join(ROOT, 'api/src');
@@ -38,6 +43,9 @@ function importsOf(file: string): string[] {
 
 const edges = new Map<string, Map<string, string[]>>();
 const problems: string[] = [];
+const folders = fs.readdirSync(SOURCE, { withFileTypes: true }).filter((entry) => entry.isDirectory()).map((entry) => entry.name);
+for (const folder of folders) if (!(folder in LAYERS)) problems.push(`api/src/${folder} is not in api/layers.json: say which folders it may import`);
+for (const folder of Object.keys(LAYERS)) if (!folders.includes(folder)) problems.push(`api/layers.json lists ${folder}, which is not a folder of api/src`);
 for (const file of sourceFiles(SOURCE)) {
   const from = folderOf(file);
   if (from === undefined) continue;
@@ -48,6 +56,11 @@ for (const file of sourceFiles(SOURCE)) {
     if (to === ROOT_NODE) {
       problems.push(`${where}: only the composition root (api/src/*.ts) may import api/src/${path.basename(specifier)}; pass what is needed in`);
       continue;
+    }
+    const allowed = LAYERS[from];
+    const target = path.relative(SOURCE, path.resolve(path.dirname(file), specifier)).split(path.sep).join('/');
+    if (allowed && !allowed.includes('*') && !allowed.includes(to) && !allowed.includes(target)) {
+      problems.push(`${where}: api/src/${from} may import only ${allowed.join(', ') || 'no other api/src folder'} (api/layers.json)`);
     }
     const targets = edges.get(from) ?? new Map<string, string[]>();
     targets.set(to, [...(targets.get(to) ?? []), where]);
@@ -110,4 +123,4 @@ if (problems.length > 0) {
   console.error(`\n${problems.length} layer problem(s):\n  - ${problems.join('\n  - ')}`);
   process.exit(1);
 }
-console.log(quiet ? 'api/src: no folder-level import cycles' : '\nno folder-level import cycles in api/src');
+console.log(quiet ? 'api/src: no folder-level import cycles; every import keeps api/layers.json' : '\nno folder-level import cycles in api/src; every import keeps api/layers.json');
