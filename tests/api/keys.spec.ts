@@ -163,7 +163,7 @@ describe('api: partner keys', () => {
       const a = await startTestApp(env);
       const b = await startTestApp(env);
       try {
-        expect(a.context.people.limiterStores.kind).to.equal('redis');
+        expect(a.context.limiterStores.kind).to.equal('redis');
         // the same key in both databases, so both apps recognise it
         const owner = await signUpAndSignIn(a, 'learner');
         const { key } = await createPartnerKey(a, owner.token, ['lookup']);

@@ -4,7 +4,7 @@ import { randomBytes } from 'node:crypto';
 import type { Sequelize } from 'sequelize';
 import { HttpProblem, problems } from '../http/problem';
 import { migrations } from '../db/migrations';
-import { isPostgres, postgresBackupCommands } from '../db/dialect';
+import { isPostgres, postgresBackupCommands } from '../sql/dialect';
 
 export interface Backup {
   name: string;

@@ -1,5 +1,14 @@
 import { randomBytes, scrypt, timingSafeEqual, type ScryptOptions } from 'node:crypto';
-import type { ScryptParams } from '../accounts/people-config';
+
+/** scrypt parameters for new password hashes; old hashes keep the parameters stored beside them */
+export interface ScryptParams {
+  /** CPU/memory cost N, a power of two */
+  N: number;
+  /** block size r */
+  r: number;
+  /** parallelisation p */
+  p: number;
+}
 
 const KEY_LENGTH = 32;
 const SALT_BYTES = 16;

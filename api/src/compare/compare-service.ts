@@ -53,7 +53,7 @@ function assertComparable(edition: LoadedEdition, ids: readonly string[]): void 
 }
 
 /** Side by side: the traits that tell the taxa apart, those that overlap, and those they share. */
-export async function compareTaxa(editions: EditionCatalog, request: CompareRequest): Promise<Comparison> {
+async function compareTaxa(editions: EditionCatalog, request: CompareRequest): Promise<Comparison> {
   const edition = await editions.current();
   assertComparable(edition, request.taxa);
   const result = compare(edition.compiled, request.taxa);
@@ -83,3 +83,12 @@ export async function compareTaxa(editions: EditionCatalog, request: CompareRequ
     notCoded: result.notCoded.map(describe),
   };
 }
+
+/** Side by side in the current edition. */
+export function compareService(editions: EditionCatalog) {
+  return {
+    compare: compareTaxa.bind(null, editions),
+  };
+}
+
+export type CompareService = ReturnType<typeof compareService>;

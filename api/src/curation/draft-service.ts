@@ -1,8 +1,14 @@
 import { validateMatrix, type MatrixProblem } from '@shared/engine';
-import type { EditionSummary, Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionSummary, EditionModels } from '../editions/edition-models';
 import type { EditionCatalog } from '../editions/edition-catalog';
-import { summariseChanges } from '../editions/edition-service';
-import { readWorkingMatrix } from '../taxa/matrix-store';
+import { summariseChanges } from '../editions/edition-snapshot';
+import { readWorkingMatrix } from '../matrix/matrix-store';
+
+export interface DraftDeps {
+  models: MatrixModels & EditionModels;
+  editions: EditionCatalog;
+}
 
 export interface DraftSummary {
   /** the edition the draft is compared with (the current one), or null before the first */
@@ -15,7 +21,7 @@ export interface DraftSummary {
 }
 
 /** What publishing now would change, and whether the draft can be published. */
-export async function summariseDraft(models: Models, editions: EditionCatalog): Promise<DraftSummary> {
+async function summariseDraft({ models, editions }: DraftDeps): Promise<DraftSummary> {
   const draft = await readWorkingMatrix(models, { title: 'draft' });
   const current = (await models.Edition.count()) > 0 ? await editions.current() : undefined;
   const summary = summariseChanges(current?.document, draft);
@@ -25,3 +31,12 @@ export async function summariseDraft(models: Models, editions: EditionCatalog): 
     summary.cellsChanged + summary.taxaAdded.length + summary.taxaRemoved.length + summary.traitsAdded.length + summary.traitsRemoved.length > 0;
   return { basedOn: current?.number ?? null, summary, publishable: errors.length === 0 && changed, errors: errors.slice(0, 100), warnings: found.length - errors.length };
 }
+
+/** The draft: the working matrix compared with the current edition. */
+export function draftService(deps: DraftDeps) {
+  return {
+    summarise: summariseDraft.bind(null, deps),
+  };
+}
+
+export type DraftService = ReturnType<typeof draftService>;

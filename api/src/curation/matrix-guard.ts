@@ -1,15 +1,16 @@
 import type { Transaction } from 'sequelize';
 import type { MatrixProblem } from '@shared/engine';
-import type { Models } from '../db/models';
-import { readWorkingMatrix } from '../taxa/matrix-store';
-import { matrixErrors, matrixInvalid } from './matrix-problems';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionModels } from '../editions/edition-models';
+import { readWorkingMatrix } from '../matrix/matrix-store';
+import { matrixErrors, matrixInvalid } from '../matrix/matrix-problems';
 
 function keyOf(problem: MatrixProblem): string {
   return `${problem.code}|${problem.path}|${problem.message}`;
 }
 
 /** The working matrix's errors right now (inside the transaction, so it sees uncommitted changes). */
-async function currentErrors(models: Models, transaction: Transaction): Promise<MatrixProblem[]> {
+async function currentErrors(models: MatrixModels & EditionModels, transaction: Transaction): Promise<MatrixProblem[]> {
   return matrixErrors(await readWorkingMatrix(models, { title: 'working matrix' }, transaction));
 }
 
@@ -18,7 +19,7 @@ async function currentErrors(models: Models, transaction: Transaction): Promise<
  * introduced any error (one the matrix did not have before), it throws a 422 problem and the
  * transaction rolls back, so nothing is written.
  */
-export async function changeKeepingMatrixValid<T>(models: Models, transaction: Transaction, what: string, change: () => Promise<T>): Promise<T> {
+export async function changeKeepingMatrixValid<T>(models: MatrixModels & EditionModels, transaction: Transaction, what: string, change: () => Promise<T>): Promise<T> {
   const before = new Set((await currentErrors(models, transaction)).map(keyOf));
   const result = await change();
   const introduced = (await currentErrors(models, transaction)).filter((problem) => !before.has(keyOf(problem)));

@@ -1,11 +1,10 @@
 import { Router } from 'express';
 import swaggerUi from 'swagger-ui-express';
-import { loadOpenApiDocument } from './openapi-document';
+import type { OpenAPIV3_1 } from 'openapi-types';
 
 /** Swagger UI at /api/docs and the raw contract at /api/openapi.json. */
-export function docsRoutes(): Router {
+export function docsRoutes(document: OpenAPIV3_1.Document): Router {
   const router = Router();
-  const document = loadOpenApiDocument();
   router.get('/openapi.json', (_req, res) => {
     res.set('Cache-Control', 'public, max-age=300').json(document);
   });

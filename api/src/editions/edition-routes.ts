@@ -1,18 +1,18 @@
 import { Router } from 'express';
 import { requireUser } from '../auth/guards';
-import { actorOf } from '../curation/actor';
+import { actorOf } from '../matrix/actor';
 import { cachePolicy } from '../http/caching';
-import { openToAnonymousButKeysNeed } from '../http/lookup-access';
-import { getEdition, listEditions } from './edition-reading';
-import { publishWorkingMatrix, type PublishingDeps } from './edition-publishing';
+import { openToAnonymousButKeysNeed } from '../auth/lookup-access';
+import { editionService, type EditionDeps } from './edition-service';
 
 /** Published editions, the current edition's engine bundle, and publishing a new edition. */
-export function editionRoutes(deps: PublishingDeps): Router {
+export function editionRoutes(deps: EditionDeps): Router {
   const router = Router();
+  const editions = editionService(deps);
   const lookup = openToAnonymousButKeysNeed('lookup');
 
   router.get('/', lookup, async (_req, res) => {
-    const result = await listEditions(deps.models);
+    const result = await editions.list();
     cachePolicy.publicLookup(res);
     res.json(result);
   });
@@ -27,14 +27,14 @@ export function editionRoutes(deps: PublishingDeps): Router {
   });
 
   router.get('/:number', lookup, async (req, res) => {
-    const result = await getEdition(deps.models, Number(req.params['number']));
+    const result = await editions.get(Number(req.params['number']));
     cachePolicy.publicLookup(res);
     res.json(result);
   });
 
   router.post('/', requireUser('curator'), async (req, res) => {
     const body = req.body as { title: string; region?: string; reason: string };
-    const edition = await publishWorkingMatrix(deps, actorOf(req.principal), body);
+    const edition = await editions.publish(actorOf(req.principal), body);
     cachePolicy.noStore(res);
     res.status(201).location(`/api/v1/editions/${edition.number}`).json(edition);
   });

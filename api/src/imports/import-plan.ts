@@ -5,7 +5,7 @@
  * lists every cell the sheet changes exactly once, and leaves the matrix free of new errors.
  */
 import type { Cell, DiscreteCell, Frequency, MatrixDocument, MatrixProblem, Trait } from '@shared/engine';
-import { matrixErrors } from '../curation/matrix-problems';
+import { matrixErrors } from '../matrix/matrix-problems';
 import { isDiscreteCell, isNumericCell } from '../taxa/taxon-views';
 import { codeRow, quoted } from './row-coding';
 import type { Sheet, SheetColumn, SheetProblem } from './sheet-reading';

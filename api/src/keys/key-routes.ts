@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { currentUser, requireUser } from '../auth/guards';
 import { isScope, type Scope } from '../auth/principal';
 import { problems } from '../http/problem';
-import { idParam, stringField } from '../accounts/request-fields';
+import { idParam, stringField } from '../http/request-fields';
 import type { KeyService, KeyWithUsage } from './key-service';
 import type { PartnerKey } from './key-store';
 

@@ -1,5 +1,5 @@
 import type { Logger } from 'pino';
-import type { Models } from '../db/models';
+import type { KeyModels } from './key-models';
 import type { Principal, Scope } from '../auth/principal';
 import { hashToken, KEY_PREFIX, newPartnerKey } from '../auth/tokens';
 import { problems } from '../http/problem';
@@ -15,7 +15,7 @@ export interface KeyWithUsage extends PartnerKey {
 
 const utcDay = (date: Date) => date.toISOString().slice(0, 10);
 
-export function keyService(models: Models, logger?: Logger) {
+export function keyService(models: KeyModels, logger?: Logger) {
   const counter = new UsageCounter(models, logger);
 
   async function withUsage(keys: PartnerKey[]): Promise<KeyWithUsage[]> {

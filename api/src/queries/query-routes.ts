@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { currentUser, requireUser } from '../auth/guards';
 import { problems } from '../http/problem';
-import { idParam, stringField } from '../accounts/request-fields';
+import { idParam, stringField } from '../http/request-fields';
 import type { CellChange } from '../curation/cell-service';
 import type { QueryState } from './query-models';
 import type { QueryService } from './query-service';

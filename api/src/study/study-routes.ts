@@ -1,9 +1,8 @@
 import { Router } from 'express';
-import type { AppContext } from '../app';
 import { currentUser, requireUser } from '../auth/guards';
 import { problems } from '../http/problem';
-import { idParam } from '../accounts/request-fields';
-import { studyService, type NewStudySet, type StudySetChange } from './study-service';
+import { idParam } from '../http/request-fields';
+import { studyService, type NewStudySet, type StudyDeps, type StudySetChange } from './study-service';
 import type { StudySet } from './study-store';
 
 const studySetView = (set: StudySet) => ({ ...set, createdAt: set.createdAt.toISOString(), updatedAt: set.updatedAt.toISOString() });
@@ -88,8 +87,8 @@ function studySetChange(raw: unknown): StudySetChange {
 }
 
 /** Study sets: a coach's species list for an event or class (mounted at /api/v1/study-sets). */
-export function studyRoutes(context: Pick<AppContext, 'sequelize' | 'models'>): Router {
-  const study = studyService(context);
+export function studyRoutes(deps: StudyDeps): Router {
+  const study = studyService(deps);
   const router = Router();
   const coach = requireUser('coach');
   router.use(requireUser(), (_req, res, next) => {

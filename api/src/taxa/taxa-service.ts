@@ -1,5 +1,7 @@
 import { compare, diagnose, type SeparationStrength } from '@shared/engine';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionModels } from '../editions/edition-models';
+import type { PhotoModels } from '../uploads/photo-models';
 import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog';
 import { problems } from '../http/problem';
 import { listPhotos } from '../uploads/photo-store';
@@ -11,7 +13,7 @@ import { codedTraits, taxonReference, taxonSummary, type CodedTrait, type TaxonS
 
 export interface LookupDeps {
   editions: EditionCatalog;
-  models: Models;
+  models: MatrixModels & EditionModels & PhotoModels;
 }
 
 export interface TaxonPage {
@@ -94,7 +96,7 @@ function diagnoseAmongLookAlikes(edition: LoadedEdition, taxonId: string, lookAl
 }
 
 /** Finds published taxa by name, one page at a time. */
-export async function findPublishedTaxa(deps: LookupDeps, query: string, page: number, pageSize: number): Promise<TaxonPage> {
+async function findPublishedTaxa(deps: LookupDeps, query: string, page: number, pageSize: number): Promise<TaxonPage> {
   const edition = await deps.editions.current();
   const matches = searchTaxa(edition.document.taxa, query);
   const start = (page - 1) * pageSize;
@@ -109,7 +111,7 @@ export async function findPublishedTaxa(deps: LookupDeps, query: string, page: n
 }
 
 /** Everything a species page shows about one published taxon. */
-export async function describePublishedTaxon(deps: LookupDeps, id: string): Promise<TaxonDetail> {
+async function describePublishedTaxon(deps: LookupDeps, id: string): Promise<TaxonDetail> {
   const edition = await deps.editions.current();
   const taxon = edition.taxaById.get(id);
   if (!taxon) throw problems.notFound(`There is no taxon "${id}" in edition ${edition.number}.`);
@@ -136,3 +138,13 @@ export async function describePublishedTaxon(deps: LookupDeps, id: string): Prom
     generalCautions: GENERAL_CAUTIONS,
   };
 }
+
+/** Species lookup in the current edition: search and one taxon in full. */
+export function taxaService(deps: LookupDeps) {
+  return {
+    find: findPublishedTaxa.bind(null, deps),
+    describe: describePublishedTaxon.bind(null, deps),
+  };
+}
+
+export type TaxaService = ReturnType<typeof taxaService>;

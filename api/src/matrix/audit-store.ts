@@ -1,5 +1,5 @@
 import { Op, type Transaction, type WhereOptions } from 'sequelize';
-import type { Models } from '../db/models';
+import type { MatrixModels } from './matrix-models';
 
 export type AuditEntity = 'taxon' | 'trait' | 'trait-value' | 'cell' | 'import' | 'edition' | 'photo';
 
@@ -34,7 +34,7 @@ export interface AuditFilter {
   before?: number;
 }
 
-export async function recordAudit(models: Models, actor: Actor, entries: AuditEntryInput[], transaction?: Transaction): Promise<void> {
+export async function recordAudit(models: MatrixModels, actor: Actor, entries: AuditEntryInput[], transaction?: Transaction): Promise<void> {
   if (entries.length === 0) return;
   await models.AuditEntry.bulkCreate(
     entries.map((entry) => ({
@@ -52,7 +52,7 @@ export async function recordAudit(models: Models, actor: Actor, entries: AuditEn
 }
 
 /** Audit entries matching the filter, newest first. */
-export async function listAudit(models: Models, filter: AuditFilter): Promise<AuditEntry[]> {
+export async function listAudit(models: MatrixModels, filter: AuditFilter): Promise<AuditEntry[]> {
   const where: WhereOptions = {};
   if (filter.entity) Object.assign(where, { entity: filter.entity });
   if (filter.entityKey) Object.assign(where, { entityKey: filter.entityKey });
@@ -73,6 +73,6 @@ export async function listAudit(models: Models, filter: AuditFilter): Promise<Au
   }));
 }
 
-export async function countAudit(models: Models): Promise<number> {
+export async function countAudit(models: MatrixModels): Promise<number> {
   return models.AuditEntry.count();
 }

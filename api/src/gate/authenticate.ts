@@ -1,14 +1,15 @@
 import type { RequestHandler } from 'express';
 import passport from 'passport';
 import { Strategy as BearerStrategy } from 'passport-http-bearer';
-import type { Models } from '../db/models';
-import { unauthorized } from './challenge';
-import type { Principal } from './principal';
+import type { AccountModels } from '../accounts/account-models';
+import type { KeyModels } from '../keys/key-models';
+import { unauthorized } from '../auth/challenge';
+import type { Principal } from '../auth/principal';
 import type { PrincipalCache } from './principal-cache';
 import { findKeyPrincipal, findSessionPrincipal } from './principal-store';
-import { hashToken, KEY_PREFIX, SESSION_PREFIX } from './tokens';
+import { hashToken, KEY_PREFIX, SESSION_PREFIX } from '../auth/tokens';
 
-async function principalFor(models: Models, principals: PrincipalCache, token: string): Promise<Principal | undefined> {
+async function principalFor(models: AccountModels & KeyModels, principals: PrincipalCache, token: string): Promise<Principal | undefined> {
   if (token.startsWith(SESSION_PREFIX)) {
     const tokenHash = hashToken(token);
     return principals.resolve(tokenHash, () => findSessionPrincipal(models, tokenHash, new Date()));
@@ -29,7 +30,7 @@ function isPrincipal(value: unknown): value is Principal {
  * No header means anonymous; a header that does not name a live token is a 401. Principals found
  * are kept in `principals` for a few seconds (see PrincipalCache for how writes invalidate them).
  */
-export function authenticate(models: Models, principals: PrincipalCache): RequestHandler {
+export function authenticate(models: AccountModels & KeyModels, principals: PrincipalCache): RequestHandler {
   // One authenticator per app, so test apps with their own databases never share a strategy.
   const authenticator = new passport.Passport();
   authenticator.use(

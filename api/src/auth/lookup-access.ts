@@ -1,6 +1,6 @@
 import type { RequestHandler } from 'express';
-import { forbidden } from '../auth/challenge';
-import type { Scope } from '../auth/principal';
+import { forbidden } from './challenge';
+import type { Scope } from './principal';
 
 /**
  * Published data is open to anonymous visitors and signed-in users; a partner key presenting

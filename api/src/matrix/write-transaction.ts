@@ -1,5 +1,5 @@
 import type { Sequelize, Transaction } from 'sequelize';
-import { takeCurationWriteLock } from '../db/dialect';
+import { takeCurationWriteLock } from '../sql/dialect';
 
 /**
  * SQLite has one writer at a time, and an in-memory database runs every transaction on one shared

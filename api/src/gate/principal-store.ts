@@ -1,13 +1,14 @@
 import { Op } from 'sequelize';
-import type { Models } from '../db/models';
-import { isScope } from './principal';
+import type { AccountModels } from '../accounts/account-models';
+import type { KeyModels } from '../keys/key-models';
+import { isScope } from '../auth/principal';
 import type { Found } from './principal-cache';
 
 /** Latest representable date: a partner key has no expiry of its own. */
 const NEVER = new Date(8.64e15);
 
 /** The signed-in user behind a live session token hash, or undefined (unknown, expired, revoked or deactivated). */
-export async function findSessionPrincipal(models: Models, tokenHash: string, now: Date): Promise<Found | undefined> {
+export async function findSessionPrincipal(models: AccountModels & KeyModels, tokenHash: string, now: Date): Promise<Found | undefined> {
   const session = await models.Session.findOne({
     where: { tokenHash, revokedAt: null, expiresAt: { [Op.gt]: now } },
   });
@@ -18,7 +19,7 @@ export async function findSessionPrincipal(models: Models, tokenHash: string, no
 }
 
 /** The partner key behind a key hash, or undefined (unknown, revoked, or its owner deactivated). */
-export async function findKeyPrincipal(models: Models, keyHash: string): Promise<Found | undefined> {
+export async function findKeyPrincipal(models: AccountModels & KeyModels, keyHash: string): Promise<Found | undefined> {
   const key = await models.PartnerKey.findOne({ where: { keyHash, revokedAt: null } });
   if (!key) return undefined;
   const owner = await models.User.findByPk(key.ownerId);

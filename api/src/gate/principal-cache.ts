@@ -9,8 +9,9 @@
  * database learn of the write only when their entries expire: up to PRINCIPAL_CACHE_MS later.
  */
 import type { Model, ModelStatic, Transaction } from 'sequelize';
-import type { Models } from '../db/models';
-import type { Principal } from './principal';
+import type { AccountModels } from '../accounts/account-models';
+import type { KeyModels } from '../keys/key-models';
+import type { Principal } from '../auth/principal';
 
 /** How long a looked-up principal is trusted: the most another process may lag a revocation. */
 export const PRINCIPAL_CACHE_MS = 5000;
@@ -74,7 +75,7 @@ export class PrincipalCache {
   }
 
   /** Empties the cache on every write to users, sessions and partner keys that could change a principal. */
-  watch(models: Models): this {
+  watch(models: AccountModels & KeyModels): this {
     const invalidate = (options: WriteOptions | undefined) => {
       if (options?.fields && options.fields.every((field) => typeof field === 'string' && BOOKKEEPING.has(field))) return;
       this.clear();

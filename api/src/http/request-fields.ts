@@ -1,4 +1,4 @@
-import { problems } from '../http/problem';
+import { problems } from './problem';
 
 /** Reads one string field of a JSON body; the contract validator normally catches these first. */
 export function stringField(body: unknown, name: string, options: { optional?: boolean; max?: number } = {}): string {

@@ -1,9 +1,9 @@
 import type { Transaction } from 'sequelize';
 import type { Cell, MatrixDocument, Taxon, Trait } from '@shared/engine/types';
-import type { Models } from '../db/models';
+import type { MatrixModels } from './matrix-models';
 
 /** Writes a whole matrix document into empty working-matrix tables (seeding, restore of a draft). */
-export async function insertMatrixDocument(models: Models, doc: MatrixDocument, transaction: Transaction): Promise<void> {
+export async function insertMatrixDocument(models: MatrixModels, doc: MatrixDocument, transaction: Transaction): Promise<void> {
   await models.Trait.bulkCreate(
     doc.traits.map((trait, position) => ({
       code: trait.code,
@@ -65,7 +65,7 @@ export async function insertMatrixDocument(models: Models, doc: MatrixDocument, 
 }
 
 /** Reads the working matrix (retired taxa and traits left out) as a matrix document. */
-export async function readWorkingMatrix(models: Models, meta: { title: string; region?: string }, transaction?: Transaction): Promise<MatrixDocument> {
+export async function readWorkingMatrix(models: MatrixModels, meta: { title: string; region?: string }, transaction?: Transaction): Promise<MatrixDocument> {
   // One read after another: in a transaction they share one connection, and a PostgreSQL connection runs one query at a time.
   const traitRows = await models.Trait.findAll({ where: { retired: false }, order: [['position', 'ASC'], ['code', 'ASC']], transaction });
   const valueRows = await models.TraitValue.findAll({ where: { retired: false }, order: [['position', 'ASC'], ['id', 'ASC']], transaction });

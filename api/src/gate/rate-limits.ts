@@ -3,9 +3,24 @@ import { rateLimit, MemoryStore, type Options, type Store } from 'express-rate-l
 import { RedisStore, type RedisReply } from 'rate-limit-redis';
 import { Redis } from 'ioredis';
 import type { Logger } from 'pino';
-import type { PeopleConfig } from '../accounts/people-config';
 import { problems } from '../http/problem';
 import type { Principal } from '../auth/principal';
+
+/** Request limits per caller (config section `limits`). */
+export interface LimitsConfig {
+  /** failed sign-ins one IP address may make per 15 minutes */
+  signInPerIpPer15Min: number;
+  /** requests one partner key may make per minute */
+  keyPerMinute: number;
+  /** requests one partner key may make per UTC day (its quota) */
+  keyDailyQuota: number;
+  /** anonymous downloads of the current bundle per IP address per hour */
+  anonymousBundlePerHour: number;
+  /** anonymous API requests per IP address per minute */
+  anonymousPerMinute: number;
+  /** when set, rate-limit counters live in Redis so several API processes share them */
+  redisUrl: string | undefined;
+}
 
 const MINUTE = 60_000;
 const HOUR = 60 * MINUTE;
@@ -20,7 +35,7 @@ export interface LimiterStores {
   close(): Promise<void>;
 }
 
-export function createLimiterStores(config: PeopleConfig, logger: Logger): LimiterStores {
+export function createLimiterStores(config: LimitsConfig, logger: Logger): LimiterStores {
   if (!config.redisUrl) {
     return { kind: 'memory', storeFor: () => new MemoryStore(), close: async () => undefined };
   }
@@ -62,7 +77,7 @@ function limiter(stores: LimiterStores, name: string, options: Partial<Options> 
   });
 }
 
-export function createRateLimiters(config: PeopleConfig, stores: LimiterStores): RateLimiters {
+export function createRateLimiters(config: LimitsConfig, stores: LimiterStores): RateLimiters {
   const keyId = (principal: Principal | undefined) => (principal?.kind === 'key' ? `key-${principal.keyId}` : '');
   return {
     signIn: limiter(
