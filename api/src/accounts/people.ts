@@ -61,7 +61,7 @@ export async function startPeople(deps: PeopleDeps): Promise<People> {
 
   const routes = Router();
   routes.use('/', accountRoutes(accounts, limiters.signIn));
-  routes.use('/keys', keyRoutes(keys));
+  routes.use('/keys', keyRoutes(keys, limiters.partnerKeyQuota));
   routes.use('/admin/keys', adminKeyRoutes(keys));
   routes.use('/admin/users', userAdminRoutes(userAdminService(sequelize, models)));
   routes.use('/admin/backups', backupRoutes(backupService(sequelize, config.people.backupDir, () => {
