@@ -109,9 +109,9 @@ describe('e2e: Partner keys and Admin', function () {
     const call = () => page.request.post(`${running.baseUrl}/api/v1/identify`, { headers: { Authorization: `Bearer ${key}` }, data: IDENTIFY_BODY });
     const answer = await call();
     expect(answer.status(), await answer.text()).to.equal(200);
-    const ranked = (await answer.json()) as { candidates: Array<{ taxonId: string }> };
-    // Three needles in a bundle: pitch and loblolly pine among the first (Flora of North America vol. 2, Pinus, from memory)
-    expect(ranked.candidates.slice(0, 6).map((c) => c.taxonId)).to.include('pinus-taeda');
+    const ranked = (await answer.json()) as { candidates: Array<{ taxon: { id: string } }> };
+    // Loblolly pine has its needles in bundles of three (Flora of North America vol. 2, Pinus taeda; from memory)
+    expect(ranked.candidates.slice(0, 6).map((c) => c.taxon.id)).to.include('pinus-taeda');
 
     // The new key's usage opened with it; after a refresh it shows today's call.
     const card = page.locator(`li.key[data-key-id]`).filter({ hasText: 'Fernway Trails field test' });

@@ -71,7 +71,7 @@ function sizeWords(bytes: number): string {
         @if (backups().length === 0) {
           <p class="notice empty-state">There is no backup yet. Make one before a large import or an upgrade.</p>
         } @else {
-          <div class="table-wrap">
+          <div class="table-wrap" tabindex="0" role="region" aria-label="Backups (table)">
             <table mat-table [dataSource]="backups()" [trackBy]="trackBackup">
               <caption class="visually-hidden">Backups, newest first</caption>
               <ng-container matColumnDef="name">

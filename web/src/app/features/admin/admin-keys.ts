@@ -41,7 +41,7 @@ type KeysState = { status: 'loading' } | { status: 'ready'; keys: PartnerKey[]; 
         @if (keys().length === 0) {
           <p class="notice empty-state">Nobody has a partner key yet.</p>
         } @else {
-          <div class="table-wrap">
+          <div class="table-wrap" tabindex="0" role="region" aria-label="Every partner key (table)">
             <table mat-table [dataSource]="keys()" [trackBy]="trackKey">
               <caption class="visually-hidden">Every partner key, newest first</caption>
               <ng-container matColumnDef="name">

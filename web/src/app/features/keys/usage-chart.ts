@@ -22,7 +22,7 @@ function dayWords(day: string): string {
   imports: [DatePipe, DecimalPipe, MatButton, MatIcon],
   template: `
     <figure>
-      <div class="peak" aria-hidden="true">{{ peak() | number }} a day</div>
+      <div class="peak" aria-hidden="true">{{ peak() === 0 ? 'No requests' : 'Busiest day: ' + (peak() | number) }}</div>
       <svg class="chart" [attr.viewBox]="viewBox" role="img" [attr.aria-label]="summary()" preserveAspectRatio="none">
         <line class="axis" x1="0" [attr.y1]="height" [attr.x2]="width" [attr.y2]="height" />
         <line class="axis faint" x1="0" y1="0" [attr.x2]="width" y2="0" />
@@ -38,7 +38,7 @@ function dayWords(day: string): string {
       {{ showTable() ? 'Hide the table' : 'Show as a table' }}
     </button>
     @if (showTable()) {
-      <div class="table-wrap" [id]="tableId()">
+      <div class="table-wrap" [id]="tableId()" tabindex="0" role="region" [attr.aria-label]="'Requests per day, ' + keyName()">
         <table>
           <caption>Requests per day (UTC), {{ caption() }}</caption>
           <thead>
@@ -98,6 +98,10 @@ function dayWords(day: string): string {
     .table-wrap {
       max-height: 320px;
       overflow: auto;
+      &:focus-visible {
+        outline: 3px solid var(--mat-sys-primary);
+        outline-offset: 2px;
+      }
     }
     table {
       border-collapse: collapse;
