@@ -94,6 +94,8 @@ describe('e2e: Partner keys and Admin', function () {
     const created = page.locator('section.created');
     await created.waitFor();
     expect(squash(await created.textContent())).to.contain('it will not be shown again');
+    // the emptied form is ready for another key, with no error left over from the refusals
+    expect(await page.locator('mat-error').count()).to.equal(0);
     const key = squash(await created.locator('.token').textContent());
     expect(key).to.match(/^svk_[A-Za-z0-9_-]{43}$/);
     const curl = squash(await created.locator('.curl').textContent());

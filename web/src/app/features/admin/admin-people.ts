@@ -1,8 +1,8 @@
-import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject, signal, viewChild } from '@angular/core';
 import { DatePipe } from '@angular/common';
 import { HttpClient } from '@angular/common/http';
 import { toSignal } from '@angular/core/rxjs-interop';
-import { FormControl, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
+import { FormControl, FormGroupDirective, NonNullableFormBuilder, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButton } from '@angular/material/button';
 import { MatError, MatFormField, MatHint, MatLabel, MatPrefix } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
@@ -74,6 +74,8 @@ export class AdminPeople {
     email: ['', [Validators.required, Validators.email, Validators.maxLength(254)]],
     role: this.#fb.control<Role>('learner', Validators.required),
   });
+  /** resetting through the directive also clears its submitted state, so the empty form shows no errors */
+  readonly #inviteForm = viewChild(FormGroupDirective);
   protected readonly inviting = signal(false);
   protected readonly inviteProblem = signal<string | null>(null);
   protected readonly invited = signal<string | null>(null);
@@ -145,7 +147,7 @@ export class AdminPeople {
         this.inviting.set(false);
         const until = new Date(sent.expiresAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' });
         this.invited.set(`Invitation sent to ${sent.email} as ${ROLE_WORDS[sent.role].toLowerCase()}. The link in it works once, until ${until}.`);
-        this.invite.reset({ email: '', role: 'learner' });
+        this.#inviteForm()?.resetForm({ email: '', role: 'learner' });
       },
       // what was typed stays; the server's reasons appear beside the fields they name
       error: (error: unknown) => {

@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component, DOCUMENT, type ElementRef, computed, inject, signal, viewChild } from '@angular/core';
 import { DatePipe, DecimalPipe } from '@angular/common';
-import { NonNullableFormBuilder, ReactiveFormsModule, Validators, type AbstractControl, type ValidationErrors } from '@angular/forms';
+import { FormGroupDirective, NonNullableFormBuilder, ReactiveFormsModule, Validators, type AbstractControl, type ValidationErrors } from '@angular/forms';
 import { CdkCopyToClipboard } from '@angular/cdk/clipboard';
 import { MatButton } from '@angular/material/button';
 import { MatCheckbox } from '@angular/material/checkbox';
@@ -71,6 +71,8 @@ export default class KeysPage {
   protected readonly revokeProblem = signal<{ id: number; message: string } | null>(null);
 
   protected readonly createdPanel = viewChild<ElementRef<HTMLElement>>('createdPanel');
+  /** resetting through the directive also clears its submitted state, so the empty form shows no errors */
+  readonly #formDirective = viewChild(FormGroupDirective);
 
   protected readonly keys = computed(() => {
     const list = this.list();
@@ -117,7 +119,7 @@ export default class KeysPage {
         this.creating.set(false);
         this.created.set(key);
         this.copied.set(null);
-        this.form.reset({ name: '', scopes: { lookup: true, identify: true } });
+        this.#formDirective()?.resetForm({ name: '', scopes: { lookup: true, identify: true } });
         this.loadKeys();
         this.showUsage(key.id);
         // the secret is the one thing to act on now: bring it into view and put the focus on it
