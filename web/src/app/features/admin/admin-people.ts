@@ -75,7 +75,7 @@ export class AdminPeople {
     role: this.#fb.control<Role>('learner', Validators.required),
   });
   /** resetting through the directive also clears its submitted state, so the empty form shows no errors */
-  readonly #inviteForm = viewChild(FormGroupDirective);
+  private readonly inviteForm = viewChild(FormGroupDirective);
   protected readonly inviting = signal(false);
   protected readonly inviteProblem = signal<string | null>(null);
   protected readonly invited = signal<string | null>(null);
@@ -147,7 +147,7 @@ export class AdminPeople {
         this.inviting.set(false);
         const until = new Date(sent.expiresAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' });
         this.invited.set(`Invitation sent to ${sent.email} as ${ROLE_WORDS[sent.role].toLowerCase()}. The link in it works once, until ${until}.`);
-        this.#inviteForm()?.resetForm({ email: '', role: 'learner' });
+        this.inviteForm()?.resetForm({ email: '', role: 'learner' });
       },
       // what was typed stays; the server's reasons appear beside the fields they name
       error: (error: unknown) => {

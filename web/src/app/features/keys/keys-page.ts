@@ -72,7 +72,7 @@ export default class KeysPage {
 
   protected readonly createdPanel = viewChild<ElementRef<HTMLElement>>('createdPanel');
   /** resetting through the directive also clears its submitted state, so the empty form shows no errors */
-  readonly #formDirective = viewChild(FormGroupDirective);
+  private readonly formDirective = viewChild(FormGroupDirective);
 
   protected readonly keys = computed(() => {
     const list = this.list();
@@ -119,7 +119,7 @@ export default class KeysPage {
         this.creating.set(false);
         this.created.set(key);
         this.copied.set(null);
-        this.#formDirective()?.resetForm({ name: '', scopes: { lookup: true, identify: true } });
+        this.formDirective()?.resetForm({ name: '', scopes: { lookup: true, identify: true } });
         this.loadKeys();
         this.showUsage(key.id);
         // the secret is the one thing to act on now: bring it into view and put the focus on it
