@@ -150,7 +150,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   app.use('/api/v1/curation', curationRoutes({ sequelize, models, editions }));
   app.use('/api/v1/study-sets', studyRoutes({ sequelize, models }));
   app.use('/api/v1', accountRoutes({ sessions, links }, limiters.signIn));
-  app.use('/api/v1/keys', keyRoutes(keys));
+  app.use('/api/v1/keys', keyRoutes(keys, limiters.partnerKeyQuota));
   app.use('/api/v1/admin/keys', adminKeyRoutes(keys));
   app.use('/api/v1/admin/users', userAdminRoutes(userAdminService(sequelize, models)));
   app.use('/api/v1/admin/backups', backupRoutes(backups));

@@ -217,6 +217,17 @@ describe('api: permission table (every route × every caller)', function () {
       expect: users(204),
     },
 
+    {
+      operation: 'GET /api/v1/keys/{id}/usage',
+      prepare: async (caller) => {
+        // users read a key of their own; the others aim at someone else's
+        const owner = ROLES.includes(caller as Role) ? people[caller as Role] : raiser;
+        const { id } = await createPartnerKey(created, owner.token, ['lookup']);
+        return { url: `/api/v1/keys/${id}/usage` };
+      },
+      expect: users(200),
+    },
+
     // admin
     { operation: 'GET /api/v1/admin/users', prepare: () => ({ url: '/api/v1/admin/users' }), expect: users(200, ['admin']) },
     {
@@ -234,6 +245,12 @@ describe('api: permission table (every route × every caller)', function () {
     // Backups copy SQLite files; on PostgreSQL an admin gets the 501 that names pg_dump instead.
     { operation: 'GET /api/v1/admin/backups', prepare: () => ({ url: '/api/v1/admin/backups' }), expect: users(BACKUPS_REFUSED ? 501 : 200, ['admin']) },
     { operation: 'POST /api/v1/admin/backups', prepare: () => ({ url: '/api/v1/admin/backups' }), expect: users(BACKUPS_REFUSED ? 501 : 201, ['admin']) },
+    // a name of the right shape with no file behind it: admins get through the guard to the 404
+    {
+      operation: 'GET /api/v1/admin/backups/{name}',
+      prepare: () => ({ url: '/api/v1/admin/backups/sylvasift-20260101T000000000Z-000000.sqlite' }),
+      expect: users(BACKUPS_REFUSED ? 501 : 404, ['admin']),
+    },
     {
       operation: 'POST /api/v1/admin/backups/{name}/restore',
       prepare: () => ({ url: '/api/v1/admin/backups/sylvasift-20260101T000000000Z-000000.sqlite/restore' }),

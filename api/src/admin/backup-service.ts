@@ -128,6 +128,15 @@ export function backupService(sequelize: Sequelize, backupDir: string, afterRest
       return backups.sort((a, b) => b.name.localeCompare(a.name));
     },
 
+    /** The file of one backup, for downloading it. */
+    async fileFor(name: string): Promise<string> {
+      requireSqlite();
+      const file = fileOf(name);
+      const found = await fs.stat(file).catch(() => undefined);
+      if (!found?.isFile()) throw problems.notFound(`There is no backup ${name}.`);
+      return file;
+    },
+
     /**
      * Replaces every row of every table with the snapshot's, in one transaction (foreign keys
      * checked at commit). The file must be a SQLite database with this version's schema.

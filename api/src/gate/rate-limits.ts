@@ -1,10 +1,11 @@
 import type { RequestHandler } from 'express';
-import { rateLimit, MemoryStore, type Options, type Store } from 'express-rate-limit';
+import { rateLimit, MemoryStore, type Options, type RateLimitRequestHandler, type Store } from 'express-rate-limit';
 import { RedisStore, type RedisReply } from 'rate-limit-redis';
 import { Redis } from 'ioredis';
 import type { Logger } from 'pino';
 import { problems } from '../http/problem';
 import type { Principal } from '../auth/principal';
+import type { QuotaLeft } from '../keys/quota';
 
 /** Request limits per caller (config section `limits`). */
 export interface LimitsConfig {
@@ -60,13 +61,15 @@ export interface RateLimiters {
   signIn: RequestHandler;
   /** per partner key: a per-minute rate and a daily quota; passes everyone else through */
   partnerKey: RequestHandler[];
+  /** what the daily limiter has left for one key (read from its own store, so it is the number it enforces) */
+  partnerKeyQuota(keyId: number): Promise<QuotaLeft>;
   /** anonymous downloads of the current bundle per IP address per hour */
   anonymousBundle: RequestHandler;
   /** all anonymous API calls per IP address per minute */
   anonymous: RequestHandler;
 }
 
-function limiter(stores: LimiterStores, name: string, options: Partial<Options> & Pick<Options, 'windowMs' | 'limit'>, detail: string): RequestHandler {
+function limiter(stores: LimiterStores, name: string, options: Partial<Options> & Pick<Options, 'windowMs' | 'limit'>, detail: string): RateLimitRequestHandler {
   return rateLimit({
     standardHeaders: 'draft-8',
     legacyHeaders: false,
@@ -79,6 +82,12 @@ function limiter(stores: LimiterStores, name: string, options: Partial<Options> 
 
 export function createRateLimiters(config: LimitsConfig, stores: LimiterStores): RateLimiters {
   const keyId = (principal: Principal | undefined) => (principal?.kind === 'key' ? `key-${principal.keyId}` : '');
+  const keyDay = limiter(
+    stores,
+    'key-day',
+    { windowMs: DAY, limit: config.keyDailyQuota, skip: (req) => req.principal?.kind !== 'key', keyGenerator: (req) => keyId(req.principal) },
+    `This partner key has used its quota of ${config.keyDailyQuota} requests a day.`,
+  );
   return {
     signIn: limiter(
       stores,
@@ -93,13 +102,17 @@ export function createRateLimiters(config: LimitsConfig, stores: LimiterStores):
         { windowMs: MINUTE, limit: config.keyPerMinute, skip: (req) => req.principal?.kind !== 'key', keyGenerator: (req) => keyId(req.principal) },
         `This partner key made more than ${config.keyPerMinute} requests in a minute.`,
       ),
-      limiter(
-        stores,
-        'key-day',
-        { windowMs: DAY, limit: config.keyDailyQuota, skip: (req) => req.principal?.kind !== 'key', keyGenerator: (req) => keyId(req.principal) },
-        `This partner key has used its quota of ${config.keyDailyQuota} requests a day.`,
-      ),
+      keyDay,
     ],
+    async partnerKeyQuota(id) {
+      const window = await keyDay.getKey(`key-${id}`);
+      const open = window?.resetTime !== undefined && window.resetTime.getTime() > Date.now();
+      return {
+        limit: config.keyDailyQuota,
+        remaining: open ? Math.max(config.keyDailyQuota - window.totalHits, 0) : config.keyDailyQuota,
+        resetsAt: open ? window.resetTime ?? null : null,
+      };
+    },
     anonymousBundle: limiter(
       stores,
       'bundle-anonymous',

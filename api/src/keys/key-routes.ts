@@ -5,6 +5,7 @@ import { problems } from '../http/problem';
 import { idParam, stringField } from '../http/request-fields';
 import type { KeyService, KeyWithUsage } from './key-service';
 import type { PartnerKey } from './key-store';
+import type { QuotaLeft } from './quota';
 
 const keyView = (key: PartnerKey) => ({
   id: key.id,
@@ -27,8 +28,8 @@ function scopesField(body: unknown): Scope[] {
   return value;
 }
 
-/** A signed-in user's partner keys (mounted at /api/v1/keys). */
-export function keyRoutes(keys: KeyService): Router {
+/** A signed-in user's partner keys (mounted at /api/v1/keys); `quotaLeft` reads the daily limiter. */
+export function keyRoutes(keys: KeyService, quotaLeft: (keyId: number) => Promise<QuotaLeft>): Router {
   const router = Router();
   router.use(requireUser(), (_req, res, next) => {
     res.set('Cache-Control', 'no-store');
@@ -43,6 +44,12 @@ export function keyRoutes(keys: KeyService): Router {
   router.get('/', async (req, res) => {
     const list = await keys.listOwn(currentUser(req.principal).userId);
     res.json({ keys: list.map(keyWithUsageView) });
+  });
+
+  router.get('/:id/usage', async (req, res) => {
+    const { key, days, total } = await keys.usageOf(currentUser(req.principal).userId, idParam(req.params['id']));
+    const quota = await quotaLeft(key.id);
+    res.json({ keyId: key.id, days, total, quota: { limit: quota.limit, remaining: quota.remaining, resetsAt: quota.resetsAt ? quota.resetsAt.toISOString() : null } });
   });
 
   router.delete('/:id', async (req, res) => {
