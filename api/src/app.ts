@@ -8,6 +8,7 @@ import { openDatabase } from './db/database';
 import { defineModels, type Models } from './db/models';
 import { prepareDatabase } from './db/migrator';
 import { apiNotFound, problemErrorHandler } from './http/error-handler';
+import { dynamicCompression } from './http/compression';
 import { healthRoutes } from './health/health-routes';
 import { docsRoutes } from './docs/docs-routes';
 import { webRoutes } from './web/web-routes';
@@ -94,6 +95,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
       },
     }),
   );
+  app.use(dynamicCompression());
   app.use(express.json({ limit: '256kb' }));
   app.use('/api/v1', people.gate);
   app.use('/api/v1/editions/current/bundle', people.anonymousBundleLimit);
