@@ -34,8 +34,10 @@ export type ContentCoding = 'br' | 'gzip';
 
 /** The coding to answer with, from the request's Accept-Encoding (brotli first, as it is smaller); null for none. */
 export function preferredCoding(req: Request): ContentCoding | null {
-  const chosen = req.acceptsEncodings('br', 'gzip', 'identity');
-  return chosen === 'br' || chosen === 'gzip' ? chosen : null;
+  // Browsers list gzip first with no weights, so the server's preference decides among accepted ones.
+  if (req.acceptsEncodings('br') === 'br') return 'br';
+  if (req.acceptsEncodings('gzip') === 'gzip') return 'gzip';
+  return null;
 }
 
 const brotliAsync = promisify(brotliCompress);
