@@ -9,10 +9,11 @@ import { defineModels, type Models } from './db/models';
 import { prepareDatabase } from './db/migrator';
 import { apiNotFound, problemErrorHandler } from './http/error-handler';
 import { contractValidation, type ContractViolation } from './http/openapi-validation';
+import { dynamicCompression } from './http/compression';
 import { healthRoutes } from './health/health-routes';
 import { docsRoutes } from './docs/docs-routes';
 import { loadOpenApiDocument } from './docs/openapi-document';
-import { webRoutes as siteRoutes } from './site/site-routes';
+import { siteRoutes } from './site/site-routes';
 import { openToAnonymousButKeysNeed } from './auth/lookup-access';
 import { authenticate } from './gate/authenticate';
 import { PrincipalCache } from './gate/principal-cache';
@@ -128,6 +129,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
       },
     }),
   );
+  app.use(dynamicCompression());
   app.use(express.json({ limit: '256kb' }));
   // The gate: who is calling, then the anonymous and per-key limits, then the key's usage count.
   app.use('/api/v1', authenticate(models, principals), limiters.anonymous, ...limiters.partnerKey, countKeyUse);

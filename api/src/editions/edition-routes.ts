@@ -2,6 +2,7 @@ import { Router } from 'express';
 import { requireUser } from '../auth/guards';
 import { actorOf } from '../matrix/actor';
 import { cachePolicy } from '../http/caching';
+import { compressedVariant, preferredCoding, weakTag } from '../http/compression';
 import { openToAnonymousButKeysNeed } from '../auth/lookup-access';
 import { editionService, type EditionDeps } from './edition-service';
 
@@ -17,13 +18,27 @@ export function editionRoutes(deps: EditionDeps): Router {
     res.json(result);
   });
 
-  router.get('/current/bundle', lookup, async (_req, res) => {
+  router.get('/current/bundle', lookup, async (req, res) => {
     const edition = await deps.editions.current();
     const { bytes, etag } = edition.bundle;
     cachePolicy.bundle(res);
-    res.set({ ETag: etag, 'X-Sylvasift-Edition': String(edition.number), 'Last-Modified': edition.publishedAt.toUTCString() });
+    res.set({ 'X-Sylvasift-Edition': String(edition.number), 'Last-Modified': edition.publishedAt.toUTCString() });
     res.vary('Authorization');
-    res.type('application/octet-stream').send(bytes);
+    res.vary('Accept-Encoding');
+    res.type('application/octet-stream');
+    // One compressed copy per edition, made once; its tag is the weak form of the edition's own.
+    const coding = preferredCoding(req);
+    res.set('ETag', coding === null ? etag : weakTag(etag));
+    if (req.fresh) {
+      res.status(304).end();
+      return;
+    }
+    if (coding === null) {
+      res.send(bytes);
+      return;
+    }
+    const compressed = await compressedVariant(bytes, coding);
+    res.set('Content-Encoding', coding).send(compressed);
   });
 
   router.get('/:number', lookup, async (req, res) => {
