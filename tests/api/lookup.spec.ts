@@ -5,12 +5,10 @@ import request from 'supertest';
 import { decodeBundle } from '@shared/engine';
 import type { CreatedApp } from '../../api/src/app';
 import { REPO_ROOT } from '../../api/src/config';
+import { loadGlossary } from '../data/matrix-facts';
 import { assertContractKept, startTestApp } from './support/test-app';
 
-interface Glossary {
-  traits: Array<{ code: string; values?: Array<{ code: string }> }>;
-}
-const glossary = JSON.parse(fs.readFileSync(path.join(REPO_ROOT, '../shared/trait-glossary.json'), 'utf8')) as Glossary;
+const { glossary } = loadGlossary();
 
 describe('api: published lookups (taxa, traits, editions, bundle)', () => {
   let created: CreatedApp;
