@@ -7,6 +7,7 @@ import { listAudit, type AuditEntity } from './audit-store';
 import { getCell, setCell, type CellChange, type CurationDeps } from './cell-service';
 import { summariseDraft } from './draft-service';
 import { createTaxon, createTrait, createValue, updateTaxon, updateTrait, updateValue } from './entity-service';
+import { curatedTaxonView, curatedTraitView, curatedValueView } from './curation-views';
 
 type Body = Record<string, unknown> & { reason: string };
 
@@ -36,36 +37,36 @@ export function curationRoutes(deps: CurationDeps & { editions: EditionCatalog }
     const body = req.body as Body & { id: string };
     const { id: _id, ...fields } = withoutReason(body);
     const taxon = await createTaxon(deps, actorOf(req.principal), body.id, fields as Parameters<typeof createTaxon>[3], body.reason);
-    res.status(201).location(`/api/v1/curation/taxa/${body.id}`).json(taxon);
+    res.status(201).location(`/api/v1/curation/taxa/${body.id}`).json(curatedTaxonView(taxon));
   });
 
   router.patch('/taxa/:id', async (req, res) => {
     const body = req.body as Body;
-    res.json(await updateTaxon(deps, actorOf(req.principal), req.params['id'] as string, withoutReason(body), body.reason));
+    res.json(curatedTaxonView(await updateTaxon(deps, actorOf(req.principal), req.params['id'] as string, withoutReason(body), body.reason)));
   });
 
   router.post('/traits', async (req, res) => {
     const body = req.body as Body & { code: string; values?: Parameters<typeof createTrait>[4] };
     const { code: _code, values: _values, ...fields } = withoutReason(body);
     const trait = await createTrait(deps, actorOf(req.principal), body.code, fields as Parameters<typeof createTrait>[3], body.values ?? [], body.reason);
-    res.status(201).json(trait);
+    res.status(201).json(curatedTraitView(trait, trait.values));
   });
 
   router.patch('/traits/:code', async (req, res) => {
     const body = req.body as Body;
-    res.json(await updateTrait(deps, actorOf(req.principal), req.params['code'] as string, withoutReason(body), body.reason));
+    res.json(curatedTraitView(await updateTrait(deps, actorOf(req.principal), req.params['code'] as string, withoutReason(body), body.reason)));
   });
 
   router.post('/traits/:code/values', async (req, res) => {
     const body = req.body as Body & { code: string };
     const { code: _code, ...fields } = withoutReason(body);
     const value = await createValue(deps, actorOf(req.principal), req.params['code'] as string, body.code, fields as Parameters<typeof createValue>[4], body.reason);
-    res.status(201).json(value);
+    res.status(201).json(curatedValueView(req.params['code'] as string, value));
   });
 
   router.patch('/traits/:code/values/:value', async (req, res) => {
     const body = req.body as Body;
-    res.json(await updateValue(deps, actorOf(req.principal), req.params['code'] as string, req.params['value'] as string, withoutReason(body), body.reason));
+    res.json(curatedValueView(req.params['code'] as string, await updateValue(deps, actorOf(req.principal), req.params['code'] as string, req.params['value'] as string, withoutReason(body), body.reason)));
   });
 
   router.get('/audit', async (req, res) => {

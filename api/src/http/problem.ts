@@ -2,7 +2,8 @@
  * RFC 9457 problem details. Every error the API returns is one of these, served as
  * `application/problem+json` with a stable `type` per kind of problem.
  */
-export const PROBLEM_BASE = 'https://sylvasift.invalid/problems/';
+/** Problem types are pages on this server that explain them (see problem-pages.ts); relative to the answer's own URL. */
+export const PROBLEM_BASE = '/api/problems/';
 
 export interface InvalidParam {
   /** where the bad input is: a JSON pointer into the body (`/observations/2/trait`), or `query.limit` */
