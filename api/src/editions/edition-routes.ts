@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { requireUser } from '../auth/guards';
 import { actorOf } from '../curation/actor';
-import { cachePolicy } from '../http/caching';
+import { cachePolicy, matchesIfNoneMatch } from '../http/caching';
 import { openToAnonymousButKeysNeed } from '../http/lookup-access';
 import { getEdition, listEditions } from './edition-reading';
 import { publishWorkingMatrix, type PublishingDeps } from './edition-publishing';
@@ -17,12 +17,16 @@ export function editionRoutes(deps: PublishingDeps): Router {
     res.json(result);
   });
 
-  router.get('/current/bundle', lookup, async (_req, res) => {
+  router.get('/current/bundle', lookup, async (req, res) => {
     const edition = await deps.editions.current();
     const { bytes, etag } = edition.bundle;
     cachePolicy.bundle(res);
     res.set({ ETag: etag, 'X-Sylvasift-Edition': String(edition.number), 'Last-Modified': edition.publishedAt.toUTCString() });
     res.vary('Authorization');
+    if (matchesIfNoneMatch(req, etag)) {
+      res.status(304).end();
+      return;
+    }
     res.type('application/octet-stream').send(bytes);
   });
 

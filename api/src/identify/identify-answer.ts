@@ -85,10 +85,33 @@ function suggestionView(suggestion: Suggestion): SuggestionView {
   };
 }
 
+/**
+ * Counts are numbers in JSON (`"values": [3]`): a count sent as text (`"3"`) is refused rather than
+ * read as the number it spells, so a client that mixes up its types hears about it.
+ */
+function countsGivenAsText(compiled: CompiledMatrix, observations: readonly Observation[]): ObservationProblem[] {
+  const found: ObservationProblem[] = [];
+  observations.forEach((observation, index) => {
+    const traitIndex = compiled.traitIndexByCode.get(observation.trait);
+    const trait = traitIndex === undefined ? undefined : compiled.traits[traitIndex];
+    if (trait?.kind !== 'count') return;
+    const values: readonly unknown[] = 'values' in observation && Array.isArray(observation.values) ? observation.values : [];
+    const texts = values.filter((value): value is string => typeof value === 'string');
+    if (texts.length === 0) return;
+    found.push({
+      index,
+      field: 'values',
+      code: 'count-as-text',
+      message: `${trait.code} is a count: send whole numbers, not text (${texts.map((text) => `${JSON.stringify(text)} → ${Number.isFinite(Number(text)) ? Number(text) : 'a number'}`).join(', ')}).`,
+    });
+  });
+  return found;
+}
+
 /** A sift against one edition: the Shortlist, what was Ruled out and why, and what to Look at next. */
 export function identifyAnswer(edition: IdentifyEdition, request: IdentifyRequest): IdentifyOutcome {
   const compiled = edition.compiled;
-  const found = validateObservations(compiled, request.observations);
+  const found = [...countsGivenAsText(compiled, request.observations), ...validateObservations(compiled, request.observations)];
   if (found.length > 0) return { kind: 'invalid', problems: found };
 
   const season = request.season ?? IDENTIFY_DEFAULTS.season;

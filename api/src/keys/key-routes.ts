@@ -45,6 +45,10 @@ export function keyRoutes(keys: KeyService): Router {
     res.json({ keys: list.map(keyWithUsageView) });
   });
 
+  router.get('/:id', async (req, res) => {
+    res.json(keyWithUsageView(await keys.get(currentUser(req.principal), idParam(req.params['id']))));
+  });
+
   router.delete('/:id', async (req, res) => {
     await keys.revoke(currentUser(req.principal), idParam(req.params['id']));
     res.status(204).end();

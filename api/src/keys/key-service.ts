@@ -49,6 +49,14 @@ export function keyService(models: Models, logger?: Logger) {
       return withUsage(await listKeys(models, {}));
     },
 
+    /** One key with its usage, for its owner (or an admin). Someone else's key looks the same as no key. */
+    async get(actor: Extract<Principal, { kind: 'user' }>, keyId: number): Promise<KeyWithUsage> {
+      const key = await findKey(models, keyId);
+      if (!key || (key.ownerId !== actor.userId && actor.role !== 'admin')) throw problems.notFound(`There is no partner key ${keyId} of yours.`);
+      const [withDays] = await withUsage([key]);
+      return withDays as KeyWithUsage;
+    },
+
     /** Owners revoke their own keys; admins revoke any. Someone else's key looks the same as no key. */
     async revoke(actor: Extract<Principal, { kind: 'user' }>, keyId: number): Promise<void> {
       const key = await findKey(models, keyId);
