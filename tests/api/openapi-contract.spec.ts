@@ -67,10 +67,11 @@ describe('api: the contract describes every property an answer may carry', () =>
     const app = express();
     app.use(express.json());
     app.use(contract.middleware);
-    app.get('/api/v1/me', (_req, res) => {
-      res.json({ id: 1, email: 'robin@example.invalid', displayName: 'Robin', role: 'learner', active: true, createdAt: '2027-01-01T00:00:00.000Z', lastSignInAt: null, passwordHash: 'x' });
+    const summary = { taxaAdded: [], taxaRemoved: [], traitsAdded: [], traitsRemoved: [], cellsChanged: 0, taxonCount: 60, traitCount: 40 };
+    app.get('/api/v1/editions/:number', (_req, res) => {
+      res.json({ number: 1, title: 'Reference matrix', publishedAt: '2026-12-01T20:15:31.000Z', summary, publishedBy: 'someone@example.invalid' });
     });
-    await request(app).get('/api/v1/me').expect(200);
+    await request(app).get('/api/v1/editions/1').expect(200);
     expect(contract.violations.map((violation) => violation.message)).to.deep.equal(['/response must NOT have additional properties']);
   });
 });
