@@ -15,6 +15,7 @@ import { docsRoutes } from './docs/docs-routes';
 import { loadOpenApiDocument } from './docs/openapi-document';
 import { siteRoutes } from './site/site-routes';
 import { openToAnonymousButKeysNeed } from './auth/lookup-access';
+import { accessBeforeValidation } from './auth/contract-access';
 import { authenticate } from './gate/authenticate';
 import { PrincipalCache } from './gate/principal-cache';
 import { createLimiterStores, createRateLimiters, type LimiterStores } from './gate/rate-limits';
@@ -134,7 +135,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   // The gate: who is calling, then the anonymous and per-key limits, then the key's usage count.
   app.use('/api/v1', authenticate(models, principals), limiters.anonymous, ...limiters.partnerKey, countKeyUse);
   app.use('/api/v1/editions/current/bundle', limiters.anonymousBundle);
-  const contract = contractValidation(document, { validateResponses: config.contract.validateResponses });
+  const contract = contractValidation(document, { validateResponses: config.contract.validateResponses, beforeBodyValidation: accessBeforeValidation });
   app.use(contract.middleware);
 
   app.use('/api/health', healthRoutes(sequelize, config.version));

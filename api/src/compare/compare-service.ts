@@ -3,6 +3,7 @@ import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog'
 import { problems, type InvalidParam } from '../http/problem';
 import { cellInWords } from '../taxa/cell-words';
 import { taxonReference } from '../taxa/taxon-views';
+import { closeTaxa, didYouMean } from '../taxa/taxon-search';
 
 export interface CompareRequest {
   taxa: string[];
@@ -43,7 +44,10 @@ function assertComparable(edition: LoadedEdition, ids: readonly string[]): void 
   ids.forEach((id, index) => {
     const earlier = seenAt.get(id);
     if (earlier !== undefined) invalid.push({ name: `/body/taxa/${index}`, reason: `"${id}" is already item ${earlier}; name each taxon once.` });
-    else if (!edition.taxaById.has(id)) invalid.push({ name: `/body/taxa/${index}`, reason: `There is no taxon "${id}" in edition ${edition.number}.` });
+    else if (!edition.taxaById.has(id)) {
+      const close = closeTaxa(edition.document.taxa, id);
+      invalid.push({ name: `/body/taxa/${index}`, reason: `There is no taxon "${id}" in edition ${edition.number}.${didYouMean(close)}`, suggestions: close.map(taxonReference) });
+    }
     seenAt.set(id, earlier ?? index);
   });
   if (ids.length < COMPARE_LIMITS.fewest || ids.length > COMPARE_LIMITS.most) {

@@ -7,6 +7,7 @@ import { listAudit, type AuditEntity } from '../matrix/audit-store';
 import { cellService, type CellChange, type CurationDeps } from './cell-service';
 import { draftService } from './draft-service';
 import { entityService, type EntityService } from './entity-service';
+import { curatedTaxonView, curatedTraitView, curatedValueView } from './curation-views';
 
 type Body = Record<string, unknown> & { reason: string };
 
@@ -39,36 +40,36 @@ export function curationRoutes(deps: CurationDeps & { editions: EditionCatalog }
     const body = req.body as Body & { id: string };
     const { id: _id, ...fields } = withoutReason(body);
     const taxon = await entities.createTaxon(actorOf(req.principal), body.id, fields as Parameters<EntityService['createTaxon']>[2], body.reason);
-    res.status(201).location(`/api/v1/curation/taxa/${body.id}`).json(taxon);
+    res.status(201).location(`/api/v1/curation/taxa/${body.id}`).json(curatedTaxonView(taxon));
   });
 
   router.patch('/taxa/:id', async (req, res) => {
     const body = req.body as Body;
-    res.json(await entities.updateTaxon(actorOf(req.principal), req.params['id'] as string, withoutReason(body), body.reason));
+    res.json(curatedTaxonView(await entities.updateTaxon(actorOf(req.principal), req.params['id'] as string, withoutReason(body), body.reason)));
   });
 
   router.post('/traits', async (req, res) => {
     const body = req.body as Body & { code: string; values?: Parameters<EntityService['createTrait']>[3] };
     const { code: _code, values: _values, ...fields } = withoutReason(body);
     const trait = await entities.createTrait(actorOf(req.principal), body.code, fields as Parameters<EntityService['createTrait']>[2], body.values ?? [], body.reason);
-    res.status(201).json(trait);
+    res.status(201).json(curatedTraitView(trait, trait.values));
   });
 
   router.patch('/traits/:code', async (req, res) => {
     const body = req.body as Body;
-    res.json(await entities.updateTrait(actorOf(req.principal), req.params['code'] as string, withoutReason(body), body.reason));
+    res.json(curatedTraitView(await entities.updateTrait(actorOf(req.principal), req.params['code'] as string, withoutReason(body), body.reason)));
   });
 
   router.post('/traits/:code/values', async (req, res) => {
     const body = req.body as Body & { code: string };
     const { code: _code, ...fields } = withoutReason(body);
     const value = await entities.createValue(actorOf(req.principal), req.params['code'] as string, body.code, fields as Parameters<EntityService['createValue']>[3], body.reason);
-    res.status(201).json(value);
+    res.status(201).json(curatedValueView(req.params['code'] as string, value));
   });
 
   router.patch('/traits/:code/values/:value', async (req, res) => {
     const body = req.body as Body;
-    res.json(await entities.updateValue(actorOf(req.principal), req.params['code'] as string, req.params['value'] as string, withoutReason(body), body.reason));
+    res.json(curatedValueView(req.params['code'] as string, await entities.updateValue(actorOf(req.principal), req.params['code'] as string, req.params['value'] as string, withoutReason(body), body.reason)));
   });
 
   router.get('/audit', async (req, res) => {

@@ -1,7 +1,7 @@
 import { Router } from 'express';
 import { requireUser } from '../auth/guards';
 import { actorOf } from '../matrix/actor';
-import { cachePolicy } from '../http/caching';
+import { cachePolicy, matchesIfNoneMatch } from '../http/caching';
 import { compressedVariant, preferredCoding, weakTag } from '../http/compression';
 import { openToAnonymousButKeysNeed } from '../auth/lookup-access';
 import { editionService, type EditionDeps } from './edition-service';
@@ -29,7 +29,8 @@ export function editionRoutes(deps: EditionDeps): Router {
     // One compressed copy per edition, made once; its tag is the weak form of the edition's own.
     const coding = preferredCoding(req);
     res.set('ETag', coding === null ? etag : weakTag(etag));
-    if (req.fresh) {
+    // Compared here rather than by req.fresh, which gives up when the client also sends Cache-Control: no-cache.
+    if (matchesIfNoneMatch(req, etag)) {
       res.status(304).end();
       return;
     }

@@ -43,8 +43,15 @@ export function authenticate(models: AccountModels & KeyModels, principals: Prin
   );
 
   return (req, res, next) => {
-    if (req.headers.authorization === undefined) {
+    const header = req.headers.authorization;
+    if (header === undefined) {
       next();
+      return;
+    }
+    const scheme = /^(\S+)\s+\S/.exec(header)?.[1];
+    if (scheme === undefined || scheme.toLowerCase() !== 'bearer') {
+      const sent = scheme === undefined ? 'The Authorization header has no scheme' : `The Authorization scheme "${scheme}" is not one this API takes`;
+      next(unauthorized(res, `${sent}: send \`Authorization: Bearer <token>\` with a session token or a partner key.`));
       return;
     }
     const handler = authenticator.authenticate('bearer', { session: false }, (error: unknown, user: unknown) => {

@@ -46,6 +46,10 @@ export function keyRoutes(keys: KeyService, quotaLeft: (keyId: number) => Promis
     res.json({ keys: list.map(keyWithUsageView) });
   });
 
+  router.get('/:id', async (req, res) => {
+    res.json(keyWithUsageView(await keys.get(currentUser(req.principal), idParam(req.params['id']))));
+  });
+
   router.get('/:id/usage', async (req, res) => {
     const { key, days, total } = await keys.usageOf(currentUser(req.principal).userId, idParam(req.params['id']));
     const quota = await quotaLeft(key.id);

@@ -57,6 +57,14 @@ export function keyService(models: KeyModels, logger?: Logger) {
       return withUsage(await listKeys(models, {}));
     },
 
+    /** One key with its usage, for its owner (or an admin). Someone else's key looks the same as no key. */
+    async get(actor: Extract<Principal, { kind: 'user' }>, keyId: number): Promise<KeyWithUsage> {
+      const key = await findKey(models, keyId);
+      if (!key || (key.ownerId !== actor.userId && actor.role !== 'admin')) throw problems.notFound(`There is no partner key ${keyId} of yours.`);
+      const [withDays] = await withUsage([key]);
+      return withDays as KeyWithUsage;
+    },
+
     /** One key's requests per UTC day over the last 30 days, every day present (0 without use); owners only. */
     async usageOf(ownerId: number, keyId: number, now = new Date()): Promise<{ key: PartnerKey; days: DailyUsage[]; total: number }> {
       const key = await findKey(models, keyId);

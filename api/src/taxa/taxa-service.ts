@@ -1,4 +1,4 @@
-import { compare, diagnose, type SeparationStrength } from '@shared/engine';
+import { compare, diagnose, type SeparationStrength, type Taxon } from '@shared/engine';
 import type { MatrixModels } from '../matrix/matrix-models';
 import type { EditionModels } from '../editions/edition-models';
 import type { PhotoModels } from '../uploads/photo-models';
@@ -8,7 +8,7 @@ import { listPhotos } from '../uploads/photo-store';
 import { photoView, type PhotoView } from '../uploads/photo-urls';
 import { GENERAL_CAUTIONS } from './cautions';
 import { cellInWords } from './cell-words';
-import { searchTaxa } from './taxon-search';
+import { closeTaxa, didYouMean, searchTaxa } from './taxon-search';
 import { codedTraits, taxonReference, taxonSummary, type CodedTrait, type TaxonSummary } from './taxon-views';
 
 export interface LookupDeps {
@@ -60,6 +60,23 @@ export interface Diagnostic {
   unseparated: string[];
 }
 
+/** How a sentence names a taxon: its first common name with the scientific name, or the scientific name alone. */
+function nameInText(taxon: Taxon): string {
+  const common = taxon.commonNames[0];
+  return common ? `${common} (${taxon.scientificName})` : taxon.scientificName;
+}
+
+/** The engine's sentence names taxa by id (`pinus-serotina`); people read names (`pond pine (Pinus serotina)`). */
+function withNames(edition: LoadedEdition, text: string, ids: readonly string[]): string {
+  // longest ids first, so an id that is the start of another never replaces part of it
+  return [...ids]
+    .sort((a, b) => b.length - a.length)
+    .reduce((sentence, id) => {
+      const taxon = edition.taxaById.get(id);
+      return taxon ? sentence.replace(new RegExp(`(?<![\\w-])${id}(?![\\w-])`, 'g'), nameInText(taxon)) : sentence;
+    }, text);
+}
+
 /** A small set of traits that tells the taxon from its look-alikes, each with how every look-alike differs. */
 function diagnoseAmongLookAlikes(edition: LoadedEdition, taxonId: string, lookAlikeIds: string[]): Diagnostic | null {
   if (lookAlikeIds.length === 0) return null;
@@ -82,7 +99,7 @@ function diagnoseAmongLookAlikes(edition: LoadedEdition, taxonId: string, lookAl
         trait: chosen.trait,
         label: chosen.label,
         separates: chosen.separates,
-        text: chosen.text,
+        text: withNames(edition, chosen.text, chosen.separates),
         strength: chosen.strength,
         coded: coded(taxonId),
         lookAlikes: lookAlikeIds.map((id) => {
@@ -114,7 +131,10 @@ async function findPublishedTaxa(deps: LookupDeps, query: string, page: number, 
 async function describePublishedTaxon(deps: LookupDeps, id: string): Promise<TaxonDetail> {
   const edition = await deps.editions.current();
   const taxon = edition.taxaById.get(id);
-  if (!taxon) throw problems.notFound(`There is no taxon "${id}" in edition ${edition.number}.`);
+  if (!taxon) {
+    const close = closeTaxa(edition.document.taxa, id);
+    throw problems.notFound(`There is no taxon "${id}" in edition ${edition.number}.${didYouMean(close)}`, { suggestions: close.map(taxonReference) });
+  }
 
   const lookAlikes = (taxon.lookAlikes ?? []).flatMap((otherId) => {
     const other = edition.taxaById.get(otherId);
