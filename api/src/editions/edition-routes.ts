@@ -2,7 +2,7 @@ import { Router } from 'express';
 import { requireUser } from '../auth/guards';
 import { actorOf } from '../matrix/actor';
 import { cachePolicy, matchesIfNoneMatch } from '../http/caching';
-import { compressedVariant, preferredCoding, weakTag } from '../http/compression';
+import { codedTag, compressedVariant, preferredCoding } from '../http/compression';
 import { openToAnonymousButKeysNeed } from '../auth/lookup-access';
 import { editionService, type EditionDeps } from './edition-service';
 
@@ -26,11 +26,11 @@ export function editionRoutes(deps: EditionDeps): Router {
     res.vary('Authorization');
     res.vary('Accept-Encoding');
     res.type('application/octet-stream');
-    // One compressed copy per edition, made once; its tag is the weak form of the edition's own.
+    // One compressed copy per edition and coding, made once, each with a tag of its own.
     const coding = preferredCoding(req);
-    res.set('ETag', coding === null ? etag : weakTag(etag));
+    res.set('ETag', coding === null ? etag : codedTag(etag, coding));
     // Compared here rather than by req.fresh, which gives up when the client also sends Cache-Control: no-cache.
-    if (matchesIfNoneMatch(req, etag)) {
+    if (matchesIfNoneMatch(req, etag, codedTag(etag, 'br'), codedTag(etag, 'gzip'))) {
       res.status(304).end();
       return;
     }

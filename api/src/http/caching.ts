@@ -31,9 +31,10 @@ export const cachePolicy = {
  * sends on a reload; but that directive asks caches to revalidate, and revalidating with the origin
  * is exactly this, so the origin still answers 304 (RFC 9111 §5.2.1.4, RFC 9110 §13.1.2).
  */
-export function matchesIfNoneMatch(req: Request, etag: string): boolean {
+export function matchesIfNoneMatch(req: Request, ...etags: string[]): boolean {
   const header = req.headers['if-none-match'];
   if (!header) return false;
   const opaque = (tag: string) => tag.trim().replace(/^W\//, '');
-  return header.split(',').some((tag) => tag.trim() === '*' || opaque(tag) === opaque(etag));
+  const ours = new Set(etags.map(opaque));
+  return header.split(',').some((tag) => tag.trim() === '*' || ours.has(opaque(tag)));
 }

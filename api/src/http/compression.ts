@@ -75,7 +75,11 @@ export function compressedVariant(bytes: Uint8Array, coding: ContentCoding): Pro
   return compressed;
 }
 
-/** An entity tag for a compressed representation: weak, since its bytes differ from the identity one's. */
-export function weakTag(etag: string): string {
-  return etag.startsWith('W/') ? etag : `W/${etag}`;
+/**
+ * The entity tag of a compressed representation: the identity tag with the coding appended inside
+ * the quotes. Strong, like the identity one, since each coding's bytes are fixed for the edition, but
+ * distinct from it, since the bytes differ (RFC 9110 §8.8.3).
+ */
+export function codedTag(etag: string, coding: ContentCoding): string {
+  return etag.replace(/"$/, `-${coding}"`);
 }
