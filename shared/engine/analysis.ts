@@ -7,7 +7,8 @@
 import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
 import { effectiveCellOf, requireTaxon } from './lookup';
 import { relation, separationStrength } from './separation';
-import { codedText, joinAnd } from './texts';
+import { codedText } from './texts';
+import { joinAnd } from './words';
 import type {
   ComparisonResult,
   ComparisonVerdict,

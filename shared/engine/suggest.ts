@@ -13,7 +13,8 @@ import { MODEL, SUGGEST_DEFAULTS, type SuggestOptions } from './defaults';
 import { prepareObservations, type PreparedObservation } from './observations';
 import { resolveCount } from './rank';
 import { scoreObservations, type Scored } from './scoring';
-import { answerLabel } from './texts';
+import { answerLabelAt } from './words';
+import { visibleInSeason } from './vocabulary';
 import type { Observation, ObservingSeason, Suggestion, SuggestionPreview } from './types';
 
 const LN2 = Math.LN2;
@@ -68,11 +69,6 @@ function workingSet(scored: Scored, threshold: number): WorkingSet {
     i++;
   }
   return { members, weight, weightLog, entropyNats: Math.max(0, entropyNats) };
-}
-
-/** Whether a trait can be seen in the sift's season. */
-export function visibleIn(trait: CompiledTrait, season: ObservingSeason): boolean {
-  return season === 'leaf-on' || trait.season !== 'leaf-on';
 }
 
 /** True when an active observation contradicts the trait's appliesWhen condition. */
@@ -374,7 +370,7 @@ function previewOf(compiled: CompiledMatrix, evaluated: Evaluated, set: WorkingS
   return leadersByAnswer.map((leaders, a) => {
     let remaining = counts.below;
     for (const t of counts.atLeeway) if (!answerConflicts(compiled, evaluated, t, a)) remaining++;
-    const label = isNumeric ? bandLabel(evaluated.cuts ?? [], a) : answerLabel(trait, a);
+    const label = isNumeric ? bandLabel(evaluated.cuts ?? [], a) : answerLabelAt(trait, a);
     return {
       answer: isNumeric ? label : trait.answerCodes[a],
       label,
@@ -650,7 +646,7 @@ export function suggest(compiled: CompiledMatrix, observations: readonly Observa
   const excluded = new Set(options.exclude ?? []);
   const evaluated: Evaluated[] = [];
   for (const trait of compiled.traits) {
-    if (observed.has(trait.index) || excluded.has(trait.code) || !visibleIn(trait, season)) continue;
+    if (observed.has(trait.index) || excluded.has(trait.code) || !visibleInSeason(trait, season)) continue;
     if (conditionContradicted(trait, scored.active) || !splitsShortlist(compiled, trait, shortlist)) continue;
     let sums: AnswerSums;
     let cuts: number[] | undefined;

@@ -5,8 +5,7 @@
 import { expect } from 'chai';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join, relative, sep } from 'node:path';
-import { validateMatrix } from '@shared/engine';
-import type { MatrixDocument, Taxon, Trait } from '@shared/engine/types';
+import { validateMatrix, type MatrixDocument, type Taxon, type Trait } from '@shared/engine';
 import { ILLUSTRATIONS_DIR, loadReferenceMatrix } from '../../seeds/load-matrix';
 import { DATA_TESTS_DIR, TAXA_DIR, isDiscreteCell, isNumericCell, loadGlossary, pairKey, separatingTraits, traitApplies, valuesOf } from './matrix-facts';
 

@@ -7,7 +7,7 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { Cell, DiscreteCell, NumericCell, PlantPart, Season, Taxon, Trait, TraitKind } from '@shared/engine/types';
+import type { Cell, DiscreteCell, NumericCell, PlantPart, Season, Taxon, Trait, TraitKind } from '@shared/engine';
 
 export const DATA_TESTS_DIR = dirname(fileURLToPath(import.meta.url));
 export const REPO_DIR = resolve(DATA_TESTS_DIR, '..', '..');

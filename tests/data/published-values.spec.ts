@@ -9,7 +9,7 @@
 import { expect } from 'chai';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import type { MatrixDocument, Taxon } from '@shared/engine/types';
+import type { MatrixDocument, Taxon } from '@shared/engine';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
 import { TAXA_DIR, genusOf, isDiscreteCell, isNumericCell, valuesOf } from './matrix-facts';
 

@@ -1,5 +1,6 @@
 import type { Logger } from 'pino';
 import type { Sequelize } from 'sequelize';
+import { FIELD_LIMITS } from '@shared/engine';
 import type { Models } from '../db/models';
 import type { PeopleConfig } from './people-config';
 import type { Mailer } from '../mail/mailer';
@@ -53,7 +54,7 @@ const linkNotValid = () => new HttpProblem(400, 'link-not-valid', 'Link not vali
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
 function checkEmail(email: string): void {
-  if (!EMAIL_PATTERN.test(email.trim()) || email.length > 254) {
+  if (!EMAIL_PATTERN.test(email.trim()) || email.length > FIELD_LIMITS.email.max) {
     throw problems.invalidInput('The e-mail address is not valid.', [{ name: '/email', reason: 'not an e-mail address' }]);
   }
 }

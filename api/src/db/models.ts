@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { Cell, PlantPart, Season, TraitKind } from '@shared/engine/types';
+import type { Cell, PlantPart, Season, TraitKind } from '@shared/engine';
 import { defineAccountModels } from '../accounts/account-models';
 import { defineKeyModels } from '../keys/key-models';
 import { defineQueryModels } from '../queries/query-models';

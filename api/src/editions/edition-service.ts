@@ -1,5 +1,5 @@
 import type { Sequelize, Transaction } from 'sequelize';
-import type { MatrixDocument } from '@shared/engine/types';
+import type { MatrixDocument } from '@shared/engine';
 import type { EditionSummary, Models } from '../db/models';
 import { readWorkingMatrix } from '../taxa/matrix-store';
 import { writeTransaction } from '../curation/write-transaction';

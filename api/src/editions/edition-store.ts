@@ -1,4 +1,4 @@
-import type { MatrixDocument } from '@shared/engine/types';
+import type { MatrixDocument } from '@shared/engine';
 import type { EditionSummary, Models } from '../db/models';
 
 /** An edition's header, without its matrix document. */

@@ -1,11 +1,9 @@
-import { compare, diagnose, type SeparationStrength } from '@shared/engine';
+import { cellInWords, compare, diagnose, GENERAL_CAUTIONS, type SeparationStrength } from '@shared/engine';
 import type { Models } from '../db/models';
 import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog';
 import { problems } from '../http/problem';
 import { listPhotos } from '../uploads/photo-store';
 import { photoView, type PhotoView } from '../uploads/photo-urls';
-import { GENERAL_CAUTIONS } from './cautions';
-import { cellInWords } from './cell-words';
 import { searchTaxa } from './taxon-search';
 import { codedTraits, taxonReference, taxonSummary, type CodedTrait, type TaxonSummary } from './taxon-views';
 

@@ -1,7 +1,5 @@
 import { FormControl, FormGroup, FormRecord, Validators, type AbstractControl, type ValidationErrors, type ValidatorFn } from '@angular/forms';
-import type { CompiledTrait } from '@shared/engine/compiled';
-import type { Cell, DiscreteCell } from '@shared/engine/types';
-import { isDiscreteCell, isNumericCell } from '../../shared/matrix-words';
+import { FIELD_LIMITS, isDiscreteCell, isNumericCell, type Cell, type CompiledTrait, type DiscreteCell } from '@shared/engine';
 
 /** How often a taxon shows one value of a state or count trait; '' for not at all. */
 export type Frequency = '' | 'usual' | 'occasional' | 'rare';
@@ -50,7 +48,7 @@ export function buildCellForm(kind: () => CompiledTrait['kind'] | null): CellFor
       mode: new FormControl<CellMode>('coded', { nonNullable: true }),
       frequencies: new FormRecord<FormControl<Frequency>>({}),
       range: new FormGroup({ min: number(), low: number(), high: number(), max: number() }),
-      reason: new FormControl('', { nonNullable: true, validators: [Validators.required, Validators.minLength(3), Validators.maxLength(2000)] }),
+      reason: new FormControl('', { nonNullable: true, validators: [Validators.required, Validators.minLength(FIELD_LIMITS.changeReason.min), Validators.maxLength(FIELD_LIMITS.changeReason.max)] }),
     },
     { validators: cellValidator(kind) },
   );

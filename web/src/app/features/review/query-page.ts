@@ -9,14 +9,11 @@ import { MatIcon } from '@angular/material/icon';
 import { MatOption, MatSelect } from '@angular/material/select';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatRadioButton, MatRadioGroup } from '@angular/material/radio';
-import type { Cell } from '@shared/engine/types';
-import type { CompiledTrait } from '@shared/engine/compiled';
+import { cellInBrief, cellOf, FIELD_LIMITS, type Cell, type CompiledTrait } from '@shared/engine';
 import { AuthService } from '../../core/auth/auth-service';
 import { EditionService } from '../../core/edition/edition-service';
 import { type CellQuery, type CellVersion, QueryService, StaleCell } from '../../core/api/query-service';
 import { ApiProblem, readableError } from '../../core/http/api-problem';
-import { describeCell } from '../../shared/matrix-words';
-import { cellOf } from '@shared/engine';
 import { ConfirmQueryDialog, type ConfirmQueryData } from './confirm-query-dialog';
 import { FREQUENCIES, RANGE_FIELDS, RANGE_LABELS, buildCellForm, cellFromForm, cellProblem, fillCellForm } from './cell-form';
 import { STATE_LABELS, actionWords, ageOf, outcomeWords, queryCellWords, raiserName, whenOf, worksSecondLook } from './review-words';
@@ -60,6 +57,7 @@ export default class QueryPage {
   readonly id = input.required<string>();
 
   protected readonly stateLabels = STATE_LABELS;
+  protected readonly limits = FIELD_LIMITS;
   protected readonly frequencies = FREQUENCIES;
   protected readonly rangeFields = RANGE_FIELDS;
   protected readonly rangeLabels = RANGE_LABELS;
@@ -112,22 +110,22 @@ export default class QueryPage {
     const trait = this.trait();
     const cell = this.editionCell();
     if (working.status !== 'read' || !trait || cell === null) return null;
-    const words = describeCell(trait, working.cell.value);
-    return words === describeCell(trait, cell) ? null : words;
+    const words = cellInBrief(trait, working.cell.value);
+    return words === cellInBrief(trait, cell) ? null : words;
   });
   protected readonly staleWords = computed(() => {
     const stale = this.stale();
     const trait = this.trait();
-    return stale && trait ? describeCell(trait, stale.value) : '';
+    return stale && trait ? cellInBrief(trait, stale.value) : '';
   });
 
   /** the answer form's directive: resetting through it also forgets that the form was submitted */
   private readonly answerFormDirective = viewChild('answerFormDirective', { read: FormGroupDirective });
   protected readonly answerForm = this.#fb.group({
-    answer: ['', [Validators.required, Validators.minLength(3), Validators.maxLength(4000)]],
-    evidence: ['', Validators.maxLength(4000)],
+    answer: ['', [Validators.required, Validators.minLength(FIELD_LIMITS.queryText.min), Validators.maxLength(FIELD_LIMITS.queryText.max)]],
+    evidence: ['', Validators.maxLength(FIELD_LIMITS.queryText.max)],
   });
-  protected readonly settleForm = this.#fb.group({ note: ['', Validators.maxLength(4000)] });
+  protected readonly settleForm = this.#fb.group({ note: ['', Validators.maxLength(FIELD_LIMITS.queryText.max)] });
   protected readonly recodeForm = buildCellForm(() => this.trait()?.kind ?? null);
   protected readonly recodeMode = signal(this.recodeForm.controls.mode.value);
 
@@ -182,16 +180,16 @@ export default class QueryPage {
   protected answerError(field: 'answer' | 'evidence'): string | null {
     const control = this.answerForm.controls[field];
     if (control.hasError('required')) return 'Write the answer.';
-    if (control.hasError('minlength')) return 'Write at least 3 characters.';
-    if (control.hasError('maxlength')) return 'At most 4000 characters.';
+    if (control.hasError('minlength')) return `Write at least ${FIELD_LIMITS.queryText.min} characters.`;
+    if (control.hasError('maxlength')) return `At most ${FIELD_LIMITS.queryText.max} characters.`;
     return (control.getError('server') as string | undefined) ?? null;
   }
 
   protected recodeReasonError(): string | null {
     const control = this.recodeForm.controls.reason;
     if (control.hasError('required')) return 'Say why the cell changes; it is kept in the audit log.';
-    if (control.hasError('minlength')) return 'Write at least 3 characters.';
-    if (control.hasError('maxlength')) return 'At most 2000 characters.';
+    if (control.hasError('minlength')) return `Write at least ${FIELD_LIMITS.changeReason.min} characters.`;
+    if (control.hasError('maxlength')) return `At most ${FIELD_LIMITS.changeReason.max} characters.`;
     return (control.getError('server') as string | undefined) ?? null;
   }
 
@@ -266,7 +264,7 @@ export default class QueryPage {
     this.#confirm({
       title: 'Recode this cell?',
       lines: [
-        `${words.speciesName} · ${words.traitLabel}: “${this.#fromWords(trait)}” becomes “${describeCell(trait, value)}”.`,
+        `${words.speciesName} · ${words.traitLabel}: “${this.#fromWords(trait)}” becomes “${cellInBrief(trait, value)}”.`,
         'The working matrix changes now and the query is settled as recoded; the sift uses the new value once the next edition is published.',
       ],
       confirm: 'Recode and settle',
@@ -316,7 +314,7 @@ export default class QueryPage {
   /** The cell the recode replaces, as far as this page knows it: the working cell if read, else the published one. */
   #fromWords(trait: CompiledTrait): string {
     const working = this.working();
-    if (working.status === 'read') return describeCell(trait, working.cell.value);
+    if (working.status === 'read') return cellInBrief(trait, working.cell.value);
     return this.words()?.codedNow ?? '';
   }
 

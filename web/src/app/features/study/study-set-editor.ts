@@ -12,11 +12,12 @@ import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
 import { catchError, debounceTime, distinctUntilChanged, map, of, startWith, switchMap } from 'rxjs';
+import { commonName, FIELD_LIMITS } from '@shared/engine';
 import { AuthService } from '../../core/auth/auth-service';
 import { type StudySetDraft, StudyService, type TaxonMatch } from '../../core/api/study-service';
 import { ApiProblem, readableError } from '../../core/http/api-problem';
 import type { HoldsUnsavedChanges } from '../../core/navigation/unsaved-changes';
-import { keepsStudySets, shareLink, speciesName, studySetId } from './study-words';
+import { keepsStudySets, shareLink, studySetId } from './study-words';
 
 /** One species in the list being edited. */
 interface ListedSpecies {
@@ -80,10 +81,10 @@ export default class StudySetEditor implements HoldsUnsavedChanges {
   });
 
   protected readonly form = this.#fb.group({
-    name: ['', [Validators.required, Validators.maxLength(120)]],
-    event: ['', Validators.maxLength(200)],
+    name: ['', [Validators.required, Validators.maxLength(FIELD_LIMITS.studySetName.max)]],
+    event: ['', Validators.maxLength(FIELD_LIMITS.studySetEvent.max)],
     eventDate: [''],
-    notes: ['', Validators.maxLength(4000)],
+    notes: ['', Validators.maxLength(FIELD_LIMITS.studySetNotes.max)],
     shared: [false],
   });
   protected readonly species = signal<ListedSpecies[]>([]);
@@ -124,7 +125,8 @@ export default class StudySetEditor implements HoldsUnsavedChanges {
     return saved?.shared ? shareLink(saved) : null;
   });
 
-  protected readonly speciesName = speciesName;
+  protected readonly speciesName = commonName;
+  protected readonly limits = FIELD_LIMITS;
   protected readonly displayNothing = () => '';
 
   readonly unsavedSubject = 'this study set';
@@ -191,7 +193,7 @@ export default class StudySetEditor implements HoldsUnsavedChanges {
       next.delete(id);
       return next;
     });
-    if (removed) this.#snackBar.open(`Removed ${speciesName(removed)}.`, undefined, { duration: 3000 });
+    if (removed) this.#snackBar.open(`Removed ${commonName(removed)}.`, undefined, { duration: 3000 });
   }
 
   protected dropSpecies(event: CdkDragDrop<ListedSpecies[]>): void {
