@@ -3,12 +3,12 @@
  * web app's forms alike.
  *
  * Invariant: each limit here equals the `minLength`/`maxLength` openapi.yaml states for the same
- * field, so a form never accepts what the API refuses (tests/api check the contract against these).
+ * field, so a form never accepts what the API refuses (tests/api/field-limits.spec.ts holds them equal).
  */
 export const FIELD_LIMITS = Object.freeze({
   /** a person's name as shown to others */
   displayName: Object.freeze({ min: 1, max: 120 }),
-  /** an e-mail address (the longest a mail path carries, common practice) */
+  /** an e-mail address: the 256 octets of a mail path less its angle brackets (RFC 5321) */
   email: Object.freeze({ max: 254 }),
   /** long enough to resist guessing, not so long that hashing it is costly */
   password: Object.freeze({ min: 10, max: 200 }),
