@@ -26,11 +26,6 @@ function measuredText(observation: PreparedMeasure): string {
   return `${formatNumber(observation.shownValue)} ${observation.shownUnit} (${formatLength(observation.centimetres)})`;
 }
 
-/** A cell in words as the engine's sentences quote it (the sentence form, see cell-words). */
-export function codedText(trait: CompiledTrait, cell: Cell): string {
-  return cellInWords(trait, cell);
-}
-
 export const reasonTexts = {
   matched: (trait: CompiledTrait, seen: string) => `${trait.label}: you saw ${seen}, which is usual for this species.`,
   partial: (trait: CompiledTrait, seen: string, coded: string) => `${trait.label}: you saw ${seen}; this species shows it less often (${coded}).`,
@@ -54,7 +49,7 @@ export const reasonTexts = {
 const patternTexts = new WeakMap<CompiledMatrix, Array<Array<string | undefined>>>();
 
 /**
- * codedText of a discrete trait's pattern (which stands for the same cell whichever taxon has it),
+ * cellInWords of a discrete trait's pattern (which stands for the same cell whichever taxon has it),
  * built once per matrix, trait and pattern.
  */
 export function patternText(compiled: CompiledMatrix, trait: CompiledTrait, pattern: number): string {
@@ -64,12 +59,12 @@ export function patternText(compiled: CompiledMatrix, trait: CompiledTrait, patt
     patternTexts.set(compiled, byTrait);
   }
   const texts = (byTrait[trait.index] ??= []);
-  return (texts[pattern] ??= codedText(trait, cellFromPattern(compiled, trait, pattern, 0)));
+  return (texts[pattern] ??= cellInWords(trait, cellFromPattern(compiled, trait, pattern, 0)));
 }
 
 /** A short description of a pattern, for conflicts: "usually 2 or 3" or "not coded". */
 export function patternPhrase(trait: CompiledTrait, pattern: number, cell: Cell): string {
   if (pattern === UNKNOWN_PATTERN) return NOT_CODED_WORDS;
   if (pattern === INAPPLICABLE_PATTERN) return NOT_APPLICABLE_WORDS;
-  return codedText(trait, cell);
+  return cellInWords(trait, cell);
 }
