@@ -9,9 +9,9 @@
 import { expect } from 'chai';
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import type { MatrixDocument, Taxon } from '@shared/engine';
+import { isDiscreteCell, isNumericCell, type MatrixDocument, type Taxon } from '@shared/engine';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
-import { TAXA_DIR, genusOf, isDiscreteCell, isNumericCell, valuesOf } from './matrix-facts';
+import { TAXA_DIR, genusOf, valuesOf } from './matrix-facts';
 
 const doc: MatrixDocument = loadReferenceMatrix();
 const taxonById = new Map(doc.taxa.map((taxon) => [taxon.id, taxon]));
