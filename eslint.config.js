@@ -91,6 +91,24 @@ export default tseslint.config(
     },
   },
   {
+    // The engine is one package with one entry point: outside it, import `@shared/engine` (its index),
+    // never a file inside it, so only the public surface is used. Named exception: the engine's own
+    // tests (tests/engine/, e.g. internals.spec.ts) check its internals and may import them.
+    files: ['api/**/*.ts', 'web/**/*.ts', 'scripts/**/*.ts', 'seeds/**/*.ts', 'tests/**/*.ts'],
+    ignores: ['tests/engine/**'],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            { regex: '^@shared/engine/', message: 'Import the engine from `@shared/engine` (its index), not a file inside it.' },
+            { regex: '(^|/)shared/engine(/|$)', message: 'Import the engine as `@shared/engine`, not by a relative path.' },
+          ],
+        },
+      ],
+    },
+  },
+  {
     files: ['web/**/*.html'],
     extends: [...angular.configs.templateRecommended, ...angular.configs.templateAccessibility],
   },

@@ -5,10 +5,9 @@
 import { expect } from 'chai';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join, relative, sep } from 'node:path';
-import { validateMatrix } from '@shared/engine';
-import type { MatrixDocument, Taxon, Trait } from '@shared/engine/types';
+import { isDiscreteCell, isNumericCell, validateMatrix, type MatrixDocument, type Taxon, type Trait } from '@shared/engine';
 import { ILLUSTRATIONS_DIR, loadReferenceMatrix } from '../../seeds/load-matrix';
-import { DATA_TESTS_DIR, TAXA_DIR, isDiscreteCell, isNumericCell, loadGlossary, pairKey, separatingTraits, traitApplies, valuesOf } from './matrix-facts';
+import { DATA_TESTS_DIR, TAXA_DIR, loadGlossary, pairKey, separatingTraits, traitApplies, valuesOf } from './matrix-facts';
 
 const KEBAB = /^[a-z0-9]+(-[a-z0-9]+)*$/;
 

@@ -7,9 +7,9 @@
  * it; where two sources disagree both are listed and the coding must cover both.
  */
 import { expect } from 'chai';
-import type { MatrixDocument, Taxon } from '@shared/engine/types';
+import { isDiscreteCell, isNumericCell, type MatrixDocument, type Taxon } from '@shared/engine';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
-import { genusOf, isDiscreteCell, isNumericCell, valuesOf } from './matrix-facts';
+import { genusOf, valuesOf } from './matrix-facts';
 
 const doc: MatrixDocument = loadReferenceMatrix();
 const taxonById = new Map(doc.taxa.map((taxon) => [taxon.id, taxon]));

@@ -1,4 +1,5 @@
 import { Router, type ErrorRequestHandler, type RequestHandler } from 'express';
+import { FIELD_LIMITS } from '@shared/engine';
 import { currentUser, requireUser } from '../auth/guards';
 import { isRole } from '../auth/principal';
 import { problems } from '../http/problem';
@@ -30,7 +31,7 @@ export function accountRoutes(accounts: { sessions: SessionService; links: OneTi
     const account = await sessions.signUp({
       email: stringField(req.body, 'email'),
       password: stringField(req.body, 'password'),
-      displayName: stringField(req.body, 'displayName', { max: 120 }),
+      displayName: stringField(req.body, 'displayName', { max: FIELD_LIMITS.displayName.max }),
     });
     res.status(201).location('/api/v1/me').json(accountView(account));
   });
@@ -61,7 +62,7 @@ export function accountRoutes(accounts: { sessions: SessionService; links: OneTi
 
   router.post('/invitations/:token', async (req, res) => {
     const signedIn = await links.acceptInvitation(String(req.params['token']), {
-      displayName: stringField(req.body, 'displayName', { max: 120 }),
+      displayName: stringField(req.body, 'displayName', { max: FIELD_LIMITS.displayName.max }),
       password: stringField(req.body, 'password'),
     });
     res.status(201).json(sessionView(signedIn));

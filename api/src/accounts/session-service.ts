@@ -1,4 +1,5 @@
 import type { Logger } from 'pino';
+import { FIELD_LIMITS } from '@shared/engine';
 import type { AccountModels } from './account-models';
 import type { AuthConfig } from './auth-config';
 import { hashPassword, passwordProblem, verifyPassword } from '../auth/passwords';
@@ -43,7 +44,7 @@ const wrongCredentials = () => problems.unauthorized('The e-mail address or the 
 const sleep = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));
 
 export function checkEmail(email: string): void {
-  if (!EMAIL_PATTERN.test(email.trim()) || email.length > 254) {
+  if (!EMAIL_PATTERN.test(email.trim()) || email.length > FIELD_LIMITS.email.max) {
     throw problems.invalidInput('The e-mail address is not valid.', [{ name: '/email', reason: 'not an e-mail address' }]);
   }
 }

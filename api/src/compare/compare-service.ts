@@ -1,7 +1,6 @@
-import { compare, type Cell, type ComparisonVerdict, type SeparationStrength, type TraitComparison } from '@shared/engine';
+import { cellInWords, compare, type Cell, type ComparisonVerdict, type SeparationStrength, type TraitComparison } from '@shared/engine';
 import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog';
 import { problems, type InvalidParam } from '../http/problem';
-import { cellInWords } from '../taxa/cell-words';
 import { taxonReference } from '../taxa/taxon-views';
 import { closeTaxa, didYouMean } from '../taxa/taxon-search';
 

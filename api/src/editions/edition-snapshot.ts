@@ -1,5 +1,5 @@
 import type { Sequelize, Transaction } from 'sequelize';
-import type { MatrixDocument } from '@shared/engine/types';
+import type { MatrixDocument } from '@shared/engine';
 import type { MatrixModels } from '../matrix/matrix-models';
 import type { EditionSummary, EditionModels } from './edition-models';
 import { readWorkingMatrix } from '../matrix/matrix-store';

@@ -1,4 +1,4 @@
-import type { MatrixDocument } from '@shared/engine/types';
+import type { MatrixDocument } from '@shared/engine';
 import type { MatrixModels } from '../matrix/matrix-models';
 import type { EditionSummary, EditionModels } from './edition-models';
 

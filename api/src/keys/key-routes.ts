@@ -1,4 +1,5 @@
 import { Router } from 'express';
+import { FIELD_LIMITS } from '@shared/engine';
 import { currentUser, requireUser } from '../auth/guards';
 import { isScope, type Scope } from '../auth/principal';
 import { problems } from '../http/problem';
@@ -37,7 +38,7 @@ export function keyRoutes(keys: KeyService, quotaLeft: (keyId: number) => Promis
   });
 
   router.post('/', async (req, res) => {
-    const { key, record } = await keys.create(currentUser(req.principal).userId, { name: stringField(req.body, 'name', { max: 120 }), scopes: scopesField(req.body) });
+    const { key, record } = await keys.create(currentUser(req.principal).userId, { name: stringField(req.body, 'name', { max: FIELD_LIMITS.keyName.max }), scopes: scopesField(req.body) });
     res.status(201).location(`/api/v1/keys/${record.id}`).json({ ...keyView(record), key });
   });
 

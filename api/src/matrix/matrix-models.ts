@@ -1,5 +1,5 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
-import type { Cell, PlantPart, Season, TraitKind } from '@shared/engine/types';
+import type { Cell, PlantPart, Season, TraitKind } from '@shared/engine';
 
 /** The working matrix (traits, their values, taxa, cells, inseparable pairs) and the audit log of its changes. */
 export function defineMatrixModels(sequelize: Sequelize) {

@@ -1,5 +1,5 @@
 import type { Transaction } from 'sequelize';
-import type { Cell, MatrixDocument, Taxon, Trait } from '@shared/engine/types';
+import type { Cell, MatrixDocument, Taxon, Trait } from '@shared/engine';
 import type { MatrixModels } from './matrix-models';
 
 /** Writes a whole matrix document into empty working-matrix tables (seeding, restore of a draft). */

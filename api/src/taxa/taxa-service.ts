@@ -1,4 +1,4 @@
-import { compare, diagnose, type SeparationStrength, type Taxon } from '@shared/engine';
+import { cellInWords, compare, diagnose, GENERAL_CAUTIONS, type SeparationStrength, type Taxon } from '@shared/engine';
 import type { MatrixModels } from '../matrix/matrix-models';
 import type { EditionModels } from '../editions/edition-models';
 import type { PhotoModels } from '../uploads/photo-models';
@@ -6,8 +6,6 @@ import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog'
 import { problems } from '../http/problem';
 import { listPhotos } from '../uploads/photo-store';
 import { photoView, type PhotoView } from '../uploads/photo-urls';
-import { GENERAL_CAUTIONS } from './cautions';
-import { cellInWords } from './cell-words';
 import { closeTaxa, didYouMean, searchTaxa } from './taxon-search';
 import { codedTraits, taxonReference, taxonSummary, type CodedTrait, type TaxonSummary } from './taxon-views';
 

@@ -1,5 +1,5 @@
 import Fuse from 'fuse.js';
-import type { Taxon } from '@shared/engine/types';
+import type { Taxon } from '@shared/engine';
 
 /**
  * Fuzzy search over a published edition's scientific and common names.

@@ -1,4 +1,4 @@
-import type { Trait } from '@shared/engine/types';
+import type { Trait } from '@shared/engine';
 import type { EditionCatalog } from '../editions/edition-catalog';
 
 /** Where the web app serves the value drawings. */

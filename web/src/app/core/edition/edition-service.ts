@@ -1,7 +1,6 @@
 import { DestroyRef, Injectable, computed, inject, signal } from '@angular/core';
 import { HttpClient, type HttpHeaders } from '@angular/common/http';
-import { decodeBundle } from '@shared/engine';
-import type { CompiledMatrix } from '@shared/engine/compiled';
+import { decodeBundle, type CompiledMatrix } from '@shared/engine';
 import { readableError } from '../http/api-problem';
 import { BUNDLE_URL } from './edition-url';
 

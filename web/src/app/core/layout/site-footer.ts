@@ -1,6 +1,6 @@
 import { ChangeDetectionStrategy, Component } from '@angular/core';
 import { RouterLink } from '@angular/router';
-import { FIELD_SAFETY_CAUTION, IDENTIFICATION_CAUTION, USE_CAUTION } from './cautions';
+import { CAUTIONS } from '@shared/engine';
 
 @Component({
   selector: 'sv-site-footer',
@@ -10,7 +10,7 @@ import { FIELD_SAFETY_CAUTION, IDENTIFICATION_CAUTION, USE_CAUTION } from './cau
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SiteFooter {
-  protected readonly fieldSafety = FIELD_SAFETY_CAUTION;
-  protected readonly identification = IDENTIFICATION_CAUTION;
-  protected readonly use = USE_CAUTION;
+  protected readonly fieldSafety = CAUTIONS.fieldSafety;
+  protected readonly identification = CAUTIONS.identification;
+  protected readonly use = CAUTIONS.use;
 }

@@ -12,6 +12,7 @@ import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatDialog } from '@angular/material/dialog';
 import { MatCell, MatCellDef, MatColumnDef, MatHeaderCell, MatHeaderCellDef, MatHeaderRow, MatHeaderRowDef, MatRow, MatRowDef, MatTable } from '@angular/material/table';
 import { catchError, map, of, startWith } from 'rxjs';
+import { FIELD_LIMITS } from '@shared/engine';
 import { AuthService } from '../../core/auth/auth-service';
 import { ApiProblem, readableError } from '../../core/http/api-problem';
 import { ConfirmDialog, type ConfirmData } from '../../shared/confirm-dialog';
@@ -71,7 +72,7 @@ export class AdminPeople {
   protected readonly columns = ['who', 'role', 'state', 'lastSignIn', 'actions'];
 
   protected readonly invite = this.#fb.group({
-    email: ['', [Validators.required, Validators.email, Validators.maxLength(254)]],
+    email: ['', [Validators.required, Validators.email, Validators.maxLength(FIELD_LIMITS.email.max)]],
     role: this.#fb.control<Role>('learner', Validators.required),
   });
   /** resetting through the directive also clears its submitted state, so the empty form shows no errors */

@@ -9,6 +9,7 @@ import { MatInput } from '@angular/material/input';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatDialog } from '@angular/material/dialog';
+import { FIELD_LIMITS } from '@shared/engine';
 import { ApiProblem, readableError } from '../../core/http/api-problem';
 import { ConfirmDialog, type ConfirmData } from '../../shared/confirm-dialog';
 import { type CreatedKey, KEY_SCOPES, type KeyScope, KeyService, type KeyUsage, type PartnerKey } from './key-service';
@@ -57,7 +58,7 @@ export default class KeysPage {
   protected readonly scopes = KEY_SCOPES;
   protected readonly scopeWords = SCOPE_WORDS;
   protected readonly form = this.#fb.group({
-    name: ['', [Validators.required, Validators.maxLength(120), Validators.pattern(/\S/)]],
+    name: ['', [Validators.required, Validators.maxLength(FIELD_LIMITS.keyName.max), Validators.pattern(/\S/)]],
     scopes: this.#fb.group({ lookup: true, identify: true }, { validators: atLeastOneScope }),
   });
 

@@ -5,9 +5,7 @@ import { MatExpansionPanel, MatExpansionPanelContent, MatExpansionPanelHeader, M
 import { MatCheckbox } from '@angular/material/checkbox';
 import { MatButtonToggle, MatButtonToggleGroup } from '@angular/material/button-toggle';
 import { MatButton } from '@angular/material/button';
-import type { CompiledMatrix } from '@shared/engine/compiled';
-import type { Candidate, RankResult, Reason, ReasonStatus } from '@shared/engine/types';
-import { commonName } from '../../shared/matrix-words';
+import { commonName, type Candidate, type CompiledMatrix, type RankResult, type Reason, type ReasonStatus } from '@shared/engine';
 import { MAX_LEEWAY } from './sift-query';
 
 export const MAX_SIDE_BY_SIDE = 4;

@@ -5,11 +5,8 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatIcon } from '@angular/material/icon';
 import { MatButton } from '@angular/material/button';
-import { rank, suggest, validateObservations } from '@shared/engine';
-import type { Observation, ObservingSeason } from '@shared/engine/types';
+import { CAUTIONS, commonName, rank, suggest, validateObservations, type Observation, type ObservingSeason } from '@shared/engine';
 import { EditionService } from '../../core/edition/edition-service';
-import { IDENTIFICATION_CAUTION } from '../../core/layout/cautions';
-import { commonName } from '../../shared/matrix-words';
 import { EditionStatus } from '../../shared/edition-status';
 import { LookAtNext } from './look-at-next';
 import { SeenSoFar } from './seen-so-far';
@@ -69,7 +66,7 @@ export default class SiftPage {
   readonly season = input<string>();
   readonly leeway = input<string>();
 
-  protected readonly caution = IDENTIFICATION_CAUTION;
+  protected readonly caution = CAUTIONS.identification;
   protected readonly picker = viewChild(TraitPicker);
   protected readonly compiled = this.editions.compiled;
 

@@ -4,9 +4,7 @@
  * Invariant: `formatObservations(parseObservations(text, compiled), compiled)` is `text` with only
  * the observations this edition knows, in the order written, so a shared link reads the same.
  */
-import { RANK_DEFAULTS } from '@shared/engine';
-import type { CompiledMatrix, CompiledTrait } from '@shared/engine/compiled';
-import type { LengthUnit, Observation, ObservingSeason } from '@shared/engine/types';
+import { formatNumber, RANK_DEFAULTS, type CompiledMatrix, type CompiledTrait, type LengthUnit, type Observation, type ObservingSeason } from '@shared/engine';
 
 export const DEFAULT_SEASON: ObservingSeason = 'leaf-on';
 /** the engine's own default, so a link without `leeway` ranks as the API does */
@@ -24,11 +22,6 @@ const MEASURE = /^(\d+(?:\.\d+)?)(cm|mm|in)?$/;
 
 export function isNumericObservation(observation: Observation): observation is { trait: string; value: number; unit?: LengthUnit } {
   return 'value' in observation;
-}
-
-/** A length written compactly: at most two decimals, no trailing zeros. */
-export function formatNumber(value: number): string {
-  return String(Math.round(value * 100) / 100);
 }
 
 function parseOne(trait: CompiledTrait, tokens: string[]): Observation | null {

@@ -6,10 +6,9 @@ import { MatIconButton, MatButton } from '@angular/material/button';
 import { MatButtonToggle, MatButtonToggleGroup, type MatButtonToggleChange } from '@angular/material/button-toggle';
 import { MatFormField, MatLabel, MatHint } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
-import type { CompiledMatrix, CompiledTrait } from '@shared/engine/compiled';
-import type { LengthUnit, Observation, ObservingSeason, PlantPart } from '@shared/engine/types';
-import { PART_LABELS, PART_ORDER, illustrationUrl } from '../../shared/matrix-words';
-import { formatNumber, isNumericObservation } from './sift-query';
+import { answerLabel, formatNumber, PART_LABELS, PLANT_PARTS, visibleInSeason, type CompiledMatrix, type CompiledTrait, type LengthUnit, type Observation, type ObservingSeason, type PlantPart } from '@shared/engine';
+import { illustrationUrl } from '../../shared/matrix-words';
+import { isNumericObservation } from './sift-query';
 
 /** Discrete traits with more answers than this take a typed count instead of chips. */
 const MAX_COUNT_CHIPS = 12;
@@ -46,11 +45,11 @@ export function chipId(trait: string, answer: string | number): string {
 function viewOf(trait: CompiledTrait): TraitView {
   if (trait.kind === 'numeric') return { trait, input: 'measure', options: [] };
   if (trait.kind === 'count' && trait.answerCount > MAX_COUNT_CHIPS) return { trait, input: 'count', options: [] };
-  const options = trait.answerCodes.map((answer, index) => {
+  const options = trait.answerCodes.map((answer) => {
     const value = trait.values.find((candidate) => candidate.code === String(answer));
     return {
       answer,
-      label: trait.answerLabels[index] ?? String(answer),
+      label: answerLabel(trait, answer),
       definition: value?.definition,
       illustration: illustrationUrl(value?.illustration),
       chipId: chipId(trait.code, answer),
@@ -61,7 +60,7 @@ function viewOf(trait: CompiledTrait): TraitView {
 
 /** Visible when the season shows it and no observation contradicts its appliesWhen condition. */
 export function traitVisible(trait: CompiledTrait, season: ObservingSeason, observed: ReadonlyMap<string, Observation>): boolean {
-  if (season === 'leaf-off' && trait.season === 'leaf-on') return false;
+  if (!visibleInSeason(trait, season)) return false;
   for (const [code, allowed] of Object.entries(trait.appliesWhen ?? {})) {
     const observation = observed.get(code);
     if (!observation || isNumericObservation(observation)) continue;
@@ -126,7 +125,7 @@ export class TraitPicker {
     const season = this.season();
     const observed = this.observed();
     const visible = this.#views().filter((view) => traitVisible(view.trait, season, observed));
-    return PART_ORDER.map((part) => ({ part, label: PART_LABELS[part], traits: visible.filter((view) => view.trait.part === part) })).filter(
+    return PLANT_PARTS.map((part) => ({ part, label: PART_LABELS[part], traits: visible.filter((view) => view.trait.part === part) })).filter(
       (group) => group.traits.length > 0,
     );
   });
