@@ -48,7 +48,9 @@ describe('e2e: sifting offline', function () {
     context = await running.suiteContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
     const codings = new Map<string, string>();
-    page.on('response', (response) => {
+    // On the context, so the requests the service worker makes itself (it may fetch the bundle once it
+    // controls the page) count too; answers it served from its cache did not cross the network.
+    context.on('response', (response) => {
       const url = new URL(response.url());
       if (!response.fromServiceWorker() && (/\.(js|css)$/.test(url.pathname) || url.pathname.endsWith('/editions/current/bundle'))) {
         const headers = response.headers();
