@@ -1,6 +1,7 @@
-import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { RouterLink } from '@angular/router';
 import { CAUTIONS } from '@shared/engine';
+import { PageCautions } from './page-cautions';
 
 @Component({
   selector: 'sv-site-footer',
@@ -10,6 +11,7 @@ import { CAUTIONS } from '@shared/engine';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SiteFooter {
+  protected readonly pageCautions = inject(PageCautions);
   protected readonly fieldSafety = CAUTIONS.fieldSafety;
   protected readonly identification = CAUTIONS.identification;
   protected readonly use = CAUTIONS.use;

@@ -118,3 +118,17 @@ export function loadLastSift(): SiftQuery | null {
     return null;
   }
 }
+
+/**
+ * The trait's observation with one more answer ("one of these"), in the trait's own answer order;
+ * null when the answer is not one the trait has. A numeric trait takes no answer this way.
+ */
+export function addAnswer(compiled: CompiledMatrix, observations: readonly Observation[], code: string, answer: string | number): Observation | null {
+  const index = compiled.traitIndexByCode.get(code);
+  const trait = index === undefined ? undefined : compiled.traits[index];
+  if (!trait || trait.kind === 'numeric' || !trait.answerCodes.some((known) => String(known) === String(answer))) return null;
+  const current = observations.find((observation) => observation.trait === code);
+  const held = current && !isNumericObservation(current) ? current.values.map(String) : [];
+  const values = trait.answerCodes.filter((known) => held.includes(String(known)) || String(known) === String(answer));
+  return { trait: code, values };
+}
