@@ -1,0 +1,147 @@
+/**
+ * Cells, names, help texts and vocabulary corrected after a dendrologist read the matrix, each
+ * checked against the printed source named beside it. Figures and descriptions were written down
+ * from memory of those texts unless a stored copy is named.
+ */
+import { expect } from 'chai';
+import type { DiscreteCell, MatrixDocument, Taxon, Trait } from '@shared/engine/types';
+import { loadReferenceMatrix } from '../../seeds/load-matrix';
+import { isDiscreteCell, isNumericCell, valuesOf } from './matrix-facts';
+
+const doc: MatrixDocument = loadReferenceMatrix();
+const taxonById = new Map(doc.taxa.map((item) => [item.id, item]));
+const traitByCode = new Map(doc.traits.map((item) => [item.code, item]));
+
+// Sources named in the comments below:
+// SILVICS  USDA Agriculture Handbook 654, Silvics of North America (from memory)
+// FNA2/3   Flora of North America vols. 2 and 3 (from memory)
+// DENDRO   Harlow, Harrar et al., Textbook of Dendrology (from memory)
+
+function taxon(id: string): Taxon {
+  const found = taxonById.get(id);
+  if (!found) throw new Error(`taxon ${id} missing from the matrix`);
+  return found;
+}
+
+function trait(code: string): Trait {
+  const found = traitByCode.get(code);
+  if (!found) throw new Error(`trait ${code} missing from the matrix`);
+  return found;
+}
+
+function discrete(id: string, code: string): DiscreteCell {
+  const cell = taxon(id).cells[code];
+  if (!isDiscreteCell(cell)) expect.fail(`${id}.${code} is ${JSON.stringify(cell)}, not a value set`);
+  return cell;
+}
+
+const usual = (id: string, code: string) => (discrete(id, code).usual ?? []).map(String);
+const all = (id: string, code: string) => valuesOf(discrete(id, code)).map(String);
+
+describe('botanist review: corrected cells', () => {
+  it('gives tree-of-heaven leaflets pointed, glandular basal teeth', () => {
+    // Silvics vol. 2, Ailanthus altissima; Harlow & Harrar: leaflets entire except one to four coarse
+    // teeth near the base, each with a gland on its underside (source: SILVICS; DENDRO)
+    expect(usual('ailanthus-altissima', 'leaf-margin')).to.deep.equal(['glandular-basal-teeth']);
+    expect(all('ailanthus-altissima', 'lobe-tips')).to.deep.equal(['pointed']);
+    const value = (trait('leaf-margin').values ?? []).find((item) => item.code === 'glandular-basal-teeth');
+    expect(value?.illustration).to.equal('leaf-margin/glandular-basal-teeth.svg');
+    // Poison sumac, its look-alike, has wholly entire leaflets (FNA3 is silent: Anacardiaceae; DENDRO)
+    expect(usual('toxicodendron-vernix', 'leaf-margin')).to.not.include('glandular-basal-teeth');
+  });
+
+  it('codes the red flowers of red buckeye and red maple as red', () => {
+    // DENDRO; Silvics vol. 2, Acer rubrum: flowers red, sometimes yellowish (source: SILVICS)
+    expect(usual('aesculus-pavia', 'flower-display')).to.deep.equal(['red']);
+    expect(usual('acer-rubrum', 'flower-display')).to.deep.equal(['red']);
+    expect(all('acer-rubrum', 'flower-display')).to.not.include('pink-purple');
+  });
+
+  it('codes red maple mature bark scaly to plated, smooth only on young stems', () => {
+    // Silvics vol. 2, Acer rubrum; DENDRO: bark smooth and light gray on young stems, breaking into
+    // long scaly plates on old trunks (source: SILVICS; DENDRO)
+    expect(usual('acer-rubrum', 'bark-texture')).to.have.members(['scaly', 'plated']);
+    expect(usual('acer-rubrum', 'bark-texture')).to.not.include('smooth');
+  });
+
+  it('codes loblolly needles stiff and often twisted', () => {
+    // FNA2, Pinus taeda: leaves stiff, often twisted (source: FNA2)
+    expect(usual('pinus-taeda', 'needle-form')).to.include.members(['stiff', 'twisted']);
+  });
+
+  it('keeps the field split between loblolly and shortleaf pine in the typical ranges', () => {
+    // DENDRO: loblolly needles 15–23 cm, cones 7.5–15 cm; shortleaf needles 7.5–12.5 cm, cones 4–6 cm
+    const range = (id: string, code: string) => {
+      const cell = taxon(id).cells[code];
+      if (!isNumericCell(cell)) expect.fail(`${id}.${code} is not a range`);
+      return cell;
+    };
+    expect([range('pinus-taeda', 'needle-length').low, range('pinus-taeda', 'needle-length').high]).to.deep.equal([15, 23]);
+    expect([range('pinus-taeda', 'cone-length').low, range('pinus-taeda', 'cone-length').high]).to.deep.equal([7.5, 15]);
+    expect([range('pinus-echinata', 'needle-length').low, range('pinus-echinata', 'needle-length').high]).to.deep.equal([7.5, 12.5]);
+    expect([range('pinus-echinata', 'cone-length').low, range('pinus-echinata', 'cone-length').high]).to.deep.equal([4, 6]);
+    // Typical needle lengths of the two do not overlap (touching ranges do).
+    expect(range('pinus-echinata', 'needle-length').high).to.be.below(range('pinus-taeda', 'needle-length').low);
+  });
+
+  it('counts leaflets on once-compound leaves and pinnae on twice-compound ones', () => {
+    // The help says what is counted; common practice, no source
+    expect(trait('leaflet-count').help).to.match(/pinnae/);
+    // Mimosa: bipinnate, pinnae 3–12 pairs, each with 20–60 leaflets (DENDRO): the coded counts are pinnae
+    expect(Math.max(...all('albizia-julibrissin', 'leaflet-count').map(Number))).to.be.at.most(24);
+    // Honeylocust: once-pinnate leaves with 15–30 leaflets (even-pinnate), twice-pinnate leaves with
+    // 8–14 pinnae (DENDRO); the pinna counts may only be coded below the usual leaflet counts.
+    const honeylocust = discrete('gleditsia-triacanthos', 'leaflet-count');
+    const usualCounts = (honeylocust.usual ?? []).map(Number);
+    expect(Math.min(...usualCounts)).to.be.at.least(15);
+    expect(Math.max(...usualCounts)).to.be.at.most(30);
+    for (const count of usualCounts) expect(count % 2, `honeylocust usual count ${count} is odd`).to.equal(0);
+    for (const count of valuesOf(honeylocust).map(Number)) {
+      expect(count >= 8 && count <= 30, `honeylocust count ${count} is neither a leaflet nor a pinna count`).to.be.true;
+    }
+  });
+
+  it('gives pecan a thin husk splitting to the base along winged sutures', () => {
+    // FNA3, Carya illinoinensis: husk thin, 4-winged along the sutures, splitting to the base (source: FNA3)
+    expect(usual('carya-illinoinensis', 'husk')).to.include.members(['winged-seams', 'splits-to-base']);
+  });
+
+  it('gives chinkapin oak a deep cup enclosing a quarter to a half of the nut', () => {
+    // FNA3, Quercus muehlenbergii: cup deeply cup-shaped, enclosing 1/4–1/2 of the nut (source: FNA3)
+    expect(usual('quercus-muehlenbergii', 'acorn-cap')).to.deep.equal(['deep']);
+  });
+
+  it('codes spruce pine twigs and the small end of its cones', () => {
+    // Eckenwalder, Conifers of the World (2009), as quoted on a stored species page: twigs purplish
+    // brown, hairless, sometimes waxy. Virginia Tech Dendrology fact sheet (stored page): cones 1–2 in.
+    expect(taxon('pinus-glabra').cells['twig-bloom']).to.not.equal('unknown');
+    expect(all('pinus-glabra', 'twig-bloom')).to.include('present');
+    const cone = taxon('pinus-glabra').cells['cone-length'];
+    expect(isNumericCell(cone) && cone.min).to.equal(2.5);
+  });
+
+  it('gives American elm a very short leaf stalk and blackjack oak a stout one of 1–2 cm', () => {
+    // DENDRO, Ulmus americana: petiole about 5–7 mm; FNA3, Quercus marilandica: petiole 6–20 mm, stout
+    expect(usual('ulmus-americana', 'petiole-form')).to.include('very-short');
+    expect(usual('quercus-marilandica', 'petiole-form')).to.not.include('very-short');
+  });
+
+  it('codes butternut leaflets hairy beneath, not sandpapery', () => {
+    // FNA3, Juglans cinerea: leaflets with glandular and stellate hairs beneath, sticky to the touch (source: FNA3)
+    expect(usual('juglans-cinerea', 'leaf-surface')).to.deep.equal(['hairy-below']);
+  });
+
+  it('codes the pith of every conifer rather than leaving it unknown', () => {
+    // Conifer twigs have a small, solid, uniform pith (DENDRO, general description of conifer twigs).
+    // pith has no appliesWhen in the core glossary, so it cannot be `inapplicable` to conifers.
+    for (const item of doc.taxa.filter((t) => !usualOf(t, 'foliage').includes('broad'))) {
+      expect(item.cells['pith'], item.id).to.not.equal('unknown');
+      expect(usualOf(item, 'pith'), item.id).to.deep.equal(['continuous']);
+    }
+  });
+});
+
+function usualOf(item: Taxon, code: string): string[] {
+  const cell = item.cells[code];
+  return isDiscreteCell(cell) ? (cell.usual ?? []).map(String) : [];
+}
