@@ -145,3 +145,57 @@ function usualOf(item: Taxon, code: string): string[] {
   const cell = item.cells[code];
   return isDiscreteCell(cell) ? (cell.usual ?? []).map(String) : [];
 }
+
+describe('botanist review: common names and range notes', () => {
+  it('gives no common name to two taxa', () => {
+    // A common name that means two species in the matrix (ironwood, soft maple, laurel oak …) sends a
+    // search to the wrong tree; such names are left off both. Spelling variants (white-cedar / white
+    // cedar) count as one name. common practice, no source
+    const owners = new Map<string, string[]>();
+    for (const item of doc.taxa) {
+      for (const name of new Set(item.commonNames.map((n) => n.toLowerCase().replace(/[-\s]+/g, ' ').trim()))) {
+        owners.set(name, [...(owners.get(name) ?? []), item.id]);
+      }
+    }
+    const shared = [...owners].filter(([, ids]) => ids.length > 1).map(([name, ids]) => `${name}: ${ids.join(', ')}`);
+    expect(shared).to.deep.equal([]);
+  });
+
+  it('keeps off names that belong to another species or to a group', () => {
+    // Shellbark hickory is Carya laciniosa, swamp bay Persea palustris, black birch Betula lenta, and
+    // southern yellow pine the timber group of all the southern hard pines (DENDRO; Little, USDA
+    // Agriculture Handbook 541, Checklist of United States Trees; from memory).
+    expect(taxon('carya-ovata').commonNames).to.not.include('shellbark hickory');
+    expect(taxon('magnolia-virginiana').commonNames).to.not.include('swamp bay');
+    expect(taxon('betula-nigra').commonNames).to.not.include('black birch');
+    expect(taxon('betula-lenta').commonNames).to.include('black birch');
+    expect(taxon('pinus-palustris').commonNames).to.not.include('southern yellow pine');
+    expect(taxon('quercus-laurifolia').commonNames).to.include('laurel oak');
+    expect(taxon('quercus-imbricaria').commonNames).to.not.include('laurel oak');
+  });
+
+  const STATES = [
+    'Alabama', 'Arkansas', 'Connecticut', 'Delaware', 'Florida', 'Georgia', 'Illinois', 'Indiana', 'Iowa', 'Kansas', 'Kentucky',
+    'Louisiana', 'Maine', 'Maryland', 'Massachusetts', 'Michigan', 'Minnesota', 'Mississippi', 'Missouri', 'Montana', 'Nebraska',
+    'New Hampshire', 'New Jersey', 'New York', 'North Carolina', 'North Dakota', 'Ohio', 'Oklahoma', 'Pennsylvania', 'Rhode Island',
+    'South Carolina', 'South Dakota', 'Tennessee', 'Texas', 'Vermont', 'West Virginia', 'Virginia', 'Wisconsin',
+  ];
+  const ABBREVIATIONS = ['AL', 'AR', 'CT', 'DE', 'FL', 'GA', 'IL', 'IN', 'IA', 'KS', 'KY', 'LA', 'ME', 'MD', 'MA', 'MI', 'MN', 'MS', 'MO', 'NE', 'NH', 'NJ', 'NY', 'NC', 'ND', 'OH', 'OK', 'PA', 'RI', 'SC', 'SD', 'TN', 'TX', 'VT', 'VA', 'WV', 'WI'];
+  const QUALIFIERS = ['north', 'south', 'east', 'west', 'central', 'northern', 'southern', 'eastern', 'western', 'northeastern', 'northwestern', 'southeastern', 'southwestern', 'extreme'];
+  const QUALIFIER = `(?:(?:${QUALIFIERS.map((word) => `[${word[0]}${word[0].toUpperCase()}]${word.slice(1)}`).join('|')})\\s+)*`;
+  const STATE = `(?:${STATES.join('|')}|\\b(?:${ABBREVIATIONS.join('|')})\\b)`;
+  // Regions a range can be told by: physiographic provinces, mountains, valleys, plains (common practice, no source).
+  const REGION = /coastal plain|piedmont|appalachian|ozark|ouachita|cumberland|blue ridge|great plains|great lakes|prairies|valley|uplands|mountains|highlands|plateau|floodplains|swamps|gulf|atlantic|maritime|new england|midwest|northeast|southeast|panhandle|red river|eastern (north america|united states)|throughout|china|mexico/i;
+
+  it('describes each range by region, not as a list of states', () => {
+    // Three or more states strung together with commas and "and" is a list, not a range description.
+    const list = new RegExp(`${QUALIFIER}${STATE}(?:\\s*(?:,|and|, and)\\s+${QUALIFIER}${STATE}){2,}`);
+    const offenders: string[] = [];
+    for (const item of doc.taxa) {
+      const note = item.range ?? '';
+      if (list.test(note)) offenders.push(`${item.id}: lists states: ${note.match(list)?.[0]}`);
+      if (!REGION.test(note)) offenders.push(`${item.id}: names no region: ${note}`);
+    }
+    expect(offenders).to.deep.equal([]);
+  });
+});
