@@ -199,3 +199,55 @@ describe('botanist review: common names and range notes', () => {
     expect(offenders).to.deep.equal([]);
   });
 });
+
+describe('botanist review: safety wording', () => {
+  // A trait that asks the observer to scratch, crush, break, nick or cut a twig or leaf.
+  const HANDLING = /\b(scratch|crush|break|nick|cut|snap|bruise)\b/i;
+  // Taxa whose cautions say their sap or foliage irritates or blisters skin.
+  const irritants = doc.taxa.filter((item) => (item.cautions ?? []).some((text) => /\bsap\b.*\b(skin|rash)\b|\brash\b.*\bdo not touch\b|\bblistering\b/i.test(text)));
+
+  it('finds the irritant species the warnings must name', () => {
+    // Poison sumac: every part causes a blistering rash (DENDRO; Toxicodendron in Weakley, Flora of the
+    // Southern and Mid-Atlantic States; from memory). The others are named in their own cautions.
+    expect(irritants.map((item) => item.id)).to.include.members(['toxicodendron-vernix', 'ailanthus-altissima', 'maclura-pomifera', 'morus-rubra']);
+  });
+
+  it('warns first, in every help that asks to scratch, crush, break or cut, about the irritant species', () => {
+    const handling = doc.traits.filter((item) => HANDLING.test(item.help));
+    expect(handling.map((item) => item.code)).to.include.members(['crushed-scent', 'milky-sap', 'pith']);
+    for (const item of handling) {
+      const firstSentence = item.help.split(/(?<=[.!?])\s+/)[0];
+      expect(firstSentence, `${item.code}: the help must open with the poison sumac warning`).to.match(/poison sumac/i);
+      for (const irritant of irritants) {
+        const named = irritant.commonNames.some((name) => item.help.toLowerCase().includes(name.toLowerCase()));
+        expect(named, `${item.code}: does not name ${irritant.id}`).to.be.true;
+      }
+      expect(item.help, item.code).to.match(/gloves/);
+    }
+  });
+
+  it('writes the cautions without grammar slips', () => {
+    // "a" before a vowel sound, a doubled word, a space before punctuation, a missing full stop.
+    // common practice, no source
+    const slips: string[] = [];
+    for (const item of doc.taxa) {
+      for (const text of item.cautions ?? []) {
+        if (/\b[Aa] (?!one\b|u[bcfkns]|uni|eu|use)[aeiou]/.test(text)) slips.push(`${item.id}: "a" before a vowel: ${text}`);
+        if (/\b[Aa]n (?![aeiouh])[a-z]/.test(text)) slips.push(`${item.id}: "an" before a consonant: ${text}`);
+        if (/\b(\w+) \1\b/i.test(text)) slips.push(`${item.id}: doubled word: ${text}`);
+        if (/ [,.;:]|\s{2}/.test(text)) slips.push(`${item.id}: spacing: ${text}`);
+        if (!/^[A-Z]/.test(text) || !/[.!]$/.test(text)) slips.push(`${item.id}: not a sentence: ${text}`);
+      }
+    }
+    for (const item of doc.traits) {
+      if (/\b[Aa] (?!one\b|u[bcfkns]|uni|eu|use)[aeiou]|\b(\w+) \2\b/.test(item.help)) slips.push(`${item.code}: help: ${item.help}`);
+    }
+    expect(slips).to.deep.equal([]);
+  });
+
+  it('keeps the boxelder seed caution', () => {
+    // Boxelder seeds carry hypoglycin A, linked to seasonal pasture myopathy of horses, often fatal
+    // (veterinary literature, from memory)
+    expect(taxon('acer-negundo').cautions?.join(' ')).to.match(/an often fatal muscle disease/);
+  });
+});
