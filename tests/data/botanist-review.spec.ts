@@ -251,3 +251,82 @@ describe('botanist review: safety wording', () => {
     expect(taxon('acer-negundo').cautions?.join(' ')).to.match(/an often fatal muscle disease/);
   });
 });
+
+describe('botanist review: one meaning per word', () => {
+  it('lets no synonym stand for values of two traits', () => {
+    // A word typed into search must lead to one trait ("three-lobed" is a leaf scar, "white bark" a
+    // bark texture, "decurrent" a crown form). common practice, no source
+    const owners = new Map<string, Set<string>>();
+    for (const item of doc.traits) {
+      for (const value of item.values ?? []) {
+        for (const synonym of value.synonyms ?? []) {
+          const key = synonym.toLowerCase();
+          owners.set(key, new Set([...(owners.get(key) ?? []), item.code]));
+        }
+      }
+    }
+    const shared = [...owners].filter(([, codes]) => codes.size > 1).map(([word, codes]) => `${word}: ${[...codes].join(', ')}`);
+    expect(shared).to.deep.equal([]);
+  });
+
+  it('uses "decurrent" only for the crown', () => {
+    // Harlow & Harrar: a decurrent crown divides into several large limbs (DENDRO)
+    for (const item of doc.traits.filter((t) => t.code !== 'crown-form')) {
+      for (const value of item.values ?? []) {
+        expect([value.code, value.label, ...(value.synonyms ?? [])].join(' '), `${item.code}/${value.code}`).to.not.match(/decurrent/i);
+      }
+    }
+  });
+
+  it('keeps the cordate and star outlines consistent with the base and the lobing', () => {
+    // A heart-shaped outline has a notched base; a star-shaped outline is a palmately lobed blade (DENDRO glossary)
+    for (const item of doc.taxa) {
+      const shapes = isDiscreteCell(item.cells['leaf-shape']) ? valuesOf(item.cells['leaf-shape'] as DiscreteCell).map(String) : [];
+      if (shapes.includes('cordate')) expect(all(item.id, 'blade-base'), item.id).to.include('cordate');
+      if (shapes.includes('star')) expect(all(item.id, 'leaf-lobing'), item.id).to.include('palmately-lobed');
+    }
+    // sweetgum and sugar maple star-shaped and lobed; redbud and basswood heart-shaped with notched bases
+    expect(usual('cercis-canadensis', 'blade-base')).to.deep.equal(['cordate']);
+    expect(usual('tilia-americana', 'blade-base')).to.include('cordate');
+    expect(usual('quercus-coccinea', 'blade-base')).to.deep.equal(['truncate']);
+  });
+
+  it('keeps "stays green" for evergreens and gives trees that drop green leaves their own answer', () => {
+    // Mimosa, princess-tree and catalpa drop their leaves green or nearly so (DENDRO); only trees that
+    // hold green leaves through winter stay green.
+    for (const item of doc.taxa) {
+      const fall = item.cells['fall-color'];
+      if (!isDiscreteCell(fall) || !valuesOf(fall).includes('none')) continue;
+      expect(all(item.id, 'leaf-persistence'), `${item.id} stays green but is not evergreen`).to.include('evergreen');
+    }
+    for (const id of ['albizia-julibrissin', 'paulownia-tomentosa', 'catalpa-bignonioides']) {
+      expect(all(id, 'fall-color'), id).to.include('drops-green');
+    }
+  });
+
+  it('asks leaf-stalk section and length separately', () => {
+    // American elm stalks about 5–7 mm, sugar maple 3–8 cm, quaking-aspen-like flattened stalks of
+    // bigtooth aspen (DENDRO)
+    expect(trait('petiole-length').appliesWhen).to.deep.equal({ foliage: ['broad'] });
+    expect(usual('ulmus-americana', 'petiole-length')).to.deep.equal(['short']);
+    expect(usual('acer-saccharum', 'petiole-length')).to.deep.equal(['long']);
+    expect(usual('populus-grandidentata', 'petiole-form')).to.deep.equal(['flattened']);
+    expect(trait('petiole-form').help).to.not.match(/note its length/);
+  });
+
+  it('calls fir and hemlock needles single, not a bundle of one', () => {
+    // FNA2, Abies and Tsuga: leaves borne singly (source: FNA2)
+    const single = (trait('needles-per-fascicle').values ?? []).find((value) => value.code === '1');
+    expect(single?.label).to.match(/single/i);
+    expect(`${single?.label} ${single?.definition}`).to.match(/not in bundles/);
+    expect((single?.synonyms ?? []).join(' ')).to.not.match(/per bundle/);
+  });
+
+  it('says which pith values need a lengthwise cut and which a cross cut', () => {
+    // DENDRO: chambered and diaphragmed pith are seen in a lengthwise cut, the star-shaped outline across
+    const definition = (code: string) => (trait('pith').values ?? []).find((value) => value.code === code)?.definition ?? '';
+    expect(trait('pith').label).to.match(/lengthwise and across/);
+    expect(definition('star-shaped')).to.match(/cross cut/);
+    for (const code of ['continuous', 'chambered', 'diaphragmed']) expect(definition(code), code).to.match(/lengthwise/);
+  });
+});

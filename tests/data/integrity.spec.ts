@@ -41,6 +41,9 @@ const CORE_ADDITIONS: Record<string, string[]> = {
   // Tree-of-heaven leaflets: entire but for a few coarse glandular teeth at the base
   // (USDA Agriculture Handbook 654, Silvics of North America vol. 2, Ailanthus altissima; from memory)
   'leaf-margin': ['glandular-basal-teeth'],
+  // Deciduous trees that shed their leaves still green (mimosa, princess-tree, catalpa) are not
+  // "stays green" evergreens (Harlow, Harrar et al., Textbook of Dendrology; from memory)
+  'fall-color': ['drops-green'],
 };
 
 /** The taxon files this part of the matrix is responsible for: every trait is coded explicitly there. */
