@@ -6,7 +6,7 @@
 import { expect } from 'chai';
 import type { DiscreteCell, MatrixDocument, Taxon, Trait } from '@shared/engine/types';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
-import { isDiscreteCell, isNumericCell, valuesOf } from './matrix-facts';
+import { isDiscreteCell, isNumericCell, separatingTraits, valuesOf } from './matrix-facts';
 
 const doc: MatrixDocument = loadReferenceMatrix();
 const taxonById = new Map(doc.taxa.map((item) => [item.id, item]));
@@ -104,6 +104,9 @@ describe('botanist review: corrected cells', () => {
   it('gives pecan a thin husk splitting to the base along winged sutures', () => {
     // FNA3, Carya illinoinensis: husk thin, 4-winged along the sutures, splitting to the base (source: FNA3)
     expect(usual('carya-illinoinensis', 'husk')).to.include.members(['winged-seams', 'splits-to-base']);
+    expect(usual('carya-illinoinensis', 'husk-thickness')).to.deep.equal(['thin']);
+    // the splitting values say nothing about thickness any more
+    for (const value of trait('husk').values ?? []) expect(`${value.label} ${(value.synonyms ?? []).join(' ')}`, value.code).to.not.match(/\b(thin|thick)\b/i);
   });
 
   it('gives chinkapin oak a deep cup enclosing a quarter to a half of the nut', () => {
@@ -213,16 +216,17 @@ describe('botanist review: safety wording', () => {
   });
 
   it('warns first, in every help that asks to scratch, crush, break or cut, about the irritant species', () => {
-    const handling = doc.traits.filter((item) => HANDLING.test(item.help));
+    const handling = doc.traits.filter((item) => HANDLING.test(item.help ?? ''));
     expect(handling.map((item) => item.code)).to.include.members(['crushed-scent', 'milky-sap', 'pith']);
     for (const item of handling) {
-      const firstSentence = item.help.split(/(?<=[.!?])\s+/)[0];
+      const help = item.help ?? '';
+      const firstSentence = help.split(/(?<=[.!?])\s+/)[0];
       expect(firstSentence, `${item.code}: the help must open with the poison sumac warning`).to.match(/poison sumac/i);
       for (const irritant of irritants) {
-        const named = irritant.commonNames.some((name) => item.help.toLowerCase().includes(name.toLowerCase()));
+        const named = irritant.commonNames.some((name) => help.toLowerCase().includes(name.toLowerCase()));
         expect(named, `${item.code}: does not name ${irritant.id}`).to.be.true;
       }
-      expect(item.help, item.code).to.match(/gloves/);
+      expect(help, item.code).to.match(/gloves/);
     }
   });
 
@@ -240,7 +244,8 @@ describe('botanist review: safety wording', () => {
       }
     }
     for (const item of doc.traits) {
-      if (/\b[Aa] (?!one\b|u[bcfkns]|uni|eu|use)[aeiou]|\b(\w+) \2\b/.test(item.help)) slips.push(`${item.code}: help: ${item.help}`);
+      const help = item.help ?? '';
+      if (/\b[Aa] (?!one\b|u[bcfkns]|uni|eu|use)[aeiou]/.test(help) || /\b(\w+) \1\b/i.test(help)) slips.push(`${item.code}: help: ${help}`);
     }
     expect(slips).to.deep.equal([]);
   });
@@ -328,5 +333,101 @@ describe('botanist review: one meaning per word', () => {
     expect(trait('pith').label).to.match(/lengthwise and across/);
     expect(definition('star-shaped')).to.match(/cross cut/);
     for (const code of ['continuous', 'chambered', 'diaphragmed']) expect(definition(code), code).to.match(/lengthwise/);
+  });
+});
+
+describe('botanist review: look-alikes separated by the traits practitioners use', () => {
+  // Two taxa are told apart by a trait when both are coded and their usual values do not meet.
+  const separates = (code: string, a: string, b: string) => {
+    const ua = usual(a, code);
+    const ub = usual(b, code);
+    return ua.length > 0 && ub.length > 0 && !ua.some((value) => ub.includes(value));
+  };
+  const PAIRS: Array<{ a: string; b: string; traits: string[]; source: string }> = [
+    // maples: silver maple's deep sinuses, red maple's sharp V sinuses, sugar maple's rounded U ones
+    { a: 'acer-rubrum', b: 'acer-saccharinum', traits: ['sinus-depth'], source: 'SILVICS vol. 2; DENDRO' },
+    { a: 'acer-rubrum', b: 'acer-saccharum', traits: ['sinus-shape'], source: 'DENDRO' },
+    // red oaks: scarlet oak's deep C-shaped sinuses against the U sinuses of black and Shumard oak;
+    // cherrybark's hairy twigs against scarlet oak's smooth ones
+    { a: 'quercus-coccinea', b: 'quercus-velutina', traits: ['sinus-shape'], source: 'FNA3; DENDRO' },
+    { a: 'quercus-coccinea', b: 'quercus-shumardii', traits: ['cup-cover'], source: 'FNA3' },
+    { a: 'quercus-coccinea', b: 'quercus-pagoda', traits: ['twig-hairs', 'sinus-shape'], source: 'FNA3' },
+    { a: 'quercus-shumardii', b: 'quercus-velutina', traits: ['sinus-depth'], source: 'FNA3' },
+    // ashes: white ash stalked leaflets and a wing from the tip of a plump seed; green ash short
+    // leaflet stalks and a wing running down the seed; Carolina ash a flat seed winged all round;
+    // pumpkin ash velvety twigs
+    { a: 'fraxinus-americana', b: 'fraxinus-pennsylvanica', traits: ['leaflet-stalks', 'samara-wing'], source: 'DENDRO; SILVICS vol. 2' },
+    { a: 'fraxinus-caroliniana', b: 'fraxinus-pennsylvanica', traits: ['samara-wing', 'leaflet-stalks'], source: 'DENDRO' },
+    { a: 'fraxinus-americana', b: 'fraxinus-profunda', traits: ['samara-wing', 'twig-hairs'], source: 'DENDRO' },
+    // hickories: pignut's small bud, thin husk and pear-shaped nut against shagbark's; mockernut's
+    // large bud and hairy twigs against pignut; walnuts by nut shape
+    { a: 'carya-glabra', b: 'carya-ovata', traits: ['terminal-bud-size', 'husk-thickness', 'nut-shape'], source: 'FNA3; DENDRO' },
+    { a: 'carya-glabra', b: 'carya-tomentosa', traits: ['terminal-bud-size', 'husk-thickness', 'twig-hairs'], source: 'FNA3; DENDRO' },
+    { a: 'carya-cordiformis', b: 'carya-ovata', traits: ['husk-thickness'], source: 'FNA3' },
+    { a: 'juglans-cinerea', b: 'juglans-nigra', traits: ['nut-shape'], source: 'FNA3' },
+    // white oaks: overcup's cup nearly enclosing the nut; post oak's woolly twigs
+    { a: 'quercus-lyrata', b: 'quercus-macrocarpa', traits: ['cup-cover'], source: 'FNA3' },
+    { a: 'quercus-lyrata', b: 'quercus-stellata', traits: ['cup-cover'], source: 'FNA3' },
+    { a: 'quercus-macrocarpa', b: 'quercus-stellata', traits: ['cup-cover'], source: 'FNA3' },
+    { a: 'quercus-montana', b: 'quercus-stellata', traits: ['twig-hairs'], source: 'FNA3; DENDRO' },
+  ];
+  for (const pair of PAIRS) {
+    it(`${pair.a} / ${pair.b}: ${pair.traits.join(', ')} (${pair.source})`, () => {
+      for (const code of pair.traits) expect(separates(code, pair.a, pair.b), code).to.be.true;
+    });
+  }
+
+  it('ripens white-group acorns in one season and red-group acorns in two', () => {
+    // FNA3, Quercus sect. Quercus and sect. Lobatae (source: FNA3)
+    const RED = ['coccinea', 'falcata', 'imbricaria', 'laurifolia', 'marilandica', 'nigra', 'pagoda', 'palustris', 'phellos', 'rubra', 'shumardii', 'velutina'];
+    const WHITE = ['alba', 'lyrata', 'macrocarpa', 'michauxii', 'montana', 'muehlenbergii', 'stellata', 'virginiana'];
+    for (const name of RED) expect(all(`quercus-${name}`, 'acorn-maturation'), name).to.deep.equal(['two-year']);
+    for (const name of WHITE) expect(all(`quercus-${name}`, 'acorn-maturation'), name).to.deep.equal(['one-year']);
+  });
+
+  it('codes the overcup cup nearly enclosing the nut and no other oak so', () => {
+    // FNA3, Quercus lyrata: cup enclosing 2/3 to all of the nut (source: FNA3)
+    expect(usual('quercus-lyrata', 'cup-cover')).to.deep.equal(['nearly-enclosed']);
+    for (const item of doc.taxa.filter((t) => t.id.startsWith('quercus-') && t.id !== 'quercus-lyrata')) {
+      expect(usual(item.id, 'cup-cover'), item.id).to.not.include('nearly-enclosed');
+    }
+  });
+
+  it('codes the dead leaves beech keeps in winter', () => {
+    // DENDRO; SILVICS vol. 2, Fagus grandifolia: young trees hold dead leaves through winter
+    expect(usual('fagus-grandifolia', 'marcescence')).to.deep.equal(['kept']);
+    expect(trait('marcescence').appliesWhen).to.deep.equal({ foliage: ['broad'], 'leaf-persistence': ['deciduous'] });
+    expect(taxon('ilex-opaca').cells['marcescence']).to.equal('inapplicable');
+  });
+
+  it('codes bundle scars as the twig keys give them', () => {
+    // Harlow, Fruit Key and Twig Key to Trees and Shrubs (from memory): one in persimmon and holly,
+    // three in maples and elms, three clusters in walnuts and buckeyes, many in oaks and hickories
+    expect(usual('diospyros-virginiana', 'bundle-scars')).to.deep.equal(['one']);
+    expect(usual('ilex-opaca', 'bundle-scars')).to.deep.equal(['one']);
+    for (const id of ['acer-rubrum', 'acer-saccharum', 'ulmus-americana']) expect(usual(id, 'bundle-scars'), id).to.deep.equal(['three']);
+    for (const id of ['juglans-nigra', 'aesculus-flava']) expect(usual(id, 'bundle-scars'), id).to.deep.equal(['three-groups']);
+    for (const item of doc.taxa.filter((t) => /^(quercus|carya)-/.test(t.id))) expect(usual(item.id, 'bundle-scars'), item.id).to.deep.equal(['many']);
+  });
+
+  it('separates every look-alike pair by two traits or more, but for the pairs still waiting for one', () => {
+    // One trait is one misreading away from a wrong answer, so look-alikes should differ in two.
+    // common practice, no source. The pairs below still hang on one trait: the conifer pairs need
+    // traits this review did not add (cone and foliage details), laurel and water oak a leaf-shape
+    // reading of the published descriptions.
+    const WAITING = new Set([
+      'chamaecyparis-thyoides|juniperus-virginiana', 'chamaecyparis-thyoides|thuja-occidentalis', 'pinus-elliottii|pinus-taeda',
+      'pinus-pungens|pinus-virginiana', 'taxodium-ascendens|taxodium-distichum', 'quercus-laurifolia|quercus-nigra',
+    ]);
+    const weak: string[] = [];
+    for (const a of doc.taxa) {
+      for (const id of a.lookAlikes ?? []) {
+        const key = [a.id, id].sort().join('|');
+        const count = separatingTraits(a, taxon(id), doc.traits).length;
+        if (count < 2 && !WAITING.has(key)) weak.push(`${key}: ${count}`);
+        if (count >= 2 && WAITING.has(key)) weak.push(`${key} is separated now: take it off the waiting list`);
+      }
+    }
+    expect([...new Set(weak)]).to.deep.equal([]);
   });
 });
