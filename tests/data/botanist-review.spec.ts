@@ -377,6 +377,12 @@ describe('botanist review: look-alikes separated by the traits practitioners use
     });
   }
 
+  it('gives laurel oak a blade widest at the middle and water oak one widest near the tip', () => {
+    // FNA3: Quercus laurifolia blades narrowly elliptic to rhombic; Q. nigra obovate to spatulate (source: FNA3)
+    expect(usual('quercus-laurifolia', 'leaf-shape')).to.deep.equal(['elliptic']);
+    expect(usual('quercus-nigra', 'leaf-shape')).to.not.include('elliptic');
+  });
+
   it('ripens white-group acorns in one season and red-group acorns in two', () => {
     // FNA3, Quercus sect. Quercus and sect. Lobatae (source: FNA3)
     const RED = ['coccinea', 'falcata', 'imbricaria', 'laurifolia', 'marilandica', 'nigra', 'pagoda', 'palustris', 'phellos', 'rubra', 'shumardii', 'velutina'];
@@ -413,11 +419,10 @@ describe('botanist review: look-alikes separated by the traits practitioners use
   it('separates every look-alike pair by two traits or more, but for the pairs still waiting for one', () => {
     // One trait is one misreading away from a wrong answer, so look-alikes should differ in two.
     // common practice, no source. The pairs below still hang on one trait: the conifer pairs need
-    // traits this review did not add (cone and foliage details), laurel and water oak a leaf-shape
-    // reading of the published descriptions.
+    // traits this review did not add (foliage sprays, cone prickles, branchlet habit).
     const WAITING = new Set([
       'chamaecyparis-thyoides|juniperus-virginiana', 'chamaecyparis-thyoides|thuja-occidentalis', 'pinus-elliottii|pinus-taeda',
-      'pinus-pungens|pinus-virginiana', 'taxodium-ascendens|taxodium-distichum', 'quercus-laurifolia|quercus-nigra',
+      'pinus-pungens|pinus-virginiana', 'taxodium-ascendens|taxodium-distichum',
     ]);
     const weak: string[] = [];
     for (const a of doc.taxa) {
