@@ -436,3 +436,15 @@ describe('botanist review: look-alikes separated by the traits practitioners use
     expect([...new Set(weak)]).to.deep.equal([]);
   });
 });
+
+describe('botanist review: one figure per measurement', () => {
+  it('gives every conifer the same range for fruit length and cone length', () => {
+    // The seed cone is the conifer's fruit, so the two traits measure one thing; a correction to
+    // one must reach the other. common practice, no source
+    for (const item of doc.taxa) {
+      const cone = item.cells['cone-length'];
+      if (!isNumericCell(cone)) continue;
+      expect(item.cells['fruit-length'], item.id).to.deep.equal(cone);
+    }
+  });
+});
