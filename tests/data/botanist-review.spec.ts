@@ -272,6 +272,21 @@ describe('botanist review: one meaning per word', () => {
     }
     const shared = [...owners].filter(([, codes]) => codes.size > 1).map(([word, codes]) => `${word}: ${[...codes].join(', ')}`);
     expect(shared).to.deep.equal([]);
+    // nor may a synonym be the name of another trait's value
+    const named = new Map<string, Set<string>>();
+    for (const item of doc.traits) {
+      for (const value of item.values ?? []) {
+        for (const word of [value.label, value.code.replace(/-/g, ' ')]) {
+          const key = word.toLowerCase();
+          named.set(key, new Set([...(named.get(key) ?? []), item.code]));
+        }
+      }
+    }
+    const clashes = [...owners]
+      .map(([word, codes]) => [word, [...(named.get(word) ?? [])].filter((code) => !codes.has(code))] as const)
+      .filter(([, others]) => others.length > 0)
+      .map(([word, others]) => `${word}: names a value of ${others.join(', ')}`);
+    expect(clashes).to.deep.equal([]);
   });
 
   it('uses "decurrent" only for the crown', () => {
