@@ -26,7 +26,7 @@ type SearchState = { status: 'idle' } | { status: 'searching' } | { status: 'don
     <mat-autocomplete #speciesOptions="matAutocomplete" autoActiveFirstOption [displayWith]="displayNothing" (optionSelected)="pick($event)">
       @for (match of matches(); track match.id) {
         <mat-option [value]="match" [disabled]="listed().has(match.id)">
-          <span class="option-name">{{ commonName(match) }}</span>
+          <span class="option-name">{{ speciesName(match) }}</span>
           <span class="sci">{{ match.scientificName }}</span>
           @if (listed().has(match.id)) {
             <span class="option-note">in the set</span>
