@@ -133,7 +133,7 @@ interface OptimumSummary {
 function meanQuestions(compiled: CompiledMatrix, lookahead: boolean): number {
   let total = 0;
   for (let t = 0; t < compiled.taxonCount; t++) {
-    const outcome = simulateSift(compiled, t, seededRandom(t + 1), { kind: 'engine', ...(lookahead ? {} : { lookaheadMaxCandidates: 0 }) }, { confidentAt: CONFIDENT_AT, errorRate: 0 });
+    const outcome = simulateSift(compiled, t, seededRandom(t + 1), { kind: 'engine', assumeSeen: true, ...(lookahead ? {} : { lookaheadMaxCandidates: 0 }) }, { confidentAt: CONFIDENT_AT, errorRate: 0 });
     if (outcome.leader !== compiled.taxa[t].id && outcome.leaderProbability >= CONFIDENT_AT) throw new Error(`error-free sift for ${compiled.taxa[t].id} ended on ${outcome.leader}`);
     total += outcome.questions;
   }

@@ -76,7 +76,7 @@ export function drawAnswer(compiled: CompiledMatrix, traitIndex: number, t: numb
 
 /** How the next trait is chosen in a simulated sift. */
 export type Policy =
-  | { kind: 'engine'; lookaheadMaxCandidates?: number }
+  | { kind: 'engine'; lookaheadMaxCandidates?: number; assumeSeen?: boolean }
   | { kind: 'fixed'; order: number[] }
   | { kind: 'random'; random: Random };
 
@@ -135,6 +135,7 @@ export function simulateSift(compiled: CompiledMatrix, t: number, random: Random
         exclude: [...asked],
         confidentAt: options.confidentAt,
         ...(policy.lookaheadMaxCandidates !== undefined && { lookaheadMaxCandidates: policy.lookaheadMaxCandidates }),
+        ...(policy.assumeSeen === true && { assumeSeen: true }),
         ...(state.survivorPriors && { priors: state.survivorPriors }),
       });
       next = best ? compiled.traitIndexByCode.get(best.trait) : undefined;

@@ -68,6 +68,11 @@ export interface SuggestOptions {
   inHand?: InHand;
   /** the month of the sift (1–12): seasonal parts (flowers, fruit, autumn colour) are less likely to be seen outside theirs */
   month?: number;
+  /**
+   * count every trait of a part in hand as seen for sure, whatever the month (no chance for flowers,
+   * fruit or cones to be missing): for simulations whose observers answer every question
+   */
+  assumeSeen?: boolean;
 }
 
 export const SUGGEST_DEFAULTS = Object.freeze({

@@ -16,7 +16,7 @@ import { cutsFor, discreteSums, gainFromSums, numericSums, workingSet, type Answ
 import type { CompiledMatrix, CompiledTrait } from './compiled';
 import { SUGGEST_DEFAULTS, type SuggestOptions } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
-import { isInHand, isMonth, seeingChance, type InHand } from './in-hand';
+import { isInHand, isMonth, seeingChance, traitInHand, type InHand } from './in-hand';
 import { lookahead } from './lookahead';
 import { prepareObservations, type PreparedObservation } from './observations';
 import { heaviestFirst, previewOf } from './preview';
@@ -126,7 +126,7 @@ export function suggest(compiled: CompiledMatrix, observations: readonly Observa
   const seeingReasons = new Map<Evaluated, string>();
   for (const trait of compiled.traits) {
     if (observed.has(trait.index) || excluded.has(trait.code) || !visibleInSeason(trait, season)) continue;
-    const seeing = seeingChance(trait, inHand, month, partsSeen);
+    const seeing = options.assumeSeen === true ? { chance: traitInHand(trait, inHand).inHand ? 1 : 0, reason: '' } : seeingChance(trait, inHand, month, partsSeen);
     if (seeing.chance <= 0) continue;
     if (conditionContradicted(trait, scored.active) || !splitsShortlist(compiled, trait, shortlist)) continue;
     let sums: AnswerSums;

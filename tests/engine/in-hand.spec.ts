@@ -127,7 +127,7 @@ function plainPreview(observations: Observation[], code: string): Array<{ answer
     const cell = doc.taxa[position.get(taxonId) ?? -1]?.cells[code];
     return isDiscreteCell(cell) && [...(cell.usual ?? []), ...(cell.occasional ?? []), ...(cell.rare ?? [])].map(String).includes(value);
   };
-  return trait.values
+  return (trait.values ?? [])
     .map((value) => ({
       answer: value.code,
       leaders: all.filter((c) => c.probability >= leader * SUGGEST_DEFAULTS.shortlistShare && codedWith(c.taxonId, value.code)).map((c) => c.taxonId).slice(0, 3),
