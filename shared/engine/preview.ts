@@ -65,24 +65,28 @@ export function previewOf(compiled: CompiledMatrix, evaluated: Evaluated, set: W
   const isNumeric = trait.kind === 'numeric';
   const answers = evaluated.sums.mass.length;
   const core = coreSize(set, order);
+  const leaders: string[][] = Array.from({ length: answers }, () => []);
+  const remaining = new Int32Array(answers);
+  // heaviest first, so the shortlist (a share of the leader's probability) and the core both come first: stop past both
+  for (let rank = 0; rank < order.length; rank++) {
+    const t = set.members[order[rank] ?? 0] ?? -1;
+    const inShortlist = shortlist.has(t);
+    if (rank >= core && !inShortlist) break;
+    for (let a = 0; a < answers; a++) {
+      if (!codedWith(compiled, evaluated, t, a)) continue;
+      if (rank < core) remaining[a] = (remaining[a] ?? 0) + 1;
+      const listed = leaders[a];
+      const taxon = compiled.taxa[t];
+      if (inShortlist && listed && taxon && listed.length < PREVIEW_LEADERS) listed.push(taxon.id);
+    }
+  }
   const lines: Array<{ a: number; mass: number; line: SuggestionPreview }> = [];
   for (let a = 0; a < answers; a++) {
-    const leaders: string[] = [];
-    let remaining = 0;
-    let anyShortlisted = false;
-    order.forEach((i, rank) => {
-      const t = set.members[i] ?? -1;
-      if (t < 0 || !codedWith(compiled, evaluated, t, a)) return;
-      if (rank < core) remaining++;
-      if (!shortlist.has(t)) return;
-      anyShortlisted = true;
-      const taxon = compiled.taxa[t];
-      if (leaders.length < PREVIEW_LEADERS && taxon) leaders.push(taxon.id);
-    });
-    if (!anyShortlisted) continue;
+    const listed = leaders[a] ?? [];
+    if (listed.length === 0) continue;
     const label = isNumeric ? bandLabel(evaluated.cuts ?? [], a) : answerLabelAt(trait, a);
     const mass = evaluated.sums.mass[a] ?? 0;
-    lines.push({ a, mass, line: { answer: isNumeric ? label : (trait.answerCodes[a] ?? label), label, probability: mass, leaders, remaining } });
+    lines.push({ a, mass, line: { answer: isNumeric ? label : (trait.answerCodes[a] ?? label), label, probability: mass, leaders: listed, remaining: remaining[a] ?? 0 } });
   }
   lines.sort((x, y) => y.mass - x.mass || x.a - y.a);
   return lines.map(({ line }) => line);
