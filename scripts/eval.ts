@@ -23,7 +23,11 @@ const runs = (part: string): boolean => only === undefined || only === part;
 const CONFIDENT_AT = 0.95;
 const ERROR_RATES = [0, 0.05, 0.1];
 const POLICIES = ['engine', 'strict elimination', 'fixed order', 'random order'] as const;
-type PolicyName = (typeof POLICIES)[number];
+/** the engine told that every part is always seen, for sifts on trees that do not always show flowers, fruit or cones */
+const ASSUMES_SEEN = 'engine, all seen';
+type PolicyName = (typeof POLICIES)[number] | typeof ASSUMES_SEEN;
+/** sifts on standing trees whose flowers, fruit and cones are sometimes missing: the engine against itself told every part is there */
+const MISSING_PARTS_POLICIES: readonly PolicyName[] = ['engine', ASSUMES_SEEN, 'fixed order'];
 
 interface Row {
   matrix: string;
@@ -79,20 +83,22 @@ function policyFor(name: PolicyName, compiled: CompiledMatrix, order: number[], 
       return { policy: { kind: 'fixed', order }, strict: false };
     case 'random order':
       return { policy: { kind: 'random', random: seededRandom(seed) }, strict: false };
+    case ASSUMES_SEEN:
+      return { policy: { kind: 'engine', assumeSeen: true }, strict: false };
   }
 }
 
-function evaluateMatrix(label: string, doc: MatrixDocument, errorRate: number, repeats: number, matchErrorRate: boolean): Row[] {
+function evaluateMatrix(label: string, doc: MatrixDocument, errorRate: number, repeats: number, matchErrorRate: boolean, policies: readonly PolicyName[] = POLICIES, partsMissing = false): Row[] {
   const compiled = compileMatrix(matchErrorRate ? withErrorRate(doc, errorRate) : doc);
   const order = fixedOrder(compiled);
   const rows: Row[] = [];
-  for (const name of POLICIES) {
+  for (const name of policies) {
     const outcomes: Array<SiftOutcome & { truth: string }> = [];
     for (let repeat = 0; repeat < repeats; repeat++) {
       for (let t = 0; t < compiled.taxonCount; t++) {
         const seed = 1 + repeat * 100_003 + t * 7919 + Math.round(errorRate * 1000);
         const { policy, strict } = policyFor(name, compiled, order, seed * 31);
-        const outcome = simulateSift(compiled, t, seededRandom(seed), policy, { confidentAt: CONFIDENT_AT, errorRate, strict });
+        const outcome = simulateSift(compiled, t, seededRandom(seed), policy, { confidentAt: CONFIDENT_AT, errorRate, strict, partsMissing });
         outcomes.push({ ...outcome, truth: compiled.taxa[t].id });
       }
     }
@@ -133,7 +139,7 @@ interface OptimumSummary {
 function meanQuestions(compiled: CompiledMatrix, lookahead: boolean): number {
   let total = 0;
   for (let t = 0; t < compiled.taxonCount; t++) {
-    const outcome = simulateSift(compiled, t, seededRandom(t + 1), { kind: 'engine', ...(lookahead ? {} : { lookaheadMaxCandidates: 0 }) }, { confidentAt: CONFIDENT_AT, errorRate: 0 });
+    const outcome = simulateSift(compiled, t, seededRandom(t + 1), { kind: 'engine', assumeSeen: true, ...(lookahead ? {} : { lookaheadMaxCandidates: 0 }) }, { confidentAt: CONFIDENT_AT, errorRate: 0 });
     if (outcome.leader !== compiled.taxa[t].id && outcome.leaderProbability >= CONFIDENT_AT) throw new Error(`error-free sift for ${compiled.taxa[t].id} ended on ${outcome.leader}`);
     total += outcome.questions;
   }
@@ -261,6 +267,10 @@ async function main(): Promise<void> {
     log(`\nReference matrix "${reference.title}" (${compiled.taxonCount} taxa × ${compiled.traits.length} traits):`);
     printRows(referenceRows);
     log(`lower bound on mean questions: ${referenceBound.toFixed(2)}`);
+    const missingRows = evaluateMatrix('reference, parts missing', reference, 0.05, repeats, false, MISSING_PARTS_POLICIES, true);
+    log('\nReference matrix on standing trees whose flowers, fruit and cones are sometimes missing (a question about a missing part is asked and goes unanswered):');
+    printRows(missingRows);
+    referenceRows.push(...missingRows);
   } else if (reference === undefined) {
     log('\nReference matrix: seeds/load-matrix.ts (loadReferenceMatrix) is not there yet; skipped.');
     referenceRows = [];

@@ -5,7 +5,7 @@
  * engine's own frequency weights), then replaced by a wrong value with probability `errorRate`;
  * traits that do not apply to the taxon get no answer.
  */
-import { INAPPLICABLE_PATTERN, MODEL, RangeField, rank, suggest, UNKNOWN_PATTERN, ValueStatus, type CompiledMatrix, type Observation } from '@shared/engine';
+import { INAPPLICABLE_PATTERN, MODEL, RangeField, rank, seeingChance, suggest, UNKNOWN_PATTERN, ValueStatus, type CompiledMatrix, type Observation } from '@shared/engine';
 
 export type Random = () => number;
 
@@ -76,7 +76,7 @@ export function drawAnswer(compiled: CompiledMatrix, traitIndex: number, t: numb
 
 /** How the next trait is chosen in a simulated sift. */
 export type Policy =
-  | { kind: 'engine'; lookaheadMaxCandidates?: number }
+  | { kind: 'engine'; lookaheadMaxCandidates?: number; assumeSeen?: boolean }
   | { kind: 'fixed'; order: number[] }
   | { kind: 'random'; random: Random };
 
@@ -93,6 +93,11 @@ export interface SiftOptions {
   /** strict elimination: a taxon with any conflict is dropped (scored with leeway 0, ranked by conflicts first) */
   strict?: boolean;
   maxQuestions?: number;
+  /**
+   * the tree does not always show what a question asks about: a trait is seen with its seeing chance
+   * on a standing tree, month not given (flowers, fruit, cones), and otherwise asked and left unanswered
+   */
+  partsMissing?: boolean;
 }
 
 interface Standing {
@@ -135,6 +140,7 @@ export function simulateSift(compiled: CompiledMatrix, t: number, random: Random
         exclude: [...asked],
         confidentAt: options.confidentAt,
         ...(policy.lookaheadMaxCandidates !== undefined && { lookaheadMaxCandidates: policy.lookaheadMaxCandidates }),
+        ...(policy.assumeSeen === true && { assumeSeen: true }),
         ...(state.survivorPriors && { priors: state.survivorPriors }),
       });
       next = best ? compiled.traitIndexByCode.get(best.trait) : undefined;
@@ -144,6 +150,7 @@ export function simulateSift(compiled: CompiledMatrix, t: number, random: Random
     }
     if (next === undefined) break;
     asked.add(compiled.traits[next].code);
+    if (options.partsMissing === true && random() >= seeingChance(compiled.traits[next], 'standing-tree', undefined).chance) continue;
     const answer = drawAnswer(compiled, next, t, random, options.errorRate);
     if (answer) observations.push(answer);
     state = standing(compiled, observations, strict);

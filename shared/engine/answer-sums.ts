@@ -225,7 +225,10 @@ export function numericSums(compiled: CompiledMatrix, trait: CompiledTrait, set:
 export interface Evaluated {
   trait: CompiledTrait;
   gain: number;
+  /** gain × the chance the trait can be seen now (× how seldom it is misread, for an opening question) ÷ ease */
   score: number;
+  /** ease ÷ the chance the trait can be seen now: the expected effort of looking for it */
+  effort: number;
   sums: AnswerSums;
   /** numeric traits: the cuts the bands were made with */
   cuts?: number[];

@@ -4,6 +4,7 @@
  *
  * Invariant: these are the only numbers the scoring model depends on besides the matrix itself.
  */
+import type { InHand } from './in-hand';
 
 /** Scoring-model constants, fixed per engine version (changing them changes rankings). */
 export const MODEL = Object.freeze({
@@ -53,7 +54,7 @@ export interface SuggestOptions {
   season?: 'leaf-on' | 'leaf-off';
   /** most suggestions returned */
   limit?: number;
-  /** the leeway used to count how many candidates remain after each answer */
+  /** accepted and checked for symmetry with rank; previews count the species holding most of the probability instead */
   leeway?: number;
   /** taxon id → prior weight (> 0), replacing the taxon's own prior for this call */
   priors?: Record<string, number>;
@@ -63,6 +64,15 @@ export interface SuggestOptions {
   lookaheadMaxCandidates?: number;
   /** the leader probability at which a sift counts as settled, for lookahead costs */
   confidentAt?: number;
+  /** what the observer has in hand: traits of parts it does not show are never suggested */
+  inHand?: InHand;
+  /** the month of the sift (1–12): seasonal parts (flowers, fruit, autumn colour) are less likely to be seen outside theirs */
+  month?: number;
+  /**
+   * count every trait of a part in hand as seen for sure, whatever the month (no chance for flowers,
+   * fruit or cones to be missing): for simulations whose observers answer every question
+   */
+  assumeSeen?: boolean;
 }
 
 export const SUGGEST_DEFAULTS = Object.freeze({
@@ -71,6 +81,7 @@ export const SUGGEST_DEFAULTS = Object.freeze({
   leeway: 2,
   lookaheadMaxCandidates: 16,
   confidentAt: 0.95,
+  inHand: 'standing-tree' as InHand,
   /** traits expected to gain less than this many bits are treated as unable to split the shortlist */
   minGainBits: 1e-4,
   /** the shortlist a trait must split: taxa at least this share of the leader's probability */

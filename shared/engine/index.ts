@@ -35,6 +35,8 @@ export { buildKey, keyToLines } from './key';
 // ── The domain's words and rules, one home for the engine, the API and the web app ──────────────
 /** Closed vocabularies (plant parts and their headings, kinds, seasons, frequencies) and which traits a season shows. */
 export { FREQUENCIES, OBSERVING_SEASONS, PART_LABELS, PLANT_PARTS, SEASONS, TRAIT_KINDS, visibleInSeason } from './vocabulary';
+/** What is in hand (which plant parts a specimen shows) and the chance a trait can be seen this month. */
+export { IN_HAND, IN_HAND_LABELS, IN_HAND_PARTS, isInHand, seeingChance, traitInHand, type InHand, type SeeingChance } from './in-hand';
 /** Telling a cell's four shapes apart. */
 export { isDiscreteCell, isInapplicableCell, isNumericCell, isUnknownCell } from './cells';
 /** A cell in words: the sentence form (reasons, the API) and the table form (pages and sheets). */

@@ -23,6 +23,7 @@ const ROLLOUT_MIN_PATH = 0.05;
 const ROLLOUT_MAX_DEPTH = 8;
 
 interface DenseTrait {
+  /** the trait's ease ÷ the chance it can be seen now: what looking for it is expected to cost */
   ease: number;
   answers: number;
   /** likelihood of answer a for working-set member i at a · m + i */
@@ -38,7 +39,7 @@ function denseTrait(compiled: CompiledMatrix, evaluated: Evaluated, set: Working
   const rowLogs = new Float64Array(rows.length);
   answerRowsOf.forEach((row, a) => rows.set(row, a * m));
   for (let x = 0; x < rows.length; x++) rowLogs[x] = rows[x] > 0 ? rows[x] * Math.log(rows[x]) : 0;
-  return { ease: evaluated.trait.ease, answers: answerRowsOf.length, rows, rowLogs };
+  return { ease: evaluated.effort, answers: answerRowsOf.length, rows, rowLogs };
 }
 
 /** A memoised rollout cost and the expansions it took, so a reuse charges the node budget the same. */

@@ -1,111 +1,93 @@
 /**
- * The preview of a suggestion: for each answer, the candidates that would lead and how many stay
- * within the leeway.
+ * The preview of a suggestion: for each answer, which shortlisted species are coded with it and how
+ * many of the species holding most of the probability would fit it.
  *
- * Invariant: each answer lists at most three leaders, best first, each with a positive weight ×
- * likelihood; ties go to the lower working-set position, so a preview is deterministic.
+ * Invariant: answers come most likely first (by current probability mass; ties in answer order);
+ * an answer no shortlisted species is coded with is left out; each answer lists at most three
+ * species, all coded with that answer, most probable first (ties: lower working-set position), so a
+ * preview is deterministic; `remaining` counts the species of the core (the most probable species
+ * that together hold PREVIEW_CORE_SHARE of the probability) coded with that answer.
  */
 import { bandLabel } from './bands';
-import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledMatrix, type CompiledTrait } from './compiled';
-import { answerRows, type Evaluated, type WorkingSet } from './answer-sums';
-import type { Scored } from './scoring';
+import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledMatrix } from './compiled';
+import type { Evaluated, WorkingSet } from './answer-sums';
 import type { SuggestionPreview } from './types';
 import { answerLabelAt } from './words';
 
-/** Whether answer `a` conflicts with taxon t's coding (for counting what stays within leeway). */
-function answerConflicts(compiled: CompiledMatrix, evaluated: Evaluated, t: number, a: number): boolean {
+/** the core of a preview count: the most probable species that together hold this share of the probability */
+export const PREVIEW_CORE_SHARE = 0.95;
+/** most species a preview line lists */
+const PREVIEW_LEADERS = 3;
+
+/** Whether taxon t is coded with answer `a` (a value it shows at any frequency, or a range reaching into the band). */
+export function codedWith(compiled: CompiledMatrix, evaluated: Evaluated, t: number, a: number): boolean {
   const trait = evaluated.trait;
   const n = compiled.taxonCount;
-  const pattern = compiled.cellPattern[trait.index * n + t];
-  if (pattern === UNKNOWN_PATTERN) return false;
-  if (pattern === INAPPLICABLE_PATTERN) return true;
+  const pattern = compiled.cellPattern[trait.index * n + t] ?? UNKNOWN_PATTERN;
+  if (pattern === UNKNOWN_PATTERN || pattern === INAPPLICABLE_PATTERN) return false;
   if (trait.kind !== 'numeric') {
     const status = compiled.valueStatus[trait.likBase + pattern * trait.answerCount + a];
-    return status === ValueStatus.NotCoded || status === ValueStatus.Inapplicable;
+    return status === ValueStatus.Usual || status === ValueStatus.Occasional || status === ValueStatus.Rare;
   }
   const cuts = evaluated.cuts ?? [];
-  const from = a === 0 ? -Infinity : cuts[a - 1];
-  const to = a === cuts.length ? Infinity : cuts[a];
+  const from = a === 0 ? -Infinity : (cuts[a - 1] ?? -Infinity);
+  const to = a === cuts.length ? Infinity : (cuts[a] ?? Infinity);
   const block = trait.numericIndex * 4 * n;
-  const min = compiled.ranges[block + RangeField.Min * n + t];
-  const max = compiled.ranges[block + RangeField.Max * n + t];
-  return max < from || min >= to;
+  const min = compiled.ranges[block + RangeField.Min * n + t] ?? NaN;
+  const max = compiled.ranges[block + RangeField.Max * n + t] ?? NaN;
+  return max >= from && min < to;
 }
 
 /** Working-set positions, heaviest first (equal weights: lower position first). */
 export function heaviestFirst(set: WorkingSet): Int32Array {
   const order = Int32Array.from({ length: set.members.length }, (_, i) => i);
-  return order.sort((a, b) => set.weight[b] - set.weight[a] || a - b);
+  return order.sort((a, b) => (set.weight[b] ?? 0) - (set.weight[a] ?? 0) || a - b);
+}
+
+/** How many of the heaviest positions (in `order`) it takes to hold PREVIEW_CORE_SHARE of the weight. */
+export function coreSize(set: WorkingSet, order: Int32Array): number {
+  let held = 0;
+  let size = 0;
+  for (const i of order) {
+    if (held >= PREVIEW_CORE_SHARE - 1e-12) break;
+    held += set.weight[i] ?? 0;
+    size++;
+  }
+  return size;
 }
 
 /**
- * Working-set positions of the three members with the largest positive weight × likelihood, best
- * first (equal values: lower position first). Members are visited heaviest first and the scan
- * stops at the first whose weight alone is below the third value: a likelihood is at most 1, so
- * no lighter member can reach it.
+ * The preview of one evaluated trait. `shortlist` is the set of taxon indices a trait must split
+ * (those within a share of the leader); `order` the working set heaviest first.
  */
-function leadersBy(set: WorkingSet, order: Int32Array, likelihoodOf: (i: number) => number): number[] {
-  const best = new Int32Array(3).fill(-1);
-  const values = new Float64Array(3);
-  for (const i of order) {
-    if (best[2] >= 0 && set.weight[i] < values[2]) break;
-    const value = set.weight[i] * likelihoodOf(i);
-    if (value > 0) insertTop(best, 0, values, i, value, 3);
-  }
-  return Array.from(best).filter((i) => i >= 0);
-}
-
-/** Who stays within the leeway whatever the answer, and who is one conflict from leaving. */
-export interface LeewayCounts {
-  below: number;
-  atLeeway: number[];
-}
-
-export function leewayCounts(scored: Scored, leeway: number): LeewayCounts {
-  let below = 0;
-  const atLeeway: number[] = [];
-  const conflicts = scored.conflicts;
-  for (let t = 0; t < conflicts.length; t++) {
-    if (conflicts[t] < leeway) below++;
-    else if (conflicts[t] === leeway) atLeeway.push(t);
-  }
-  return { below, atLeeway };
-}
-
-/** Inserts member i with `value` into `best` (positions, best first, -1 = empty) when it is among the top; ties go to the lower position. */
-function insertTop(best: Int32Array, at: number, values: Float64Array, i: number, value: number, size: number): void {
-  let slot = size;
-  while (slot > 0 && (best[at + slot - 1] < 0 || value > values[at + slot - 1] || (value === values[at + slot - 1] && i < best[at + slot - 1]))) slot--;
-  if (slot >= size) return;
-  for (let s = size - 1; s > slot; s--) {
-    best[at + s] = best[at + s - 1];
-    values[at + s] = values[at + s - 1];
-  }
-  best[at + slot] = i;
-  values[at + slot] = value;
-}
-
-/** Leaders per answer of a discrete trait (its likelihood depends only on the member's pattern). */
-function discreteLeaders(compiled: CompiledMatrix, trait: CompiledTrait, set: WorkingSet, order: Int32Array): number[][] {
-  const base = trait.index * compiled.taxonCount;
-  const k = trait.answerCount;
-  return Array.from({ length: k }, (_, a) => leadersBy(set, order, (i) => compiled.likelihood[trait.likBase + compiled.cellPattern[base + set.members[i]] * k + a]));
-}
-
-export function previewOf(compiled: CompiledMatrix, evaluated: Evaluated, set: WorkingSet, order: Int32Array, counts: LeewayCounts): SuggestionPreview[] {
+export function previewOf(compiled: CompiledMatrix, evaluated: Evaluated, set: WorkingSet, order: Int32Array, shortlist: ReadonlySet<number>): SuggestionPreview[] {
   const trait = evaluated.trait;
   const isNumeric = trait.kind === 'numeric';
-  const leadersByAnswer = isNumeric ? answerRows(compiled, evaluated, set).map((row) => leadersBy(set, order, (i) => row[i])) : discreteLeaders(compiled, trait, set, order);
-  return leadersByAnswer.map((leaders, a) => {
-    let remaining = counts.below;
-    for (const t of counts.atLeeway) if (!answerConflicts(compiled, evaluated, t, a)) remaining++;
+  const answers = evaluated.sums.mass.length;
+  const core = coreSize(set, order);
+  const leaders: string[][] = Array.from({ length: answers }, () => []);
+  const remaining = new Int32Array(answers);
+  // heaviest first, so the shortlist (a share of the leader's probability) and the core both come first: stop past both
+  for (let rank = 0; rank < order.length; rank++) {
+    const t = set.members[order[rank] ?? 0] ?? -1;
+    const inShortlist = shortlist.has(t);
+    if (rank >= core && !inShortlist) break;
+    for (let a = 0; a < answers; a++) {
+      if (!codedWith(compiled, evaluated, t, a)) continue;
+      if (rank < core) remaining[a] = (remaining[a] ?? 0) + 1;
+      const listed = leaders[a];
+      const taxon = compiled.taxa[t];
+      if (inShortlist && listed && taxon && listed.length < PREVIEW_LEADERS) listed.push(taxon.id);
+    }
+  }
+  const lines: Array<{ a: number; mass: number; line: SuggestionPreview }> = [];
+  for (let a = 0; a < answers; a++) {
+    const listed = leaders[a] ?? [];
+    if (listed.length === 0) continue;
     const label = isNumeric ? bandLabel(evaluated.cuts ?? [], a) : answerLabelAt(trait, a);
-    return {
-      answer: isNumeric ? label : trait.answerCodes[a],
-      label,
-      probability: evaluated.sums.mass[a],
-      leaders: leaders.map((i) => compiled.taxa[set.members[i]].id),
-      remaining,
-    };
-  });
+    const mass = evaluated.sums.mass[a] ?? 0;
+    lines.push({ a, mass, line: { answer: isNumeric ? label : (trait.answerCodes[a] ?? label), label, probability: mass, leaders: listed, remaining: remaining[a] ?? 0 } });
+  }
+  lines.sort((x, y) => y.mass - x.mass || x.a - y.a);
+  return lines.map(({ line }) => line);
 }

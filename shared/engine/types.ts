@@ -158,9 +158,9 @@ export interface SuggestionPreview {
   label: string;
   /** probability the observer gives this answer under the current posterior */
   probability: number;
-  /** ids of the candidates that would lead after this answer, best first (at most 3) */
+  /** ids of the shortlisted species coded with this answer, most probable first (at most 3) */
   leaders: string[];
-  /** how many candidates would stay within leeway */
+  /** how many of the species holding most (95%) of the probability are coded with this answer */
   remaining: number;
 }
 
@@ -169,7 +169,7 @@ export interface Suggestion {
   label: string;
   /** expected reduction of posterior entropy in bits */
   expectedGain: number;
-  /** expectedGain divided by the trait's ease */
+  /** expectedGain × the chance the trait can be seen now (× 1 − its error rate, for a first question), divided by the trait's ease */
   score: number;
   preview: SuggestionPreview[];
 }
@@ -358,4 +358,9 @@ export interface Suggestion {
    * Present only when the shortlist was small enough to look ahead, and then the list is sorted by it.
    */
   expectedEffort?: number;
+  /**
+   * why the trait stands where it does: its expected gain and ease, whether it is always at hand or
+   * how likely it is to be seen now, and for a first question how often it is misread
+   */
+  reason: string;
 }

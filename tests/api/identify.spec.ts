@@ -103,6 +103,31 @@ describe('api: POST /api/v1/identify', () => {
       for (const trait of winterTraits) expect(leafOn.has(trait), `${trait} needs leaves`).to.be.false;
     });
 
+    // common practice, no source: a trunk seen alone shows its bark and the tree's form, a winter twig only the twig
+    it('asks only about what is in hand, and leaves autumn colour out in July', async () => {
+      const traits = await request(created.app).get('/api/v1/traits').expect(200);
+      const partOf = new Map((traits.body.traits as Array<{ code: string; part: string }>).map((t) => [t.code, t.part]));
+      const bark = await post({ observations: [], inHand: 'bark-only' }).expect(200);
+      const barkTraits = (bark.body.suggestions as Array<{ trait: string }>).map((s) => s.trait);
+      expect(barkTraits, 'bark-only suggestions').to.not.be.empty;
+      for (const trait of barkTraits) expect(['bark', 'form'], trait).to.include(partOf.get(trait));
+      const twig = await post({ observations: [{ trait: 'foliage', values: ['broad'] }], inHand: 'winter-twig', season: 'leaf-off' }).expect(200);
+      const twigTraits = (twig.body.suggestions as Array<{ trait: string }>).map((s) => s.trait);
+      expect(twigTraits, 'winter-twig suggestions').to.not.be.empty;
+      for (const trait of twigTraits) expect(partOf.get(trait), trait).to.equal('twig');
+      // a smooth-barked, simple, unlobed broadleaf: in October its autumn colour is worth a look
+      const smooth = [
+        { trait: 'foliage', values: ['broad'] },
+        { trait: 'leaf-lobing', values: ['unlobed'] },
+        { trait: 'leaf-type', values: ['simple'] },
+        { trait: 'bark-texture', values: ['smooth'] },
+      ];
+      const october = await post({ observations: smooth, month: 10 }).expect(200);
+      const july = await post({ observations: smooth, month: 7 }).expect(200);
+      expect((october.body.suggestions as Array<{ trait: string }>).map((s) => s.trait)).to.include('fall-color');
+      expect((july.body.suggestions as Array<{ trait: string }>).map((s) => s.trait)).to.not.include('fall-color');
+    });
+
     it('ranks a taxon whose needles are far longer below the loblolly', async () => {
       const res = await post(LOBLOLLY_SIGHTING).expect(200);
       const ids = [...res.body.candidates, ...res.body.ruledOut].map((c: CandidateBody) => c.taxon.id);
@@ -183,6 +208,9 @@ describe('api: POST /api/v1/identify', () => {
       await expectInvalid({ observations: [{ trait: 42, values: [3] }] }, /observations\/0\/trait/);
       await expectInvalid({ observations: [], leeway: -1 }, /leeway/);
       await expectInvalid({ observations: [], favourite: 'pine' }, /favourite|body/);
+      await expectInvalid({ observations: [], inHand: 'whole-forest' }, /inHand/);
+      await expectInvalid({ observations: [], month: 13 }, /month/);
+      await expectInvalid({ observations: [], month: 0 }, /month/);
       const many = Array.from({ length: 101 }, () => ({ trait: 'foliage', values: ['needle'] }));
       await expectInvalid({ observations: many }, /observations/);
     });

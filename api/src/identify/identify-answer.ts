@@ -3,7 +3,7 @@
  * Pure and free of database, HTTP and Express imports, so the same code runs on the request thread
  * and in an identify worker (see identify-pool.ts).
  */
-import { rank, suggest, validateObservations, type Candidate, type CompiledMatrix, type Observation, type ObservationProblem, type ObservingSeason, type Reason, type Suggestion, type Taxon } from '@shared/engine';
+import { rank, suggest, validateObservations, type Candidate, type CompiledMatrix, type InHand, type Observation, type ObservationProblem, type ObservingSeason, type Reason, type Suggestion, type Taxon } from '@shared/engine';
 import { taxonReference } from '../taxa/taxon-views';
 
 export interface IdentifyRequest {
@@ -11,6 +11,10 @@ export interface IdentifyRequest {
   season?: ObservingSeason;
   leeway?: number;
   limit?: number;
+  /** what the observer has in hand; Look at next asks only about parts it shows */
+  inHand?: InHand;
+  /** the month of the sift (1–12); seasonal parts count as less likely to be seen outside their months */
+  month?: number;
 }
 
 export interface CandidateView {
@@ -49,7 +53,7 @@ export interface SuggestionView {
   preview: Suggestion['preview'];
 }
 
-export const IDENTIFY_DEFAULTS = Object.freeze({ season: 'leaf-on' as ObservingSeason, leeway: 2, limit: 10, suggestions: 5 });
+export const IDENTIFY_DEFAULTS = Object.freeze({ season: 'leaf-on' as ObservingSeason, leeway: 2, limit: 10, suggestions: 5, inHand: 'standing-tree' as InHand });
 
 /** What identify needs of an edition. */
 export interface IdentifyEdition {
@@ -118,7 +122,13 @@ export function identifyAnswer(edition: IdentifyEdition, request: IdentifyReques
   const leeway = request.leeway ?? IDENTIFY_DEFAULTS.leeway;
   const limit = request.limit ?? IDENTIFY_DEFAULTS.limit;
   const ranked = rank(compiled, request.observations, { season, leeway, limit });
-  const suggestions = suggest(compiled, request.observations, { season, leeway, limit: IDENTIFY_DEFAULTS.suggestions });
+  const suggestions = suggest(compiled, request.observations, {
+    season,
+    leeway,
+    limit: IDENTIFY_DEFAULTS.suggestions,
+    inHand: request.inHand ?? IDENTIFY_DEFAULTS.inHand,
+    ...(request.month !== undefined && { month: request.month }),
+  });
   const answer: IdentifyAnswer = {
     edition: edition.reference,
     season,
