@@ -57,6 +57,25 @@ export default tseslint.config(
     },
   },
   {
+    // Rules that need type information. The project service finds each file's nearest tsconfig.json:
+    // api/tsconfig.json, shared/engine/tsconfig.json, tests/e2e/tsconfig.json, web/tsconfig.json
+    // (the app and its specs) and the root one for scripts/, seeds/ and the other tests.
+    files: ['**/*.ts'],
+    languageOptions: {
+      parserOptions: { projectService: true, tsconfigRootDir: import.meta.dirname },
+    },
+    rules: {
+      '@typescript-eslint/no-floating-promises': 'error',
+      // Express 5 forwards a rejected promise from a handler or middleware to the error handler, and
+      // @types/express 5 types a handler's result as `unknown`, so `router.get(path, async (req, res) => …)`
+      // is not a misused promise: the rule keeps its defaults (checksVoidReturn on), which still catch an
+      // async callback handed to an event emitter, a timer or a DOM listener that would drop its rejection.
+      '@typescript-eslint/no-misused-promises': 'error',
+      '@typescript-eslint/await-thenable': 'error',
+      '@typescript-eslint/require-await': 'error',
+    },
+  },
+  {
     files: ['api/**/*.ts', 'shared/**/*.ts'],
     plugins: { 'import-x': importX },
     settings: {

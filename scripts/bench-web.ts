@@ -129,7 +129,7 @@ async function lighthouseOnce(url: string): Promise<Figures> {
         tbtMs: audit('total-blocking-time'),
       };
     } finally {
-      await chrome.kill();
+      chrome.kill();
     }
   }
 }

@@ -34,7 +34,7 @@ interface Shaper {
   codePoints: Uint32Array;
 }
 
-async function shaper(sfnt: Buffer): Promise<Shaper> {
+function shaper(sfnt: Buffer): Shaper {
   const blob = new hb.Blob(sfnt);
   const face = new hb.Face(blob);
   const font = new hb.Font(face);
@@ -51,7 +51,7 @@ async function shaper(sfnt: Buffer): Promise<Shaper> {
 }
 
 const full = await fontverter.convert(await readFile(FULL_FONT), 'sfnt');
-const fullShaper = await shaper(full);
+const fullShaper = shaper(full);
 
 // Private-use code point of each icon glyph, so the subset can keep the glyph through its cmap entry.
 const codePointOfGlyph = new Map<number, number>();
@@ -79,7 +79,7 @@ const text = [...letters].join('') + [...new Set(icons.values())].map((glyph) =>
 const subset = await subsetFont(await readFile(FULL_FONT), text, { targetFormat: 'woff2', noLayoutClosure: true });
 
 // Every icon must still shape to one glyph, and a name we do not use must not.
-const check = await shaper(await fontverter.convert(subset, 'sfnt'));
+const check = shaper(await fontverter.convert(subset, 'sfnt'));
 for (const name of icons.keys()) {
   if (check.glyphs(name).length !== 1) throw new Error(`the subset lost the icon "${name}"`);
 }

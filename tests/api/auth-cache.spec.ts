@@ -19,9 +19,9 @@ describe('api: cached principals and batched key usage', () => {
     it('keeps a found principal until it expires, and never past its own validity', async () => {
       const cache = new PrincipalCache(50);
       let lookups = 0;
-      const find = async () => {
+      const find = () => {
         lookups++;
-        return { principal: someKey, validUntil: far };
+        return Promise.resolve({ principal: someKey, validUntil: far });
       };
       expect(await cache.resolve('h', find)).to.deep.equal(someKey);
       expect(await cache.resolve('h', find)).to.deep.equal(someKey);
@@ -31,17 +31,17 @@ describe('api: cached principals and batched key usage', () => {
       expect(lookups).to.equal(2);
 
       const expiring = new PrincipalCache(60_000);
-      await expiring.resolve('s', async () => ({ principal: someKey, validUntil: new Date(Date.now() - 1) }));
+      await expiring.resolve('s', () => Promise.resolve({ principal: someKey, validUntil: new Date(Date.now() - 1) }));
       expect(expiring.get('s')).to.equal(undefined);
     });
 
     it('does not keep unknown tokens, nor a lookup that raced an invalidation', async () => {
       const cache = new PrincipalCache(60_000);
-      expect(await cache.resolve('unknown', async () => undefined)).to.equal(undefined);
+      expect(await cache.resolve('unknown', () => Promise.resolve(undefined))).to.equal(undefined);
       expect(cache.get('unknown')).to.equal(undefined);
-      const raced = await cache.resolve('h', async () => {
+      const raced = await cache.resolve('h', () => {
         cache.clear();
-        return { principal: someKey, validUntil: far };
+        return Promise.resolve({ principal: someKey, validUntil: far });
       });
       expect(raced).to.deep.equal(someKey);
       expect(cache.get('h')).to.equal(undefined);

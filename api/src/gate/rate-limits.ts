@@ -38,7 +38,7 @@ export interface LimiterStores {
 
 export function createLimiterStores(config: LimitsConfig, logger: Logger): LimiterStores {
   if (!config.redisUrl) {
-    return { kind: 'memory', storeFor: () => new MemoryStore(), close: async () => undefined };
+    return { kind: 'memory', storeFor: () => new MemoryStore(), close: () => Promise.resolve() };
   }
   const client = new Redis(config.redisUrl, { maxRetriesPerRequest: 2, enableOfflineQueue: true });
   client.on('error', (error) => logger.error({ err: error }, 'redis error (rate limits)'));

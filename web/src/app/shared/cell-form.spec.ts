@@ -44,7 +44,7 @@ describe('the cell editor form', () => {
     const cell: Cell = { usual: [3], occasional: [2] };
     const form = formFor(NEEDLES_PER_BUNDLE, cell);
     expect(cellFromForm(form, NEEDLES_PER_BUNDLE)).to.deep.equal(cell);
-    form.controls.frequencies.controls['5'].setValue('rare');
+    form.controls.frequencies.controls['5']?.setValue('rare');
     expect(cellFromForm(form, NEEDLES_PER_BUNDLE)).to.deep.equal({ usual: [3], occasional: [2], rare: [5] });
   });
 

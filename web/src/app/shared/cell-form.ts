@@ -43,7 +43,8 @@ function cellValidator(kind: () => CellTrait['kind'] | null): ValidatorFn {
       const values = RANGE_FIELDS.map((field) => form.controls.range.controls[field].value);
       if (values.some((value) => value === null || !Number.isFinite(value))) return { rangeMissing: true };
       if (values.some((value) => (value as number) < 0)) return { rangeNegative: true };
-      const [min, low, high, max] = values as number[];
+      // RANGE_FIELDS has four entries, each checked to be a finite number above
+      const [min, low, high, max] = values as [number, number, number, number];
       return min <= low && low <= high && high <= max ? null : { rangeOrder: true };
     }
     return Object.values(form.controls.frequencies.controls).some((frequency) => frequency.value !== '') ? null : { noValue: true };

@@ -64,7 +64,7 @@ export function queryCellWords(compiled: CompiledMatrix | null, query: Pick<Cell
   const taxonIndex = compiled?.taxonIndexById.get(query.taxonId);
   const traitIndex = compiled?.traitIndexByCode.get(query.traitCode);
   const taxon = compiled && taxonIndex !== undefined ? compiled.taxa[taxonIndex] : null;
-  const trait = compiled && traitIndex !== undefined ? compiled.traits[traitIndex] : null;
+  const trait = (compiled && traitIndex !== undefined ? compiled.traits[traitIndex] : null) ?? null;
   return {
     speciesName: taxon ? commonName(taxon) : query.taxonId,
     scientificName: taxon?.scientificName ?? '',

@@ -76,8 +76,8 @@ export class LookAtNext {
   protected readonly items = computed(() => {
     const compiled = this.compiled();
     const name = (id: string) => {
-      const index = compiled.taxonIndexById.get(id);
-      return index === undefined ? id : commonName(compiled.taxa[index]);
+      const taxon = compiled.taxa[compiled.taxonIndexById.get(id) ?? -1];
+      return taxon ? commonName(taxon) : id;
     };
     return this.suggestions().map((suggestion) => ({
       trait: suggestion.trait,

@@ -26,7 +26,9 @@ function quantile(sorted: readonly number[], q: number): number {
   const position = (sorted.length - 1) * q;
   const below = Math.floor(position);
   const above = Math.ceil(position);
-  return sorted[below] + (sorted[above] - sorted[below]) * (position - below);
+  // below and above lie in 0..length-1: q is in [0, 1] and the one caller passes a non-empty list
+  const low = sorted[below]!;
+  return low + (sorted[above]! - low) * (position - below);
 }
 
 export function numericSpan(compiled: CompiledMatrix, trait: CompiledTrait): NumericSpan | null {

@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import { RouterLink } from '@angular/router';
 import { MatButton } from '@angular/material/button';
-import { cellInBrief, commonName, compare, type ComparisonVerdict, type CompiledMatrix, type SeparationStrength, type TraitComparison } from '@shared/engine';
+import { cellInBrief, commonName, compare, type ComparisonVerdict, type CompiledMatrix, type SeparationStrength, traitByCode, type TraitComparison } from '@shared/engine';
 
 const VERDICT_LABELS: Readonly<Record<ComparisonVerdict, string>> = {
   separates: 'Separates',
@@ -119,7 +119,10 @@ export class SideBySide {
 
   protected readonly taxa = computed(() => {
     const compiled = this.compiled();
-    return (this.comparison()?.taxa ?? []).map((id) => ({ id, name: commonName(compiled.taxa[compiled.taxonIndexById.get(id) ?? 0]) }));
+    return (this.comparison()?.taxa ?? []).map((id) => {
+      const taxon = compiled.taxa[compiled.taxonIndexById.get(id) ?? -1];
+      return { id, name: taxon ? commonName(taxon) : id };
+    });
   });
 
   protected readonly rows = computed(() => {
@@ -127,7 +130,8 @@ export class SideBySide {
     if (!result) return [];
     const compiled = this.compiled();
     const toRow = (comparison: TraitComparison) => {
-      const trait = compiled.traits[compiled.traitIndexByCode.get(comparison.trait) ?? 0];
+      // compare() speaks only of the traits of the matrix it was given
+      const trait = traitByCode(compiled, comparison.trait)!;
       return {
         trait: comparison.trait,
         label: comparison.label,

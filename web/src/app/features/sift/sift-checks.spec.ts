@@ -7,7 +7,11 @@ import { addAnswer } from './sift-query';
 
 describe('sift checks (lengths, counts, weights and Check again)', () => {
   const compiled = compileMatrix(loadReferenceMatrix());
-  const trait = (code: string) => compiled.traits[compiled.traitIndexByCode.get(code) ?? -1];
+  const trait = (code: string) => {
+    const found = compiled.traits[compiled.traitIndexByCode.get(code) ?? -1];
+    if (!found) throw new Error(`the demo matrix has no trait ${code}`);
+    return found;
+  };
 
   it('converts what was typed when the unit changes, to one decimal', () => {
     // NIST SP 811 (2008), Appendix B: 1 in = 2.54 cm exactly. 8 cm = 3.1496 in; 3.1 in = 7.874 cm.

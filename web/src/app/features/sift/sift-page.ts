@@ -141,7 +141,8 @@ export default class SiftPage {
     const count = ranked.totalCandidates ?? ranked.candidates.length;
     const top = ranked.candidates[0];
     if (!top) return { count, leader: null, share: 0 };
-    const taxon = compiled.taxa[compiled.taxonIndexById.get(top.taxonId) ?? 0];
+    // the ranking holds only the taxa of the matrix it was given
+    const taxon = compiled.taxa[compiled.taxonIndexById.get(top.taxonId) ?? 0]!;
     return { count, leader: commonName(taxon), share: Math.round(top.probability * 100) };
   });
 
@@ -161,7 +162,8 @@ export default class SiftPage {
     const found = checkAgain(compiled, this.accepted().observations, { season: this.siftSeason(), leeway: this.siftLeeway(), limit: 3 });
     if (!found) return null;
     const words = describeObservation(compiled, found.observation);
-    const name = (id: string) => commonName(compiled.taxa[compiled.taxonIndexById.get(id) ?? 0]);
+    // checkAgain() names only taxa of the matrix it was given
+    const name = (id: string) => commonName(compiled.taxa[compiled.taxonIndexById.get(id) ?? 0]!);
     return {
       trait: found.observation.trait,
       text: `${words.label}: ${words.value}`,

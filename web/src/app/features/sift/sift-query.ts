@@ -52,14 +52,14 @@ export function parseObservations(text: string | undefined, compiled: CompiledMa
     const colon = part.indexOf(':');
     if (colon <= 0) continue;
     const code = part.slice(0, colon).trim();
-    const index = compiled.traitIndexByCode.get(code);
-    if (index === undefined || seen.has(code)) continue;
+    const trait = compiled.traits[compiled.traitIndexByCode.get(code) ?? -1];
+    if (!trait || seen.has(code)) continue;
     const tokens = part
       .slice(colon + 1)
       .split(',')
       .map((token) => token.trim())
       .filter((token) => token !== '');
-    const observation = parseOne(compiled.traits[index], tokens);
+    const observation = parseOne(trait, tokens);
     if (observation) {
       observations.push(observation);
       seen.add(code);

@@ -5,7 +5,7 @@ import { Location } from '@angular/common';
 import { MatIcon } from '@angular/material/icon';
 import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
-import { CAUTIONS, cellInBrief, cellOf, commonName, diagnose, isDiscreteCell, PART_LABELS, PLANT_PARTS, type Cell, type CompiledMatrix, type CompiledTrait, type TaxonInfo } from '@shared/engine';
+import { CAUTIONS, cellInBrief, cellOf, commonName, diagnose, isDiscreteCell, PART_LABELS, PLANT_PARTS, traitByCode, type Cell, type CompiledMatrix, type CompiledTrait, type TaxonInfo } from '@shared/engine';
 import { illustrationUrl } from '../../shared/matrix-words';
 import { EditionService } from '../../core/edition/edition-service';
 import { AuthService } from '../../core/auth/auth-service';
@@ -97,13 +97,14 @@ export default class SpeciesPage {
     if (among.length === 0) return null;
     const result = diagnose(compiled, taxon.id, among);
     const nameOf = (id: string) => {
-      const index = compiled.taxonIndexById.get(id);
-      return index === undefined ? id : commonName(compiled.taxa[index]);
+      const taxon = compiled.taxa[compiled.taxonIndexById.get(id) ?? -1];
+      return taxon ? commonName(taxon) : id;
     };
     return {
       among: among.map((id) => ({ id, name: nameOf(id) })),
       traits: result.traits.map((diagnostic) => {
-        const trait = compiled.traits[compiled.traitIndexByCode.get(diagnostic.trait) ?? 0];
+        // diagnose() speaks only of the traits of the matrix it was given
+        const trait = traitByCode(compiled, diagnostic.trait)!;
         return {
           trait: diagnostic.trait,
           label: diagnostic.label,

@@ -32,8 +32,8 @@ export interface Difference {
 }
 
 function choiceOf(compiled: CompiledMatrix, id: string): DrillChoice {
-  const index = compiled.taxonIndexById.get(id);
-  return { id, name: nameOf(compiled, id), scientificName: index === undefined ? id : compiled.taxa[index].scientificName };
+  const taxon = compiled.taxa[compiled.taxonIndexById.get(id) ?? -1];
+  return { id, name: nameOf(compiled, id), scientificName: taxon ? taxon.scientificName : id };
 }
 
 /** Species of the set that some coded trait sets apart from the others (a drill can ask for them). */
@@ -86,7 +86,8 @@ const AMBIGUOUS_MARGIN = 0.05;
 /** Reads a typed name as one species of the set, tolerating typos; says so when it fits none or several. */
 export function nameMatcher(compiled: CompiledMatrix, setIds: readonly string[]): (typed: string) => NameReading {
   const entries: NameEntry[] = setIds.map((id) => {
-    const taxon = compiled.taxa[compiled.taxonIndexById.get(id) ?? 0];
+    // the drill page passes only ids kept to the edition (idsInEdition), so the lookup finds each one
+    const taxon = compiled.taxa[compiled.taxonIndexById.get(id) ?? 0]!;
     return { id, names: [taxon.scientificName, ...taxon.commonNames] };
   });
   const fuse = new Fuse(entries, { keys: ['names'], threshold: 0.35, ignoreLocation: true, includeScore: true });

@@ -182,7 +182,8 @@ export default class StudySetEditor implements HoldsUnsavedChanges {
       return next;
     });
     // Keep focus on the same button of the moved species, so repeated presses keep moving it.
-    const selector = `[data-species="${this.species()[to].id}"] .${step < 0 ? 'move-up' : 'move-down'}`;
+    // `to` was checked to lie within the list above, and the move keeps its length
+    const selector = `[data-species="${this.species()[to]!.id}"] .${step < 0 ? 'move-up' : 'move-down'}`;
     requestAnimationFrame(() => {
       const target = document.querySelector<HTMLButtonElement>(selector);
       (target && !target.disabled ? target : button.closest('li')?.querySelector<HTMLElement>('button:not([disabled])'))?.focus();

@@ -42,8 +42,8 @@ export interface KeyCoupletRow {
 }
 
 export function nameOf(compiled: CompiledMatrix, id: string): string {
-  const index = compiled.taxonIndexById.get(id);
-  return index === undefined ? id : commonName(compiled.taxa[index]);
+  const taxon = compiled.taxa[compiled.taxonIndexById.get(id) ?? -1];
+  return taxon ? commonName(taxon) : id;
 }
 
 function traitOf(compiled: CompiledMatrix, code: string): CompiledTrait | undefined {
