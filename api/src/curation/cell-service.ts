@@ -4,6 +4,7 @@ import type { Models } from '../db/models';
 import { problems } from '../http/problem';
 import { recordAudit, type Actor } from './audit-store';
 import { changeKeepingMatrixValid } from './matrix-guard';
+import { cellInvalid } from './matrix-problems';
 import { writeTransaction } from './write-transaction';
 import { readCell, writeCellIfVersion, type CellState } from './working-matrix-store';
 
@@ -39,8 +40,13 @@ export async function setCell(deps: CurationDeps, actor: Actor, taxonId: string,
   await assertCellExists(deps.models, taxonId, traitCode);
   return writeTransaction(deps.sequelize, async (transaction) => {
     const before = await readCell(deps.models, taxonId, traitCode, transaction);
-    const version = await changeKeepingMatrixValid(deps.models, transaction, `The cell ${taxonId} × ${traitCode}`, () =>
-      writeCellIfVersion(deps.sequelize, deps.models, { taxonId, traitCode, value: change.value }, change.version, transaction),
+    const what = `The cell ${taxonId} × ${traitCode}`;
+    const version = await changeKeepingMatrixValid(
+      deps.models,
+      transaction,
+      what,
+      () => writeCellIfVersion(deps.sequelize, deps.models, { taxonId, traitCode, value: change.value }, change.version, transaction),
+      (introduced) => cellInvalid(what, change.value, introduced),
     );
     if (version === undefined) {
       const current = await readCell(deps.models, taxonId, traitCode, transaction);

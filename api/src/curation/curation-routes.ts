@@ -5,7 +5,7 @@ import { cachePolicy } from '../http/caching';
 import { actorOf } from './actor';
 import { listAudit, type AuditEntity } from './audit-store';
 import { getCell, setCell, type CellChange, type CurationDeps } from './cell-service';
-import { summariseDraft } from './draft-service';
+import { readWorkingMatrixView, summariseDraft } from './draft-service';
 import { createTaxon, createTrait, createValue, updateTaxon, updateTrait, updateValue } from './entity-service';
 
 type Body = Record<string, unknown> & { reason: string };
@@ -80,6 +80,12 @@ export function curationRoutes(deps: CurationDeps & { editions: EditionCatalog }
     });
     cachePolicy.privateRevalidate(res);
     res.json({ entries, next: entries.length > 0 && entries.length === Number(query['limit'] ?? 50) ? entries[entries.length - 1]!.id : null });
+  });
+
+  router.get('/matrix', async (_req, res) => {
+    const matrix = await readWorkingMatrixView(deps.models);
+    cachePolicy.privateRevalidate(res);
+    res.json(matrix);
   });
 
   router.get('/draft/summary', async (_req, res) => {

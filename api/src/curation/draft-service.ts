@@ -1,8 +1,10 @@
-import { validateMatrix, type MatrixProblem } from '@shared/engine';
+import type { Cell, MatrixProblem, Trait } from '@shared/engine';
 import type { EditionSummary, Models } from '../db/models';
 import type { EditionCatalog } from '../editions/edition-catalog';
 import { summariseChanges } from '../editions/edition-service';
 import { readWorkingMatrix } from '../taxa/matrix-store';
+import { curatedProblems, invalidCells } from './matrix-problems';
+import { readCellVersions } from './working-matrix-store';
 
 export interface DraftSummary {
   /** the edition the draft is compared with (the current one), or null before the first */
@@ -11,6 +13,8 @@ export interface DraftSummary {
   /** true when the draft has no errors and differs from the current edition */
   publishable: boolean;
   errors: MatrixProblem[];
+  /** the cells that break a cell rule (publishing is refused while there are any) */
+  invalidCells: Array<{ taxonId: string; traitCode: string; problems: string[] }>;
   warnings: number;
 }
 
@@ -19,9 +23,35 @@ export async function summariseDraft(models: Models, editions: EditionCatalog): 
   const draft = await readWorkingMatrix(models, { title: 'draft' });
   const current = (await models.Edition.count()) > 0 ? await editions.current() : undefined;
   const summary = summariseChanges(current?.document, draft);
-  const found = validateMatrix(draft);
+  const found = curatedProblems(draft);
   const errors = found.filter((problem) => problem.severity === 'error');
   const changed =
     summary.cellsChanged + summary.taxaAdded.length + summary.taxaRemoved.length + summary.traitsAdded.length + summary.traitsRemoved.length > 0;
-  return { basedOn: current?.number ?? null, summary, publishable: errors.length === 0 && changed, errors: errors.slice(0, 100), warnings: found.length - errors.length };
+  return { basedOn: current?.number ?? null, summary, publishable: errors.length === 0 && changed, errors: errors.slice(0, 100), invalidCells: invalidCells(errors).slice(0, 100), warnings: found.length - errors.length };
+}
+
+/** The working matrix as the Matrix desk grid shows it: every live taxon and trait, every cell and its version. */
+export interface WorkingMatrixView {
+  basedOn: number | null;
+  traits: Trait[];
+  taxa: Array<{ id: string; scientificName: string; family: string; commonNames: string[]; cells: Record<string, Cell>; versions: Record<string, number> }>;
+}
+
+export async function readWorkingMatrixView(models: Models): Promise<WorkingMatrixView> {
+  const document = await readWorkingMatrix(models, { title: 'working matrix' });
+  const versions = await readCellVersions(models);
+  const latest = await models.Edition.max<number | null, InstanceType<typeof models.Edition>>('number');
+  const live = new Set(document.traits.map((trait) => trait.code));
+  return {
+    basedOn: latest ?? null,
+    traits: document.traits,
+    taxa: document.taxa.map((taxon) => ({
+      id: taxon.id,
+      scientificName: taxon.scientificName,
+      family: taxon.family,
+      commonNames: taxon.commonNames,
+      cells: taxon.cells,
+      versions: Object.fromEntries(Object.entries(versions.get(taxon.id) ?? {}).filter(([code]) => live.has(code))),
+    })),
+  };
 }
