@@ -1,6 +1,7 @@
 import { type Routes } from '@angular/router';
 import { unsavedChangesGuard } from './core/navigation/unsaved-changes';
 import { authGuard } from './core/auth/auth-guard';
+import { deskGuard } from './features/desk/desk-guard';
 
 export const routes: Routes = [
   { path: '', title: 'Sylvasift', loadComponent: () => import('./features/home/home-page') },
@@ -21,6 +22,7 @@ export const routes: Routes = [
   { path: 'review', title: 'Second look · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/review/review-queue-page') },
   { path: 'review/queries/:id', redirectTo: '/review/:id' },
   { path: 'review/:id', title: 'Query · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/review/query-page') },
+  { path: 'desk', canActivate: [deskGuard], loadChildren: () => import('./features/desk/desk-routes').then((m) => m.DESK_ROUTES) },
   { path: 'about', title: 'About Sylvasift · Sylvasift', loadComponent: () => import('./features/home/about-page') },
   { path: '**', title: 'Page not found · Sylvasift', loadComponent: () => import('./core/layout/not-found-page') },
 ];

@@ -11,6 +11,7 @@ export const NAV_LINKS: readonly NavLink[] = Object.freeze([
   { path: '/sift', label: 'Sift', icon: 'filter_alt' },
   { path: '/study', label: 'Study', icon: 'school' },
   { path: '/review', label: 'Second look', icon: 'rate_review', roles: ['reviewer', 'admin'] },
+  { path: '/desk', label: 'Matrix desk', icon: 'table_view', roles: ['curator', 'admin'] },
   { path: '/', label: 'Home', icon: 'park' },
   { path: '/about', label: 'About', icon: 'info' },
 ]);
