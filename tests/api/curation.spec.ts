@@ -293,6 +293,25 @@ describe('api: curation (Matrix desk)', () => {
       expect(taeda.family).to.equal('Pinaceae');
       await request(created.app).get('/api/v1/curation/matrix').set('Authorization', `Bearer ${learner.token}`).expect(403);
     });
+
+    it('packs each taxon\'s cells into one JSON text in the order of the traits, with the versions in that order', async () => {
+      const full = (await as(curator).get('/api/v1/curation/matrix').expect(200)).body;
+      const packed = (await as(curator).get('/api/v1/curation/matrix').query({ format: 'packed' }).expect(200)).body;
+      const codes: string[] = packed.traits.map((trait: { code: string }) => trait.code);
+      expect(codes).to.deep.equal(full.traits.map((trait: { code: string }) => trait.code));
+      for (const [index, taxon] of packed.taxa.entries()) {
+        const other = full.taxa[index];
+        expect(taxon.id).to.equal(other.id);
+        expect(taxon).to.not.have.property('cells');
+        const cells: unknown[] = JSON.parse(taxon.packed);
+        expect(cells).to.have.length(codes.length);
+        codes.forEach((code, at) => {
+          expect(cells[at], `${taxon.id} × ${code}`).to.deep.equal(other.cells[code] ?? 'unknown');
+          expect(taxon.versions[at]).to.equal(other.versions[code] ?? 0);
+        });
+      }
+      await as(curator).get('/api/v1/curation/matrix').query({ format: 'columns' }).expect(400);
+    });
   });
 
   describe('publishing', () => {

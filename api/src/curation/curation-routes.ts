@@ -82,8 +82,8 @@ export function curationRoutes(deps: CurationDeps & { editions: EditionCatalog }
     res.json({ entries, next: entries.length > 0 && entries.length === Number(query['limit'] ?? 50) ? entries[entries.length - 1]!.id : null });
   });
 
-  router.get('/matrix', async (_req, res) => {
-    const matrix = await readWorkingMatrixView(deps.models);
+  router.get('/matrix', async (req, res) => {
+    const matrix = await readWorkingMatrixView(deps.models, req.query['format'] === 'packed' ? 'packed' : 'full');
     cachePolicy.privateRevalidate(res);
     res.json(matrix);
   });

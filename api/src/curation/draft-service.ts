@@ -37,19 +37,39 @@ export interface WorkingMatrixView {
   taxa: Array<{ id: string; scientificName: string; family: string; commonNames: string[]; cells: Record<string, Cell>; versions: Record<string, number> }>;
 }
 
-export async function readWorkingMatrixView(models: Models): Promise<WorkingMatrixView> {
+/**
+ * The same, packed for a large grid: each taxon's cells are one JSON text of the cells in the order of
+ * `traits` (a page decodes only the rows it draws, instead of building every cell at once), and its
+ * versions a list in that order (0: never written).
+ */
+export interface PackedWorkingMatrixView {
+  basedOn: number | null;
+  traits: Trait[];
+  taxa: Array<{ id: string; scientificName: string; family: string; commonNames: string[]; packed: string; versions: number[] }>;
+}
+
+export async function readWorkingMatrixView(models: Models, format: 'full' | 'packed' = 'full'): Promise<WorkingMatrixView | PackedWorkingMatrixView> {
   const document = await readWorkingMatrix(models, { title: 'working matrix' });
   const versions = await readCellVersions(models);
   const latest = await models.Edition.max<number | null, InstanceType<typeof models.Edition>>('number');
-  const live = new Set(document.traits.map((trait) => trait.code));
+  const codes = document.traits.map((trait) => trait.code);
+  const live = new Set(codes);
+  const header = { basedOn: latest ?? null, traits: document.traits };
+  const names = (taxon: (typeof document.taxa)[number]) => ({ id: taxon.id, scientificName: taxon.scientificName, family: taxon.family, commonNames: taxon.commonNames });
+  if (format === 'packed') {
+    return {
+      ...header,
+      taxa: document.taxa.map((taxon) => ({
+        ...names(taxon),
+        packed: JSON.stringify(codes.map((code) => taxon.cells[code] ?? 'unknown')),
+        versions: codes.map((code) => versions.get(taxon.id)?.[code] ?? 0),
+      })),
+    };
+  }
   return {
-    basedOn: latest ?? null,
-    traits: document.traits,
+    ...header,
     taxa: document.taxa.map((taxon) => ({
-      id: taxon.id,
-      scientificName: taxon.scientificName,
-      family: taxon.family,
-      commonNames: taxon.commonNames,
+      ...names(taxon),
       cells: taxon.cells,
       versions: Object.fromEntries(Object.entries(versions.get(taxon.id) ?? {}).filter(([code]) => live.has(code))),
     })),

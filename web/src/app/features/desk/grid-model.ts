@@ -16,6 +16,8 @@ const FREQUENCY_ADVERBS: Readonly<Record<Frequency, string>> = { usual: 'usually
 export interface GridColumn {
   /** position among all the grid's columns (before filtering), stable while the matrix is loaded */
   key: number;
+  /** the trait's position in the matrix's list of traits (the order packed cells come in) */
+  position: number;
   trait: Trait;
   part: PlantPart;
   labels: ReadonlyMap<string, string>;
@@ -34,8 +36,9 @@ export function orderColumns(traits: readonly Trait[]): GridColumn[] {
   return traits
     .map((trait, index) => ({ trait, index }))
     .sort((a, b) => rank(a.trait.part) - rank(b.trait.part) || a.index - b.index)
-    .map(({ trait }, key) => ({
+    .map(({ trait, index }, key) => ({
       key,
+      position: index,
       trait,
       part: trait.part,
       labels: new Map((trait.values ?? []).map((value) => [String(value.code), value.label || String(value.code)])),
