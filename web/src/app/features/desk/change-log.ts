@@ -63,8 +63,14 @@ export function changeRow(entry: AuditEntry): ChangeRow {
   };
 }
 
-function csvField(value: string): string {
-  return /[",\r\n]/.test(value) || /^[=+\-@]/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
+/**
+ * One CSV field: quoted when it holds a comma, quote or line break (RFC 4180), and led by an apostrophe
+ * when it starts like a formula, so a spreadsheet shows it as text instead of running it (the OWASP
+ * guidance on CSV injection).
+ */
+function csvField(raw: string): string {
+  const value = /^[=+\-@\t\r]/.test(raw) ? `'${raw}` : raw;
+  return /[",\r\n]/.test(value) ? `"${value.replace(/"/g, '""')}"` : value;
 }
 
 /** The rows as CSV (RFC 4180 quoting), with a header line. */
