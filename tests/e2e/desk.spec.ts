@@ -41,6 +41,14 @@ async function fillRange(page: Page, range: { min: number; low: number; high: nu
   await dialog.getByLabel('Largest').fill(String(range.max));
 }
 
+/** Waits for the grid's active cell to be `id` (the page redraws a moment after the key press). */
+async function expectActive(page: Page, id: string): Promise<void> {
+  await page
+    .waitForFunction((wanted) => document.querySelector('[role="grid"]')?.getAttribute('aria-activedescendant') === wanted, id, { timeout: 5_000 })
+    .catch(() => undefined);
+  expect(await page.getByRole('grid').getAttribute('aria-activedescendant')).to.equal(id);
+}
+
 interface AuditBody {
   entries: Array<{ entity: string; entityKey: string; reason: string; actor: { email: string | null }; after: unknown }>;
 }
@@ -67,15 +75,15 @@ describe('e2e: the Matrix desk', function () {
 
     // keyboard: arrows move the active cell, Enter opens the editor, Escape cancels it
     await grid.focus();
-    const before = await grid.getAttribute('aria-activedescendant');
-    expect(before).to.equal('desk-cell-0-0');
+    await expectActive(page, 'desk-cell-0-0');
     await page.keyboard.press('ArrowRight');
+    await expectActive(page, 'desk-cell-0-1');
     await page.keyboard.press('ArrowDown');
-    expect(await grid.getAttribute('aria-activedescendant')).to.equal('desk-cell-1-1');
+    await expectActive(page, 'desk-cell-1-1');
     await page.keyboard.press('ArrowLeft');
     await page.keyboard.press('ArrowUp');
     await page.keyboard.press('ArrowUp');
-    expect(await grid.getAttribute('aria-activedescendant')).to.equal('desk-cell-0-0');
+    await expectActive(page, 'desk-cell-0-0');
     await page.keyboard.press('Enter');
     await page.getByRole('dialog').waitFor();
     await page.keyboard.press('Escape');
@@ -86,7 +94,9 @@ describe('e2e: the Matrix desk', function () {
     const drawn = await page.locator('[role="row"][data-taxon] >> nth=0').locator('[role="gridcell"]').count();
     expect(drawn, 'only a window of the columns is drawn').to.be.lessThan(columnCount);
     await page.keyboard.press('Control+End');
-    const last = await grid.getAttribute('aria-activedescendant');
+    const last = `desk-cell-${Number(await grid.getAttribute('aria-rowcount')) - 3}-${columnCount - 1}`;
+    await expectActive(page, last);
+    await page.locator(`#${last}`).waitFor();
     expect(await page.locator(`#${last}`).count(), 'the last cell is drawn once the grid scrolled to it').to.equal(1);
     await page.keyboard.press('Control+Home');
 

@@ -13,7 +13,10 @@ const RANGE_FIELDS = ['min', 'low', 'high', 'max'] as const;
 /** Every problem of a working-matrix document, with the curated cell rules counted as errors. */
 export function curatedProblems(document: MatrixDocument): MatrixProblem[] {
   return validateMatrix(document).map((problem) =>
-    problem.severity === 'warning' && CURATED_CELL_RULES.has(problem.code) ? { ...problem, severity: 'error' as const } : problem,
+    problem.severity === 'warning' && CURATED_CELL_RULES.has(problem.code)
+      ? // the engine's words say how compilation repairs the cell; here the cell is refused instead
+        { ...problem, severity: 'error' as const, message: problem.message.replace(/; it is compiled sorted\.$/, '.') }
+      : problem,
   );
 }
 
