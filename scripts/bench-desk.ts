@@ -11,6 +11,7 @@
  * the page's own (parsing, filtering, drawing), not the database's. Headless Chromium without a GPU
  * on a shared machine: compare runs with each other, not with a phone.
  */
+import os from 'node:os';
 import { generateSyntheticMatrix } from '@shared/engine';
 import { launchBrowser, chromiumAvailable, CHROMIUM_PATH } from '../tests/e2e/support/browser';
 import { startBuiltApp } from '../tests/e2e/support/server';
@@ -109,6 +110,7 @@ async function main(): Promise<void> {
     const stillDrawn = await page.evaluate<number>(`document.querySelectorAll('[role="gridcell"]').length`);
 
     const result = {
+      machine: { cores: os.cpus().length, loadAverage: os.loadavg().map((load) => Math.round(load * 10) / 10) },
       matrix: { taxa: TAXA, traits: TRAITS, cells: TAXA * TRAITS, jsonMB: Math.round(body.length / 1e5) / 10, generateMs: Math.round(generateMs) },
       firstRender: { ...firstRender, goalMs: FIRST_RENDER_GOAL_MS },
       scrolling: { budgetMs: Math.round(FRAME_BUDGET_MS * 10) / 10, down, right, diagonal, cellsDrawnAfter: stillDrawn },
@@ -125,6 +127,7 @@ async function main(): Promise<void> {
       console.log(`${name.padEnd(20)}p50 ${ms(figures.p50)}, p95 ${ms(figures.p95)}, max ${ms(figures.max)} over ${figures.frames} frames; ${figures.overBudget} frames over 1.5 × budget (goal p95 ≤ ${ms(FRAME_BUDGET_MS)})`);
     }
     console.log(`cells in the page after scrolling: ${stillDrawn} (rows and columns stay windowed)`);
+    console.log(`machine: ${result.machine.cores} cores, load average ${result.machine.loadAverage.join(' / ')} (1 / 5 / 15 min): figures from a busy machine run slow`);
   } finally {
     await browser.close();
     await app.stop();
