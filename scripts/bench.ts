@@ -11,9 +11,7 @@
  */
 import { setFlagsFromString } from 'node:v8';
 import { runInNewContext } from 'node:vm';
-import { compileMatrix, decodeBundle, encodeBundle, generateSyntheticMatrix, rank, suggest, type CompiledMatrix, type Observation } from '@shared/engine';
-import { seededRandom } from '../shared/engine/synthetic';
-import { prepareObservations } from '../shared/engine/observations';
+import { compileMatrix, decodeBundle, encodeBundle, generateSyntheticMatrix, prepareObservations, rank, seededRandom, suggest, type CompiledMatrix, type Observation } from '@shared/engine';
 import { drawAnswer } from './lib/engine-sim';
 import { all, buildSqliteBaseline, rankingQuery, type SqlRow } from './lib/engine-sqlite';
 

@@ -1,5 +1,8 @@
 /** Development: the API in watch mode on PORT (default 3000) and `ng serve` proxying /api to it. */
-import { spawn, type ChildProcess } from 'node:child_process';
+import { execSync, spawn, type ChildProcess } from 'node:child_process';
+
+// The icon font is cut to the icons the app names before the web app is served (see subset-icons.ts).
+execSync('npx tsx scripts/subset-icons.ts', { stdio: 'inherit' });
 
 const children: ChildProcess[] = [
   spawn('npx', ['tsx', 'watch', '--clear-screen=false', 'api/src/server.ts'], { stdio: 'inherit', env: { ...process.env, NODE_ENV: 'development' } }),

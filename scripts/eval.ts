@@ -10,8 +10,7 @@
  */
 import { existsSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { compileMatrix, entropy, generateSyntheticMatrix, suggest, type CompiledMatrix, type MatrixDocument } from '@shared/engine';
-import { seededRandom } from '../shared/engine/synthetic';
+import { compileMatrix, entropy, generateSyntheticMatrix, seededRandom, suggest, type CompiledMatrix, type MatrixDocument } from '@shared/engine';
 import { optimalExpectedQuestions } from './lib/engine-optimum';
 import { simulateSift, type Policy, type SiftOutcome } from './lib/engine-sim';
 

@@ -7,7 +7,7 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { InseparablePair, MatrixDocument, Taxon, Trait } from '@shared/engine/types';
+import type { InseparablePair, MatrixDocument, Taxon, Trait } from '@shared/engine';
 
 /** The seeds folder when running from source; bundled callers pass the folder explicitly. */
 export const SEEDS_DIR = dirname(fileURLToPath(import.meta.url));

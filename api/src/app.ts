@@ -1,4 +1,4 @@
-import express, { type Express } from 'express';
+import express, { type Express, type RequestHandler } from 'express';
 import helmet from 'helmet';
 import { pino, type Logger } from 'pino';
 import { pinoHttp } from 'pino-http';
@@ -8,14 +8,30 @@ import { openDatabase } from './db/database';
 import { defineModels, type Models } from './db/models';
 import { prepareDatabase } from './db/migrator';
 import { apiNotFound, problemErrorHandler } from './http/error-handler';
+import { contractValidation, type ContractViolation } from './http/openapi-validation';
+import { dynamicCompression } from './http/compression';
 import { healthRoutes } from './health/health-routes';
 import { docsRoutes } from './docs/docs-routes';
-import { webRoutes } from './web/web-routes';
-import { startPeople, type People } from './accounts/people';
-import { registerSeedConfig } from './db/seeders/0002-demo-scenario';
 import { loadOpenApiDocument } from './docs/openapi-document';
-import { contractValidation, type ContractViolation } from './http/openapi-validation';
-import { openToAnonymousButKeysNeed } from './http/lookup-access';
+import { siteRoutes } from './site/site-routes';
+import { openToAnonymousButKeysNeed } from './auth/lookup-access';
+import { accessBeforeValidation } from './auth/contract-access';
+import { authenticate } from './gate/authenticate';
+import { PrincipalCache } from './gate/principal-cache';
+import { createLimiterStores, createRateLimiters, type LimiterStores } from './gate/rate-limits';
+import { startMailer, type Mailer } from './mail/mailer';
+import { devMailRoutes } from './mail/dev-mail-routes';
+import { sessionService } from './accounts/session-service';
+import { oneTimeLinkService } from './accounts/one-time-link-service';
+import { accountRoutes } from './accounts/account-routes';
+import { keyService, type KeyService } from './keys/key-service';
+import { adminKeyRoutes, keyRoutes } from './keys/key-routes';
+import { userAdminService } from './admin/user-admin-service';
+import { userAdminRoutes } from './admin/user-admin-routes';
+import { backupService } from './admin/backup-service';
+import { backupRoutes } from './admin/backup-routes';
+import { queryService } from './queries/query-service';
+import { queryRoutes } from './queries/query-routes';
 import { EditionCatalog } from './editions/edition-catalog';
 import { editionRoutes } from './editions/edition-routes';
 import { identifyRoutes } from './identify/identify-routes';
@@ -28,7 +44,7 @@ import { importRoutes } from './imports/import-routes';
 import { compareRoutes } from './compare/compare-routes';
 import { studyRoutes } from './study/study-routes';
 
-/** Everything a route's domain service may need, built once per app. */
+/** The long-lived parts of one app, built once by createApp; each route module gets only what it needs. */
 export interface AppContext {
   config: AppConfig;
   logger: Logger;
@@ -36,8 +52,11 @@ export interface AppContext {
   models: Models;
   /** the published editions, compiled once each; call `editions.invalidate()` after replacing them */
   editions: EditionCatalog;
-  /** accounts, sessions, partner keys, rate limits and mail */
-  people: People;
+  mailer: Mailer;
+  /** where the rate-limit counters live (memory or Redis) */
+  limiterStores: LimiterStores;
+  /** partner keys, with their buffered usage counts */
+  keys: KeyService;
 }
 
 export interface CreatedApp {
@@ -52,17 +71,34 @@ export interface CreatedApp {
 /** Builds the Express app and its database; listening is left to the caller (server.ts or a test). */
 export async function createApp(config: AppConfig): Promise<CreatedApp> {
   const logger = pino({ level: config.logLevel, base: { app: 'sylvasift' } });
-  const sequelize = await openDatabase(config.databaseUrl, logger);
+  const sequelize = await openDatabase(config.database.url, logger);
   const models = defineModels(sequelize);
-  registerSeedConfig(sequelize, config);
-  if (config.migrateOnStart) {
-    const { migrated, seeded } = await prepareDatabase(sequelize, models, logger);
+  if (config.database.migrateOnStart) {
+    const { migrated, seeded } = await prepareDatabase(sequelize, models, config, logger);
     if (migrated.length > 0) logger.info({ migrated }, 'database migrated');
     if (seeded.length > 0) logger.info({ seeded }, 'database seeded');
   }
-  const people = await startPeople({ config, logger, sequelize, models, afterRestore: () => context.editions.invalidate() });
-  const context: AppContext = { config, logger, sequelize, models, editions: new EditionCatalog(models), people };
-  const identifyPool = config.identifyWorkers > 0 ? new IdentifyPool(config.identifyWorkers) : undefined;
+  const editions = new EditionCatalog(models);
+  const mailer = await startMailer(config.mail, logger);
+  const limiterStores = createLimiterStores(config.limits, logger);
+  const limiters = createRateLimiters(config.limits, limiterStores);
+  const keys = keyService(models, logger);
+  const principals = new PrincipalCache().watch(models);
+  const context: AppContext = { config, logger, sequelize, models, editions, mailer, limiterStores, keys };
+  const identifyPool = config.identify.workers > 0 ? new IdentifyPool(config.identify.workers) : undefined;
+
+  const sessions = sessionService({ models, config: config.auth, logger });
+  const links = oneTimeLinkService({ sequelize, models, config: config.auth, publicUrl: config.mail.publicUrl, mailer, sessions });
+  const backups = backupService(sequelize, config.storage.backupDir, () => {
+    // a restore rewrites the tables directly, past the model hooks that keep the principal cache honest
+    principals.clear();
+    editions.invalidate();
+  });
+  const countKeyUse: RequestHandler = (req, _res, next) => {
+    if (req.principal?.kind === 'key') keys.recordUse(req.principal.keyId);
+    next();
+  };
+  const document = loadOpenApiDocument(config.contract.openApiFile);
 
   const app = express();
   app.disable('x-powered-by');
@@ -94,30 +130,37 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
       },
     }),
   );
+  app.use(dynamicCompression());
   app.use(express.json({ limit: '256kb' }));
-  app.use('/api/v1', people.gate);
-  app.use('/api/v1/editions/current/bundle', people.anonymousBundleLimit);
-  const contract = contractValidation(loadOpenApiDocument(), { validateResponses: config.validateResponses });
+  // The gate: who is calling, then the anonymous and per-key limits, then the key's usage count.
+  app.use('/api/v1', authenticate(models, principals), limiters.anonymous, ...limiters.partnerKey, countKeyUse);
+  app.use('/api/v1/editions/current/bundle', limiters.anonymousBundle);
+  const contract = contractValidation(document, { validateResponses: config.contract.validateResponses, beforeBodyValidation: accessBeforeValidation });
   app.use(contract.middleware);
 
   app.use('/api/health', healthRoutes(sequelize, config.version));
-  app.use('/api', docsRoutes());
+  app.use('/api', docsRoutes(document));
   const lookup = openToAnonymousButKeysNeed('lookup');
-  app.use('/api/v1/identify', identifyRoutes(context.editions, { pool: identifyPool, validateResponses: config.validateResponses }));
-  const photos = photoRoutes({ models, uploadsDir: config.uploadsDir });
+  app.use('/api/v1/identify', identifyRoutes(editions, { pool: identifyPool, validateResponses: config.contract.validateResponses }));
+  const photos = photoRoutes({ models, uploadsDir: config.storage.uploadsDir });
   app.use('/api/v1/taxa', photos.upload);
-  app.use('/api/v1/taxa', lookup, taxaRoutes(context));
+  app.use('/api/v1/taxa', lookup, taxaRoutes({ models, editions }));
   app.use('/api/v1/photos', lookup, photos.serve);
-  app.use('/api/v1/traits', lookup, traitsRoutes(context.editions));
-  app.use('/api/v1/compare', lookup, compareRoutes(context.editions));
-  app.use('/api/v1/editions', editionRoutes(context));
-  app.use('/api/v1/curation/imports', importRoutes(context));
-  app.use('/api/v1/curation', curationRoutes(context));
-  app.use('/api/v1/study-sets', studyRoutes(context));
-  app.use('/api/v1', people.routes);
-  if (people.devRoutes) app.use('/api/dev', people.devRoutes);
+  app.use('/api/v1/traits', lookup, traitsRoutes(editions));
+  app.use('/api/v1/compare', lookup, compareRoutes(editions));
+  app.use('/api/v1/editions', editionRoutes({ sequelize, models, editions }));
+  app.use('/api/v1/curation/imports', importRoutes({ sequelize, models }));
+  app.use('/api/v1/curation', curationRoutes({ sequelize, models, editions }));
+  app.use('/api/v1/study-sets', studyRoutes({ sequelize, models }));
+  app.use('/api/v1', accountRoutes({ sessions, links }, limiters.signIn));
+  app.use('/api/v1/keys', keyRoutes(keys, limiters.partnerKeyQuota));
+  app.use('/api/v1/admin/keys', adminKeyRoutes(keys));
+  app.use('/api/v1/admin/users', userAdminRoutes(userAdminService(sequelize, models)));
+  app.use('/api/v1/admin/backups', backupRoutes(backups));
+  app.use('/api/v1/queries', queryRoutes(queryService({ sequelize, models, mailer, logger, publicUrl: config.mail.publicUrl })));
+  if (config.env !== 'production' && mailer.captured) app.use('/api/dev/mail', devMailRoutes(mailer));
   app.use('/api', apiNotFound);
-  app.use(webRoutes(config.webRoot));
+  app.use(siteRoutes(config.site.webRoot));
   app.use(problemErrorHandler);
 
   return {
@@ -126,7 +169,9 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
     contractViolations: contract.violations,
     close: async () => {
       await identifyPool?.close();
-      await people.close();
+      await keys.close();
+      await mailer.close();
+      await limiterStores.close();
       await sequelize.close();
     },
   };

@@ -5,8 +5,7 @@
  * engine's own frequency weights), then replaced by a wrong value with probability `errorRate`;
  * traits that do not apply to the taxon get no answer.
  */
-import { MODEL, rank, suggest, type CompiledMatrix, type Observation } from '@shared/engine';
-import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus } from '../../shared/engine/compiled';
+import { INAPPLICABLE_PATTERN, MODEL, RangeField, rank, suggest, UNKNOWN_PATTERN, ValueStatus, type CompiledMatrix, type Observation } from '@shared/engine';
 
 export type Random = () => number;
 

@@ -7,8 +7,7 @@
  * posterior up to a constant), conflicts and top candidates; the benchmark checks that it does.
  */
 import sqlite3 from 'sqlite3';
-import { MODEL, toCentimetres, type CompiledMatrix, type Observation } from '@shared/engine';
-import { RangeField, ValueStatus } from '../../shared/engine/compiled';
+import { MODEL, RangeField, toCentimetres, ValueStatus, type CompiledMatrix, type Observation } from '@shared/engine';
 
 const WEIGHT: Record<number, number> = {
   [ValueStatus.Usual]: MODEL.usualWeight,

@@ -4,10 +4,11 @@
  * Invariant: these read the compiled matrix only and never change it; taxa are named by id in every
  * result, in the order the caller gave them (or matrix order).
  */
+import { cellInWords } from './cell-words';
 import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
 import { effectiveCellOf, requireTaxon } from './lookup';
 import { relation, separationStrength } from './separation';
-import { codedText, joinAnd } from './texts';
+import { joinAnd } from './words';
 import type {
   ComparisonResult,
   ComparisonVerdict,
@@ -83,7 +84,7 @@ export function compare(compiled: CompiledMatrix, ids: readonly string[]): Compa
 }
 
 function diagnosticText(compiled: CompiledMatrix, trait: CompiledTrait, target: number, separations: readonly DiagnosticSeparation[]): string {
-  const coding = codedText(trait, effectiveCellOf(compiled, trait, target));
+  const coding = cellInWords(trait, effectiveCellOf(compiled, trait, target));
   const reliably = separations.filter((item) => item.strength === 'reliable').map((item) => item.taxonId);
   const usually = separations.filter((item) => item.strength === 'usual').map((item) => item.taxonId);
   const caveat = `they can share ${sharedWords(trait)}`;

@@ -4,7 +4,7 @@
  * Invariant: cuts are strictly increasing; band b covers [cuts[b − 1], cuts[b]) with open ends, so
  * there are cuts.length + 1 bands and every length falls in exactly one.
  */
-import { formatNumber } from './texts';
+import { formatNumber } from './words';
 
 export function bandOf(cuts: readonly number[], centimetres: number): number {
   let band = 0;

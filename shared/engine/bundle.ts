@@ -8,6 +8,16 @@
 import type { CompiledMatrix } from './compiled';
 import { EngineUsageError, usageMessages } from './errors';
 
+/**
+ * The WHATWG Encoding API (UTF-8 only), present in every browser and in Node. The engine is compiled
+ * with neither the DOM nor the node typings, so that it cannot reach for I/O; these two globals are
+ * named here with the little of them it uses.
+ */
+const { TextEncoder: Utf8Encoder, TextDecoder: Utf8Decoder } = globalThis as unknown as {
+  TextEncoder: new () => { encode(text: string): Uint8Array };
+  TextDecoder: new () => { decode(bytes: Uint8Array): string };
+};
+
 const MAGIC = [0x53, 0x59, 0x4c, 0x42];
 const FORMAT_VERSION = 1;
 const HEADER_BYTES = 16;
@@ -60,7 +70,7 @@ export function encodeBundle(compiled: CompiledMatrix): Uint8Array {
   }
   const metadata: Record<string, unknown> = { ...rest, arrays };
   for (const name of ARRAY_FIELDS) delete metadata[name];
-  const json = new TextEncoder().encode(JSON.stringify(metadata));
+  const json = new Utf8Encoder().encode(JSON.stringify(metadata));
   const dataStart = align8(HEADER_BYTES + json.length);
   const bytes = new Uint8Array(dataStart + offset);
   bytes.set(MAGIC, 0);
@@ -87,7 +97,7 @@ export function decodeBundle(input: Uint8Array): CompiledMatrix {
   if (HEADER_BYTES + jsonLength > bytes.length) throw new EngineUsageError(usageMessages.bundleTruncated());
   let metadata: Metadata;
   try {
-    metadata = JSON.parse(new TextDecoder().decode(bytes.subarray(HEADER_BYTES, HEADER_BYTES + jsonLength))) as Metadata;
+    metadata = JSON.parse(new Utf8Decoder().decode(bytes.subarray(HEADER_BYTES, HEADER_BYTES + jsonLength))) as Metadata;
   } catch {
     throw new EngineUsageError(usageMessages.bundleTruncated());
   }

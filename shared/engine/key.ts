@@ -8,7 +8,7 @@
 import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
 import { requireTaxon } from './lookup';
 import { rangeOf } from './separation';
-import { answerLabel, formatNumber, joinOr } from './texts';
+import { answerLabelAt, formatNumber, joinOr } from './words';
 import type { DichotomousKey, KeyCouplet, KeyLead, KeyNode } from './types';
 
 /** most values for which every two-way grouping is tried; more are grouped greedily */
@@ -122,7 +122,7 @@ function bestSplit(compiled: CompiledMatrix, taxa: readonly number[]): Split | u
 
 function leadText(trait: CompiledTrait, answers: number[] | undefined, cut: number | undefined, below: boolean): string {
   if (cut !== undefined) return below ? `${trait.label} typically under ${formatNumber(cut)} cm` : `${trait.label} typically ${formatNumber(cut)} cm or more`;
-  return `${trait.label}: ${joinOr((answers ?? []).map((answer) => answerLabel(trait, answer)))}`;
+  return `${trait.label}: ${joinOr((answers ?? []).map((answer) => answerLabelAt(trait, answer)))}`;
 }
 
 /** A two-way key for the given taxa (matrix order for ties); the client renders and prints the tree. */

@@ -9,7 +9,8 @@ import { RANK_DEFAULTS, type RankOptions } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
 import { rangeOf } from './separation';
 import { prepareObservations, type PreparedObservation } from './observations';
-import { exactProbability, measureRegion, regionLikelihood, scoreObservations, scoringScratch, setLinearTotal, type Scored, type SkipCause } from './scoring';
+import { measureRegion, regionLikelihood } from './likelihood-columns';
+import { exactProbability, scoreObservations, scoringScratch, setLinearTotal, type Scored, type SkipCause } from './scoring';
 import { observedText, patternText, reasonTexts } from './texts';
 import type { Candidate, Observation, RankResult, Reason, ReasonStatus } from './types';
 

@@ -4,7 +4,9 @@
  * Invariant: the document is a pure function of the options (seeded PRNG, no Math.random) and
  * always passes validateMatrix without errors.
  */
+import { seededRandom } from './random';
 import type { Cell, MatrixDocument, Season, Taxon, Trait, TraitKind } from './types';
+import { PLANT_PARTS } from './vocabulary';
 
 export interface SyntheticOptions {
   /** number of taxa */
@@ -55,19 +57,6 @@ const DEFAULTS = Object.freeze({
   minValues: 2,
 });
 
-/** mulberry32: a small, fast 32-bit PRNG with good enough statistics for test data. */
-export function seededRandom(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let value = state;
-    value = Math.imul(value ^ (value >>> 15), value | 1);
-    value ^= value + Math.imul(value ^ (value >>> 7), value | 61);
-    return ((value ^ (value >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-const PARTS = ['leaf', 'needle', 'cone', 'fruit', 'flower', 'twig', 'bark', 'form'] as const;
 const SEASONS: readonly Season[] = ['any', 'any', 'leaf-on', 'leaf-on', 'leaf-off'];
 
 function pad(value: number, width: number): string {
@@ -98,7 +87,7 @@ export function generateSyntheticMatrix(options: SyntheticOptions): MatrixDocume
     const trait: Trait = {
       code,
       label: `Trait ${j + 1}`,
-      part: PARTS[j % PARTS.length],
+      part: PLANT_PARTS[j % PLANT_PARTS.length],
       kind,
       season: options.season ?? SEASONS[integer(0, SEASONS.length - 1)],
       ease: options.ease ?? integer(1, 5),

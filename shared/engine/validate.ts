@@ -6,143 +6,18 @@
  */
 import { countSpanOf, MAX_COUNT_SPAN, parseCount, type CountSpan } from './count-span';
 import { MatrixValidationError, matrixMessages as m } from './errors';
+import { checkTaxonFields, checkTrait } from './field-rules';
+import { isNonEmptyString, isObject, KEBAB, ProblemList, type Record_ } from './problem-list';
 import type { MatrixDocument, MatrixProblem, Taxon, Trait } from './types';
+import { FREQUENCIES } from './vocabulary';
 
-const KEBAB = /^[a-z0-9]+(?:-[a-z0-9]+)*$/;
-const KINDS = ['state', 'numeric', 'count'] as const;
-const SEASONS = ['any', 'leaf-on', 'leaf-off'] as const;
-const PARTS = ['leaf', 'needle', 'cone', 'fruit', 'flower', 'twig', 'bark', 'form'] as const;
-const STATUSES = ['native', 'naturalised', 'introduced'] as const;
-const FREQUENCIES = ['usual', 'occasional', 'rare'] as const;
 const RANGE_FIELDS = ['min', 'low', 'high', 'max'] as const;
-
-type Record_ = Record<string, unknown>;
-
-function isObject(value: unknown): value is Record_ {
-  return typeof value === 'object' && value !== null && !Array.isArray(value);
-}
-
-function isNonEmptyString(value: unknown): value is string {
-  return typeof value === 'string' && value.trim().length > 0;
-}
-
-class ProblemList {
-  readonly items: MatrixProblem[] = [];
-  error(path: string, code: string, message: string, taxon?: string, trait?: string): void {
-    this.items.push({ severity: 'error', code, path, message, ...(taxon !== undefined && { taxon }), ...(trait !== undefined && { trait }) });
-  }
-  warning(path: string, code: string, message: string, taxon?: string, trait?: string): void {
-    this.items.push({ severity: 'warning', code, path, message, ...(taxon !== undefined && { taxon }), ...(trait !== undefined && { trait }) });
-  }
-}
 
 /** What validation learns about each well-formed trait, for checking cells. */
 interface TraitFacts {
   trait: Trait;
   valueCodes: Set<string>;
   span?: CountSpan;
-}
-
-function checkTrait(raw: unknown, index: number, problems: ProblemList, seen: Set<string>): Trait | undefined {
-  const path = `traits[${index}]`;
-  if (!isObject(raw)) {
-    problems.error(path, 'not-an-object', m.notAnObject(path));
-    return undefined;
-  }
-  const code = raw['code'];
-  if (!isNonEmptyString(code) || !KEBAB.test(code)) {
-    problems.error(`${path}.code`, 'bad-code', m.badCode('Trait', code));
-    return undefined;
-  }
-  if (seen.has(code)) {
-    problems.error(`${path}.code`, 'duplicate-trait', m.duplicate('Trait', code), undefined, code);
-    return undefined;
-  }
-  seen.add(code);
-  let ok = true;
-  if (!isNonEmptyString(raw['label'])) {
-    problems.error(`${path}.label`, 'missing-field', m.missingField(undefined, code, 'label'), undefined, code);
-    ok = false;
-  }
-  const enumChecks: Array<[string, readonly string[]]> = [['part', PARTS], ['kind', KINDS], ['season', SEASONS]];
-  for (const [field, allowed] of enumChecks) {
-    if (!allowed.includes(raw[field] as string)) {
-      problems.error(`${path}.${field}`, `bad-${field}`, m.badEnum(code, field, raw[field], allowed), undefined, code);
-      ok = false;
-    }
-  }
-  const ease = raw['ease'];
-  if (typeof ease !== 'number' || !Number.isFinite(ease) || ease < 1 || ease > 5) {
-    problems.error(`${path}.ease`, 'bad-ease', m.badEase(code, ease), undefined, code);
-    ok = false;
-  }
-  const errorRate = raw['errorRate'];
-  if (typeof errorRate !== 'number' || !Number.isFinite(errorRate) || errorRate < 0 || errorRate >= 0.5) {
-    problems.error(`${path}.errorRate`, 'bad-error-rate', m.badErrorRate(code, errorRate), undefined, code);
-    ok = false;
-  }
-  const kind = raw['kind'];
-  if (kind === 'numeric') {
-    if (raw['unit'] !== undefined && raw['unit'] !== 'cm') {
-      problems.error(`${path}.unit`, 'bad-unit', m.badUnit(code, raw['unit']), undefined, code);
-      ok = false;
-    }
-  } else if (raw['unit'] !== undefined) {
-    problems.error(`${path}.unit`, 'bad-unit', m.unitOnNonNumeric(code), undefined, code);
-    ok = false;
-  }
-  const values = raw['values'];
-  if (values !== undefined && !Array.isArray(values)) {
-    problems.error(`${path}.values`, 'not-a-list', m.notAList(`${path}.values`), undefined, code);
-    ok = false;
-  } else if (Array.isArray(values)) {
-    const codes = new Set<string>();
-    values.forEach((value: unknown, valueIndex: number) => {
-      const valuePath = `${path}.values[${valueIndex}]`;
-      if (!isObject(value) || !isNonEmptyString(value['label'])) {
-        problems.error(valuePath, 'bad-value', m.missingField(undefined, code, `values[${valueIndex}].label`), undefined, code);
-        ok = false;
-        return;
-      }
-      const valueCode = value['code'];
-      const wellFormed =
-        kind === 'count' ? typeof valueCode === 'string' && parseCount(valueCode) !== undefined : isNonEmptyString(valueCode) && KEBAB.test(valueCode);
-      if (!wellFormed) {
-        problems.error(valuePath, 'bad-value-code', kind === 'count' ? m.badCountValue(code, valueCode) : m.badCode('Value', valueCode), undefined, code);
-        ok = false;
-        return;
-      }
-      if (codes.has(valueCode as string)) {
-        problems.error(valuePath, 'duplicate-value', m.duplicateValue(code, valueCode as string), undefined, code);
-        ok = false;
-      }
-      codes.add(valueCode as string);
-    });
-  }
-  if (kind === 'state' && (!Array.isArray(values) || values.length === 0)) {
-    problems.error(`${path}.values`, 'no-values', m.noValues(code), undefined, code);
-    ok = false;
-  }
-  const countRange = raw['countRange'];
-  if (countRange !== undefined) {
-    const valid =
-      kind === 'count' &&
-      isObject(countRange) &&
-      Number.isInteger(countRange['min']) &&
-      Number.isInteger(countRange['max']) &&
-      (countRange['min'] as number) >= 0 &&
-      (countRange['min'] as number) <= (countRange['max'] as number) &&
-      (countRange['max'] as number) <= 1000;
-    if (!valid) {
-      problems.error(`${path}.countRange`, 'bad-count-range', m.badCountRange(code), undefined, code);
-      ok = false;
-    }
-  }
-  if (raw['appliesWhen'] !== undefined && !isObject(raw['appliesWhen'])) {
-    problems.error(`${path}.appliesWhen`, 'bad-applies-when', m.notAnObject(`${path}.appliesWhen`), undefined, code);
-    ok = false;
-  }
-  return ok ? (raw as unknown as Trait) : undefined;
 }
 
 function checkAppliesWhen(facts: Map<string, TraitFacts>, traitIndex: Map<string, number>, problems: ProblemList): void {
@@ -322,21 +197,7 @@ function checkTaxon(raw: unknown, index: number, facts: Map<string, TraitFacts>,
     return undefined;
   }
   seen.add(id);
-  for (const field of ['scientificName', 'family']) {
-    if (!isNonEmptyString(raw[field])) problems.error(`${path}.${field}`, 'missing-field', m.missingField(id, undefined, field), id);
-  }
-  if (typeof raw['authority'] !== 'string') problems.error(`${path}.authority`, 'missing-field', m.missingField(id, undefined, 'authority'), id);
-  const commonNames = raw['commonNames'];
-  if (!Array.isArray(commonNames) || commonNames.some((name) => typeof name !== 'string')) {
-    problems.error(`${path}.commonNames`, 'not-a-list', m.notAList(`${path}.commonNames`), id);
-  }
-  if (raw['status'] !== undefined && !(STATUSES as readonly string[]).includes(raw['status'] as string)) {
-    problems.error(`${path}.status`, 'bad-status', m.badEnum(id, 'status', raw['status'], STATUSES), id);
-  }
-  const prior = raw['prior'];
-  if (prior !== undefined && (typeof prior !== 'number' || !Number.isFinite(prior) || prior <= 0)) {
-    problems.error(`${path}.prior`, 'bad-prior', m.badPrior(id, prior), id);
-  }
+  checkTaxonFields(raw, path, id, problems);
   const cells = raw['cells'];
   if (!isObject(cells)) {
     problems.error(`${path}.cells`, 'not-an-object', m.notAnObject(`${path}.cells`), id);

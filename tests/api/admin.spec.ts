@@ -6,7 +6,7 @@ import { Sequelize } from 'sequelize';
 import type { CreatedApp } from '../../api/src/app';
 import { backupService } from '../../api/src/admin/backup-service';
 import { HttpProblem } from '../../api/src/http/problem';
-import { postgresBackupCommands } from '../../api/src/db/dialect';
+import { postgresBackupCommands } from '../../api/src/sql/dialect';
 import { assertContractKept, startTestApp } from './support/test-app';
 import { testDialect } from './support/test-database';
 import { createPartnerKey, signUpAndSignIn, uniqueEmail, type SignedInUser } from './support/accounts';
@@ -80,7 +80,7 @@ describe('api: admin', () => {
       const made = await request(created.app).post('/api/v1/admin/backups').set(auth(admin)).expect(201);
       const name = made.body.name as string;
       expect(name).to.match(/^sylvasift-\d{8}T\d{9}Z-[a-f0-9]{6}\.sqlite$/);
-      const file = path.join(created.context.config.people.backupDir, name);
+      const file = path.join(created.context.config.storage.backupDir, name);
       const header = (await fs.readFile(file)).subarray(0, 16).toString('latin1');
       // SQLite file format §1.3: every database file starts with "SQLite format 3\0"
       expect(header).to.equal('SQLite format 3\0');
@@ -100,12 +100,37 @@ describe('api: admin', () => {
       await request(created.app).get('/api/v1/editions/current/bundle').expect(200);
     });
 
+    sqliteIt('downloads a backup as the SQLite file it wrote, under its own name', async () => {
+      const made = await request(created.app).post('/api/v1/admin/backups').set(auth(admin)).expect(201);
+      const name = made.body.name as string;
+      const res = await request(created.app)
+        .get(`/api/v1/admin/backups/${name}`)
+        .set(auth(admin))
+        .buffer(true)
+        .parse((response, done) => {
+          const chunks: Buffer[] = [];
+          response.on('data', (chunk: Buffer) => chunks.push(chunk));
+          response.on('end', () => done(null, Buffer.concat(chunks)));
+        })
+        .expect(200);
+      expect(res.headers['content-type']).to.match(/^application\/vnd\.sqlite3/);
+      // a token or a quoted string, both RFC 6266 §4.1; the name has no characters that need quoting
+      expect(res.headers['content-disposition']).to.be.oneOf([`attachment; filename=${name}`, `attachment; filename="${name}"`]);
+      expect(res.headers['cache-control']).to.equal('no-store');
+      const body = res.body as Buffer;
+      // the SQLite file header, "SQLite format 3\0" (sqlite.org, Database File Format §1.3)
+      expect(body.subarray(0, 16).toString('latin1')).to.equal('SQLite format 3\0');
+      expect(body.length).to.equal(made.body.bytes);
+      await request(created.app).get(`/api/v1/admin/backups/${encodeURIComponent('../../etc/passwd')}`).set(auth(admin)).expect(400);
+      await request(created.app).get('/api/v1/admin/backups/sylvasift-20260101T000000000Z-000000.sqlite').set(auth(admin)).expect(404);
+    });
+
     sqliteIt('rejects path traversal, unknown names, files that are not SQLite, and databases of another schema', async () => {
       await request(created.app).post(`/api/v1/admin/backups/${encodeURIComponent('../../etc/passwd')}/restore`).set(auth(admin)).expect(400);
       await request(created.app).post('/api/v1/admin/backups/sylvasift.sqlite/restore').set(auth(admin)).expect(400);
       await request(created.app).post('/api/v1/admin/backups/sylvasift-20260101T000000000Z-000000.sqlite/restore').set(auth(admin)).expect(404);
 
-      const dir = created.context.config.people.backupDir;
+      const dir = created.context.config.storage.backupDir;
       await fs.mkdir(dir, { recursive: true });
       const junk = 'sylvasift-20260101T000000000Z-0000aa.sqlite';
       await fs.writeFile(path.join(dir, junk), 'this is plain text, not a database');

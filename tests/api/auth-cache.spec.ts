@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import request from 'supertest';
 import type { CreatedApp } from '../../api/src/app';
-import { PrincipalCache } from '../../api/src/auth/principal-cache';
+import { PrincipalCache } from '../../api/src/gate/principal-cache';
 import type { Principal } from '../../api/src/auth/principal';
 import { UsageCounter } from '../../api/src/keys/usage-counter';
 import { startTestApp } from './support/test-app';

@@ -103,7 +103,7 @@ describe('api: accounts and sessions', () => {
     const user = await signUpAndSignIn(created, 'learner');
     const session = await created.context.models.Session.findOne({ where: { tokenHash: hashToken(user.token) } });
     const ttlMs = (session?.expiresAt.getTime() ?? 0) - (session?.createdAt.getTime() ?? 0);
-    expect(Math.round(ttlMs / 3_600_000)).to.equal(created.context.config.people.sessionTtlHours);
+    expect(Math.round(ttlMs / 3_600_000)).to.equal(created.context.config.auth.sessionTtlHours);
     await request(created.app).get('/api/v1/me').set('Authorization', `Bearer ${user.token}`).expect(200);
     await created.context.models.Session.update({ expiresAt: new Date(Date.now() - 1000) }, { where: { tokenHash: hashToken(user.token) } });
     await request(created.app).get('/api/v1/me').set('Authorization', `Bearer ${user.token}`).expect(401);
@@ -122,7 +122,7 @@ describe('api: accounts and sessions', () => {
   describe('failed sign-ins', () => {
     it('slows an address after 2 failures and locks it after 5 for 15 minutes, even for the right password', async () => {
       const user = await signUpAndSignIn(created, 'learner');
-      const { signInDelayMs, signInMaxFailures, signInLockMinutes } = created.context.config.people;
+      const { signInDelayMs, signInMaxFailures, signInLockMinutes } = created.context.config.auth;
       const timings: number[] = [];
       for (let i = 0; i < signInMaxFailures; i++) {
         const start = Date.now();
@@ -144,7 +144,7 @@ describe('api: accounts and sessions', () => {
 
     it('locks an address nobody has the same way, so a lock does not reveal who has an account', async () => {
       const nobody = uniqueEmail('nobody');
-      for (let i = 0; i < created.context.config.people.signInMaxFailures; i++) {
+      for (let i = 0; i < created.context.config.auth.signInMaxFailures; i++) {
         await request(created.app).post('/api/v1/sessions').send({ email: nobody, password: 'whatever it is' }).expect(401);
       }
       await request(created.app).post('/api/v1/sessions').send({ email: nobody, password: 'whatever it is' }).expect(429);
@@ -176,7 +176,7 @@ describe('api: accounts and sessions', () => {
       const user = await signUpAndSignIn(created, 'learner');
       const res = await request(created.app).post('/api/v1/password-resets').send({ email: user.email }).expect(202);
       const mail = await mailTo(created, user.email, 'Reset');
-      expect(mail.text).to.include(`${created.context.config.people.publicUrl}/account/reset-password/`);
+      expect(mail.text).to.include(`${created.context.config.mail.publicUrl}/account/reset-password/`);
       const token = linkToken(mail.text, 'reset-password');
 
       await request(created.app).post(`/api/v1/password-resets/${token}`).send({ password: 'a brand new password' }).expect(204);

@@ -140,11 +140,11 @@ describe('api: identify on worker threads', function () {
 describe('api: identify worker configuration', () => {
   it('starts one worker per core beyond the first, at most four, and none on one core', () => {
     expect([1, 2, 3, 5, 16].map((cores) => defaultIdentifyWorkers(cores))).to.deep.equal([0, 1, 2, 4, 4]);
-    expect(loadConfig({ NODE_ENV: 'production', SMTP_URL: 'smtp://mail.invalid' }).identifyWorkers).to.equal(defaultIdentifyWorkers());
-    expect(loadConfig({ NODE_ENV: 'test' }).identifyWorkers).to.equal(0);
-    expect(loadConfig({ NODE_ENV: 'test', IDENTIFY_WORKERS: '3' }).identifyWorkers).to.equal(3);
+    expect(loadConfig({ NODE_ENV: 'production', SMTP_URL: 'smtp://mail.invalid' }).identify.workers).to.equal(defaultIdentifyWorkers());
+    expect(loadConfig({ NODE_ENV: 'test' }).identify.workers).to.equal(0);
+    expect(loadConfig({ NODE_ENV: 'test', IDENTIFY_WORKERS: '3' }).identify.workers).to.equal(3);
     // an empty value, as an unfilled line in an env file gives, means the default
-    expect(loadConfig({ NODE_ENV: 'test', IDENTIFY_WORKERS: '' }).identifyWorkers).to.equal(0);
+    expect(loadConfig({ NODE_ENV: 'test', IDENTIFY_WORKERS: '' }).identify.workers).to.equal(0);
   });
 
   it('passes tsx on to workers run from source exactly once, and nothing extra to the built worker', () => {

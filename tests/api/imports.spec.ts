@@ -78,8 +78,8 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
         file: 'loblolly.csv',
         rows: 6,
         changes: [
-          { row: 3, taxon: 'pinus-taeda', trait: 'needle-length', before: { min: 10, low: 12, high: 23, max: 23 }, after: { min: 10, low: 12, high: 23, max: 25 } },
-          { row: 4, taxon: 'pinus-taeda', trait: 'pith', before: 'unknown', after: { usual: ['continuous'] } },
+          { row: 3, taxon: 'pinus-taeda', trait: 'needle-length', before: { min: 10, low: 15, high: 23, max: 23 }, after: { min: 10, low: 12, high: 23, max: 25 } },
+          { row: 7, taxon: 'pinus-strobus', trait: 'pith', before: { usual: ['continuous'] }, after: 'unknown' },
         ],
         unchanged: 4,
         problems: [],
@@ -166,13 +166,13 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
       const before = await snapshot();
       const needleLength = await storedCell('pinus-taeda', 'needle-length');
       const bundles = await storedCell('pinus-taeda', 'needles-per-fascicle');
-      const pith = await storedCell('pinus-taeda', 'pith');
+      const pith = await storedCell('pinus-strobus', 'pith');
       const res = await upload(curator, 'apply', GOOD_SHEET).expect(200);
       expect(res.body.mode).to.equal('apply');
-      expect(res.body.changes.map((c: { taxon: string; trait: string }) => `${c.taxon}/${c.trait}`)).to.deep.equal(['pinus-taeda/needle-length', 'pinus-taeda/pith']);
+      expect(res.body.changes.map((c: { taxon: string; trait: string }) => `${c.taxon}/${c.trait}`)).to.deep.equal(['pinus-taeda/needle-length', 'pinus-strobus/pith']);
 
       expect(await storedCell('pinus-taeda', 'needle-length')).to.deep.equal({ value: { min: 10, low: 12, high: 23, max: 25 }, version: needleLength!.version + 1 });
-      expect(await storedCell('pinus-taeda', 'pith')).to.deep.equal({ value: { usual: ['continuous'] }, version: (pith?.version ?? 0) + 1 });
+      expect(await storedCell('pinus-strobus', 'pith')).to.deep.equal({ value: 'unknown', version: (pith?.version ?? 0) + 1 });
       expect(await storedCell('pinus-taeda', 'needles-per-fascicle')).to.deep.equal(bundles);
 
       const after = await snapshot();
@@ -182,11 +182,11 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
           return !old || old.version !== cell.version;
         })
         .map((cell) => `${cell.taxonId}/${cell.traitCode}`);
-      expect(changedKeys.sort()).to.deep.equal(['pinus-taeda/needle-length', 'pinus-taeda/pith']);
+      expect(changedKeys.sort()).to.deep.equal(['pinus-strobus/pith', 'pinus-taeda/needle-length']);
       expect(after.audit).to.equal(before.audit + 3);
 
       const audit = await request(created.app).get('/api/v1/curation/audit').set('Authorization', `Bearer ${curator.token}`).query({ entity: 'cell', key: 'pinus-taeda/needle-length' }).expect(200);
-      expect(audit.body.entries[0]).to.deep.include({ action: 'set', reason: 'import loblolly.csv', before: { min: 10, low: 12, high: 23, max: 23 }, after: { min: 10, low: 12, high: 23, max: 25 } });
+      expect(audit.body.entries[0]).to.deep.include({ action: 'set', reason: 'import loblolly.csv', before: { min: 10, low: 15, high: 23, max: 23 }, after: { min: 10, low: 12, high: 23, max: 25 } });
       expect(audit.body.entries[0].actor).to.deep.equal({ userId: curator.userId, email: curator.email });
       const summary = await request(created.app).get('/api/v1/curation/audit').set('Authorization', `Bearer ${curator.token}`).query({ entity: 'import' }).expect(200);
       expect(summary.body.entries[0]).to.deep.include({ entityKey: 'loblolly.csv', reason: 'import loblolly.csv', after: { rows: 6, changed: 2, unchanged: 4 } });
@@ -224,7 +224,7 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
       const worksheet = workbook.addWorksheet('cells');
       worksheet.addRow(HEADER.split(','));
       // numbers stay numbers in a spreadsheet: the reader must take them as the cell's text
-      worksheet.addRow(['pinus-echinata', 'needle-length', null, null, null, 7, 7, 12.5, 13, null]);
+      worksheet.addRow(['pinus-echinata', 'needle-length', null, null, null, 7, 7.5, 12.5, 13, null]);
       worksheet.addRow(['pinus-echinata', 'needles-per-fascicle', '2;3', null, null, null, null, null, null, null]);
       worksheet.addRow(['pinus-echinata', 'cone-length', null, null, null, 4, 4, 6, 7.5, null]);
       const xlsx = Buffer.from(await workbook.xlsx.writeBuffer());

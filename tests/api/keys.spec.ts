@@ -62,6 +62,78 @@ describe('api: partner keys', () => {
     await request(created.app).post('/api/v1/keys').set(bearer(developer.token)).send({ name: 'x', scopes: [] }).expect(400);
   });
 
+  describe('one key’s usage over 30 days', () => {
+    const today = () => new Date().toISOString().slice(0, 10);
+
+    it('has every one of the last 30 UTC days, today last, with the key’s admitted requests and what the quota has left', async () => {
+      const { key, id } = await createPartnerKey(created, developer.token, ['lookup']);
+      // usage counted on an earlier day, written as the counter would have
+      const tenDaysAgo = new Date(Date.now() - 10 * 86_400_000).toISOString().slice(0, 10);
+      await created.context.models.KeyUsage.create({ keyId: id, day: tenDaysAgo, count: 7 });
+      const outside = new Date(Date.now() - 30 * 86_400_000).toISOString().slice(0, 10);
+      await created.context.models.KeyUsage.create({ keyId: id, day: outside, count: 100 });
+
+      const before = await request(created.app).get(`/api/v1/keys/${id}/usage`).set(bearer(developer.token)).expect(200);
+      expect(before.body.quota).to.deep.equal({ limit: 5000, remaining: 5000, resetsAt: null });
+
+      for (let i = 0; i < 2; i++) await request(created.app).get('/api/v1/traits').set(bearer(key)).expect(200);
+      const res = await request(created.app).get(`/api/v1/keys/${id}/usage`).set(bearer(developer.token)).expect(200);
+      expect(res.headers['cache-control']).to.equal('no-store');
+      expect(res.body.keyId).to.equal(id);
+      const days = res.body.days as Array<{ day: string; count: number }>;
+      expect(days).to.have.length(30);
+      expect(days.at(-1)).to.deep.equal({ day: today(), count: 2 });
+      // consecutive days, oldest first, none missing
+      for (let i = 1; i < days.length; i++) expect(Date.parse(days[i]!.day) - Date.parse(days[i - 1]!.day)).to.equal(86_400_000);
+      expect(days.find((d) => d.day === tenDaysAgo)?.count).to.equal(7);
+      // the day 30 days back is outside the window (today is the 30th day)
+      expect(days.map((d) => d.day)).not.to.include(outside);
+      expect(res.body.total).to.equal(9);
+      expect(res.body.quota.limit).to.equal(5000);
+      expect(res.body.quota.remaining).to.equal(4998);
+      const resetsIn = Date.parse(res.body.quota.resetsAt) - Date.now();
+      expect(resetsIn).to.be.greaterThan(23 * 3_600_000).and.at.most(24 * 3_600_000);
+    });
+
+    it('counts refused requests against the quota but not in the usage', async () => {
+      const limited = await startTestApp({ KEY_DAILY_QUOTA: '2' });
+      try {
+        const owner = await signUpAndSignIn(limited, 'learner');
+        const { key, id } = await createPartnerKey(limited, owner.token, ['lookup']);
+        await request(limited.app).get('/api/v1/traits').set(bearer(key)).expect(200);
+        await request(limited.app).get('/api/v1/traits').set(bearer(key)).expect(200);
+        await request(limited.app).get('/api/v1/traits').set(bearer(key)).expect(429);
+        const res = await request(limited.app).get(`/api/v1/keys/${id}/usage`).set(bearer(owner.token)).expect(200);
+        expect(res.body.total).to.equal(2);
+        expect(res.body.quota).to.include({ limit: 2, remaining: 0 });
+        assertContractKept(limited);
+      } finally {
+        await limited.close();
+      }
+    });
+
+    it('is the owner’s alone: another user, even an admin, is told there is no such key; a partner key is refused', async () => {
+      const { key, id } = await createPartnerKey(created, developer.token, ['lookup', 'identify']);
+      const stranger = await signUpAndSignIn(created, 'coach');
+      const admin = await signUpAndSignIn(created, 'admin');
+      await request(created.app).get(`/api/v1/keys/${id}/usage`).set(bearer(stranger.token)).expect(404);
+      await request(created.app).get(`/api/v1/keys/${id}/usage`).set(bearer(admin.token)).expect(404);
+      await request(created.app).get(`/api/v1/keys/${id}/usage`).set(bearer(key)).expect(403);
+      await request(created.app).get(`/api/v1/keys/${id}/usage`).expect(401);
+      await request(created.app).get('/api/v1/keys/999999/usage').set(bearer(developer.token)).expect(404);
+      await request(created.app).get('/api/v1/keys/zero/usage').set(bearer(developer.token)).expect(400);
+    });
+
+    it('a revoked key keeps its history', async () => {
+      const { key, id } = await createPartnerKey(created, developer.token, ['lookup']);
+      await request(created.app).get('/api/v1/traits').set(bearer(key)).expect(200);
+      await request(created.app).delete(`/api/v1/keys/${id}`).set(bearer(developer.token)).expect(204);
+      await request(created.app).get('/api/v1/traits').set(bearer(key)).expect(401);
+      const res = await request(created.app).get(`/api/v1/keys/${id}/usage`).set(bearer(developer.token)).expect(200);
+      expect(res.body.days.at(-1)).to.deep.equal({ day: today(), count: 1 });
+    });
+  });
+
   describe('rate limits', () => {
     it('a key’s per-minute limit answers 429 with draft-8 RateLimit and RateLimit-Policy headers', async () => {
       const limited = await startTestApp({ KEY_PER_MINUTE: '3' });
@@ -163,7 +235,7 @@ describe('api: partner keys', () => {
       const a = await startTestApp(env);
       const b = await startTestApp(env);
       try {
-        expect(a.context.people.limiterStores.kind).to.equal('redis');
+        expect(a.context.limiterStores.kind).to.equal('redis');
         // the same key in both databases, so both apps recognise it
         const owner = await signUpAndSignIn(a, 'learner');
         const { key } = await createPartnerKey(a, owner.token, ['lookup']);

@@ -45,7 +45,7 @@ describe('api: mail', () => {
   it('has no mail page in production, where SMTP_URL is required', async () => {
     const created = await startTestApp({ NODE_ENV: 'production', SMTP_URL: 'smtp://127.0.0.1:2525', DATABASE_URL: 'sqlite::memory:', LOG_LEVEL: 'silent', SCRYPT_N: '1024' });
     try {
-      expect(created.context.people.mailer.captured).to.equal(undefined);
+      expect(created.context.mailer.captured).to.equal(undefined);
       await request(created.app).get('/api/dev/mail').set('Accept', 'application/json').expect(404);
     } finally {
       await created.close();

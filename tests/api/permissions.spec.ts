@@ -3,6 +3,7 @@ import sharp from 'sharp';
 import request from 'supertest';
 import type { CreatedApp } from '../../api/src/app';
 import { loadOpenApiDocument } from '../../api/src/docs/openapi-document';
+import { OPENAPI_PATH } from '../../api/src/config';
 import { hashToken } from '../../api/src/auth/tokens';
 import type { Role, Scope } from '../../api/src/auth/principal';
 import { assertContractKept, startTestApp } from './support/test-app';
@@ -108,6 +109,7 @@ describe('api: permission table (every route × every caller)', function () {
 
   const rows = (): Row[] => [
     { operation: 'GET /api/health', prepare: () => ({ url: '/api/health' }), expect: everyone(200) },
+    { operation: 'GET /api/problems/{name}', prepare: () => ({ url: '/api/problems/forbidden' }), expect: everyone(200) },
 
     // identify and published lookups
     {
@@ -207,6 +209,16 @@ describe('api: permission table (every route × every caller)', function () {
     { operation: 'GET /api/v1/keys', prepare: () => ({ url: '/api/v1/keys' }), expect: users(200) },
     { operation: 'POST /api/v1/keys', prepare: () => ({ url: '/api/v1/keys', body: { name: 'Permission table', scopes: ['lookup'] } }), expect: users(201) },
     {
+      operation: 'GET /api/v1/keys/{id}',
+      prepare: async (caller) => {
+        // users read a key of their own (the Location a new key answers with); the others aim at someone else's
+        const owner = ROLES.includes(caller as Role) ? people[caller as Role] : raiser;
+        const { id } = await createPartnerKey(created, owner.token, ['lookup']);
+        return { url: `/api/v1/keys/${id}` };
+      },
+      expect: users(200),
+    },
+    {
       operation: 'DELETE /api/v1/keys/{id}',
       prepare: async (caller) => {
         // users revoke a key of their own; the others aim at someone else's
@@ -215,6 +227,17 @@ describe('api: permission table (every route × every caller)', function () {
         return { url: `/api/v1/keys/${id}` };
       },
       expect: users(204),
+    },
+
+    {
+      operation: 'GET /api/v1/keys/{id}/usage',
+      prepare: async (caller) => {
+        // users read a key of their own; the others aim at someone else's
+        const owner = ROLES.includes(caller as Role) ? people[caller as Role] : raiser;
+        const { id } = await createPartnerKey(created, owner.token, ['lookup']);
+        return { url: `/api/v1/keys/${id}/usage` };
+      },
+      expect: users(200),
     },
 
     // admin
@@ -234,6 +257,12 @@ describe('api: permission table (every route × every caller)', function () {
     // Backups copy SQLite files; on PostgreSQL an admin gets the 501 that names pg_dump instead.
     { operation: 'GET /api/v1/admin/backups', prepare: () => ({ url: '/api/v1/admin/backups' }), expect: users(BACKUPS_REFUSED ? 501 : 200, ['admin']) },
     { operation: 'POST /api/v1/admin/backups', prepare: () => ({ url: '/api/v1/admin/backups' }), expect: users(BACKUPS_REFUSED ? 501 : 201, ['admin']) },
+    // a name of the right shape with no file behind it: admins get through the guard to the 404
+    {
+      operation: 'GET /api/v1/admin/backups/{name}',
+      prepare: () => ({ url: '/api/v1/admin/backups/sylvasift-20260101T000000000Z-000000.sqlite' }),
+      expect: users(BACKUPS_REFUSED ? 501 : 404, ['admin']),
+    },
     {
       operation: 'POST /api/v1/admin/backups/{name}/restore',
       prepare: () => ({ url: '/api/v1/admin/backups/sylvasift-20260101T000000000Z-000000.sqlite/restore' }),
@@ -297,7 +326,7 @@ describe('api: permission table (every route × every caller)', function () {
   after(() => created.close());
 
   it('has a row for every operation in openapi.yaml, and no row for one that is not there', () => {
-    const document = loadOpenApiDocument();
+    const document = loadOpenApiDocument(OPENAPI_PATH);
     const operations = Object.entries(document.paths ?? {}).flatMap(([path, item]) =>
       ['get', 'put', 'post', 'patch', 'delete'].filter((method) => item && method in item).map((method) => `${method.toUpperCase()} ${path}`),
     );
@@ -323,6 +352,29 @@ describe('api: permission table (every route × every caller)', function () {
           const again = await request(created.app).post('/api/v1/sessions').send({ email: people[role].email, password: people[role].password }).expect(201);
           people[role] = { ...people[role], token: again.body.token };
         }
+      }
+    }
+    expect(failures, failures.join('\n')).to.deep.equal([]);
+    assertContractKept(created);
+  });
+
+  it('refuses a caller without the right before it reads their body (401 or 403, not a detailed 400)', async () => {
+    // fresh keys, so the per-minute quota the table above used up does not answer 429 here
+    keys.lookup = (await createPartnerKey(created, raiser.token, ['lookup'])).key;
+    keys.identify = (await createPartnerKey(created, raiser.token, ['identify'])).key;
+    const failures: string[] = [];
+    for (const row of rows()) {
+      const [method] = row.operation.split(' ') as [string, string];
+      for (const caller of CALLERS) {
+        const expected = row.expect[caller];
+        if (expected !== 401 && expected !== 403) continue;
+        const prepared = await row.prepare(caller);
+        if (!prepared.body && !prepared.attach) continue;
+        // a body no operation accepts: an unknown property and a wrong type
+        const res = await request(created.app)[method.toLowerCase() as 'post' | 'put' | 'patch'](prepared.url)
+          .set(headersFor(caller, row.scope))
+          .send({ notAField: true, reason: 42 });
+        if (res.status !== expected) failures.push(`${row.operation} as ${caller} with a bad body: expected ${expected}, got ${res.status} ${res.body?.detail ?? ''}`);
       }
     }
     expect(failures, failures.join('\n')).to.deep.equal([]);

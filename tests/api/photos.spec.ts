@@ -56,7 +56,7 @@ describe('api: taxon photos', () => {
     expect((served.body as Buffer).toString('latin1')).to.not.contain('TestCam');
     const page = await request(created.app).get('/api/v1/taxa/pinus-taeda').expect(200);
     expect(page.body.photos.map((p: { url: string }) => p.url)).to.include(res.body.url);
-    const stored = fs.readdirSync(created.context.config.uploadsDir);
+    const stored = fs.readdirSync(created.context.config.storage.uploadsDir);
     expect(stored).to.include(path.basename(res.body.url));
   });
 

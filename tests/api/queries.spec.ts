@@ -21,7 +21,7 @@ describe('api: queries on doubtful cells', () => {
   let coach: SignedInUser;
 
   const auth = (user: SignedInUser) => ({ Authorization: `Bearer ${user.token}` });
-  const mailFor = (address: string) => (created.context.people.mailer.captured ?? []).filter((m: Captured) => m.envelope.to.includes(address));
+  const mailFor = (address: string) => (created.context.mailer.captured ?? []).filter((m: Captured) => m.envelope.to.includes(address));
 
   before(async () => {
     created = await startTestApp();

@@ -4,7 +4,6 @@ import path from 'node:path';
 import { expect } from 'chai';
 import request from 'supertest';
 import type { CreatedApp } from '../../api/src/app';
-import { studyModels } from '../../api/src/study/study-models';
 import { DEMO_ACCOUNTS, DEMO_EVENT, DEMO_PASSWORD } from '../../api/src/db/seeders/0002-demo-scenario';
 import { DEMO_STUDY_SET } from '../../api/src/db/seeders/0003-demo-study-set';
 import { createSeeder } from '../../api/src/db/migrator';
@@ -44,8 +43,8 @@ describe('api: study sets', () => {
   let admin: SignedInUser;
 
   const auth = (user: SignedInUser | string) => ({ Authorization: `Bearer ${typeof user === 'string' ? user : user.token}` });
-  const setCount = () => studyModels(created.context.sequelize).StudySet.count();
-  const linkCount = () => studyModels(created.context.sequelize).StudySetTaxon.count();
+  const setCount = () => created.context.models.StudySet.count();
+  const linkCount = () => created.context.models.StudySetTaxon.count();
 
   async function make(by: SignedInUser, body: Record<string, unknown> = {}): Promise<StudySetBody> {
     const res = await request(created.app)
@@ -133,14 +132,14 @@ describe('api: study sets', () => {
       expect(changed).to.include({ name: set.name, event: 'Spring meet', notes: null, shared: true, createdAt: set.createdAt });
       expect(changed.taxa.map((t) => t.id)).to.deep.equal(['quercus-rubra', 'pinus-echinata', 'quercus-alba']);
       expect(Date.parse(changed.updatedAt)).to.be.at.least(Date.parse(set.updatedAt));
-      expect(await studyModels(created.context.sequelize).StudySetTaxon.count({ where: { studySetId: set.id } })).to.equal(3);
+      expect(await created.context.models.StudySetTaxon.count({ where: { studySetId: set.id } })).to.equal(3);
     });
 
     it('deletes a set with its species list', async () => {
       const set = await make(coach);
       await request(created.app).delete(`/api/v1/study-sets/${set.id}`).set(auth(coach)).expect(204);
       await request(created.app).get(`/api/v1/study-sets/${set.id}`).set(auth(coach)).expect(404);
-      expect(await studyModels(created.context.sequelize).StudySetTaxon.count({ where: { studySetId: set.id } })).to.equal(0);
+      expect(await created.context.models.StudySetTaxon.count({ where: { studySetId: set.id } })).to.equal(0);
       await request(created.app).delete(`/api/v1/study-sets/${set.id}`).set(auth(coach)).expect(404);
     });
   });
@@ -276,13 +275,13 @@ describe('api: study sets', () => {
       try {
         const older = await startTestApp(env);
         // undo the study set seeder, as if the database predated it
-        await createSeeder(older.context.sequelize, older.context.models).down({ to: '0003-demo-study-set' });
-        expect(await studyModels(older.context.sequelize).StudySet.count()).to.equal(0);
+        await createSeeder(older.context.sequelize, older.context.models, older.context.config).down({ to: '0003-demo-study-set' });
+        expect(await older.context.models.StudySet.count()).to.equal(0);
         await older.close();
 
         const upgraded = await startTestApp(env);
         try {
-          const sets = await studyModels(upgraded.context.sequelize).StudySet.findAll();
+          const sets = await upgraded.context.models.StudySet.findAll();
           expect(sets.map((s) => s.name)).to.deep.equal([DEMO_STUDY_SET.name]);
           expect(await upgraded.context.models.User.count(), 'the demo accounts are not seeded twice').to.equal(DEMO_ACCOUNTS.length);
         } finally {
@@ -296,7 +295,7 @@ describe('api: study sets', () => {
     it('is not added where the demo scenario is not seeded', async () => {
       const production = await startTestApp(PRODUCTION);
       try {
-        expect(await studyModels(production.context.sequelize).StudySet.count()).to.equal(0);
+        expect(await production.context.models.StudySet.count()).to.equal(0);
       } finally {
         await production.close();
       }

@@ -7,8 +7,7 @@
  * `wrong` carry one answer that contradicts the coding, as a hurried observer might give.
  */
 import { expect } from 'chai';
-import { compileMatrix, rank } from '@shared/engine';
-import type { Observation, ObservingSeason } from '@shared/engine/types';
+import { compileMatrix, rank, type Observation, type ObservingSeason } from '@shared/engine';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
 
 interface FieldCase {

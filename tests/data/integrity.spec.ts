@@ -5,10 +5,9 @@
 import { expect } from 'chai';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join, relative, sep } from 'node:path';
-import { validateMatrix } from '@shared/engine';
-import type { MatrixDocument, Taxon, Trait } from '@shared/engine/types';
+import { isDiscreteCell, isNumericCell, validateMatrix, type MatrixDocument, type Taxon, type Trait } from '@shared/engine';
 import { ILLUSTRATIONS_DIR, loadReferenceMatrix } from '../../seeds/load-matrix';
-import { DATA_TESTS_DIR, TAXA_DIR, isDiscreteCell, isNumericCell, loadGlossary, pairKey, separatingTraits, traitApplies, valuesOf } from './matrix-facts';
+import { DATA_TESTS_DIR, TAXA_DIR, loadGlossary, pairKey, separatingTraits, traitApplies, valuesOf } from './matrix-facts';
 
 const KEBAB = /^[a-z0-9]+(-[a-z0-9]+)*$/;
 
@@ -30,7 +29,20 @@ const PROJECT_TRAITS: Record<string, { part: string; season: string; appliesWhen
   'milky-sap': { part: 'twig', season: 'any', appliesWhen: { foliage: ['broad'] }, values: ['present', 'absent'] },
   'corky-wings': { part: 'twig', season: 'any', appliesWhen: { foliage: ['broad'] }, values: ['present', 'absent'] },
   'needle-attachment': { part: 'needle', season: 'any', appliesWhen: { foliage: ['needle'] }, values: ['sheathed-bundle', 'peg', 'suction-cup', 'short-stalk', 'spur-cluster', 'direct'] },
-  'flower-display': { part: 'flower', season: 'leaf-on', values: ['white', 'pink-purple', 'yellow', 'greenish', 'inconspicuous'] },
+  'flower-display': { part: 'flower', season: 'leaf-on', values: ['white', 'red', 'pink-purple', 'yellow', 'greenish', 'inconspicuous'] },
+};
+
+/**
+ * Values this matrix adds to core glossary traits (the glossary allows additions, never renames or
+ * drops). Each needs the same care as a core value: a definition, and a drawing if the trait is drawn.
+ */
+const CORE_ADDITIONS: Record<string, string[]> = {
+  // Tree-of-heaven leaflets: entire but for a few coarse glandular teeth at the base
+  // (USDA Agriculture Handbook 654, Silvics of North America vol. 2, Ailanthus altissima; from memory)
+  'leaf-margin': ['glandular-basal-teeth'],
+  // Deciduous trees that shed their leaves still green (mimosa, princess-tree, catalpa) are not
+  // "stays green" evergreens (Harlow, Harrar et al., Textbook of Dendrology; from memory)
+  'fall-color': ['drops-green'],
 };
 
 /** The taxon files this part of the matrix is responsible for: every trait is coded explicitly there. */
@@ -80,7 +92,11 @@ describe('reference matrix: glossary contract', () => {
       expect(trait.unit).to.equal(core.unit);
       expect(trait.appliesWhen).to.deep.equal(core.appliesWhen);
       if (core.values) {
-        expect((trait.values ?? []).map((value) => value.code), 'value codes').to.deep.equal(core.values.map((value) => value.code));
+        // The glossary's codes come first, verbatim and in order; after them only the values this
+        // matrix adds on purpose (listed in CORE_ADDITIONS), so a renamed or dropped code still fails.
+        const coreCodes = core.values.map((value) => value.code);
+        const added = (CORE_ADDITIONS[core.code] ?? []).filter((code) => !coreCodes.includes(code));
+        expect((trait.values ?? []).map((value) => value.code), 'value codes').to.deep.equal([...coreCodes, ...added]);
       }
     });
   }

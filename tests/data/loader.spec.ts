@@ -4,7 +4,7 @@
 import { expect } from 'chai';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { isAbsolute, join } from 'node:path';
-import type { Taxon } from '@shared/engine/types';
+import type { Taxon } from '@shared/engine';
 import { ILLUSTRATIONS_DIR, loadReferenceMatrix } from '../../seeds/load-matrix';
 import { REPO_DIR, TAXA_DIR } from './matrix-facts';
 

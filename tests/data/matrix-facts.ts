@@ -7,7 +7,7 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
-import type { Cell, DiscreteCell, NumericCell, PlantPart, Season, Taxon, Trait, TraitKind } from '@shared/engine/types';
+import { isDiscreteCell, isNumericCell, type DiscreteCell, type PlantPart, type Season, type Taxon, type Trait, type TraitKind } from '@shared/engine';
 
 export const DATA_TESTS_DIR = dirname(fileURLToPath(import.meta.url));
 export const REPO_DIR = resolve(DATA_TESTS_DIR, '..', '..');
@@ -39,14 +39,6 @@ export function loadGlossary(): { glossary: Glossary; path: string } {
   const beside = join(REPO_DIR, '..', 'shared', 'trait-glossary.json');
   const path = existsSync(beside) ? beside : join(DATA_TESTS_DIR, 'fixtures', 'trait-glossary.json');
   return { glossary: JSON.parse(readFileSync(path, 'utf8')) as Glossary, path };
-}
-
-export function isNumericCell(cell: Cell | undefined): cell is NumericCell {
-  return typeof cell === 'object' && cell !== null && 'min' in cell;
-}
-
-export function isDiscreteCell(cell: Cell | undefined): cell is DiscreteCell {
-  return typeof cell === 'object' && cell !== null && !('min' in cell);
 }
 
 /** Every value a discrete cell mentions, whatever its frequency. */

@@ -7,9 +7,9 @@
  * it; where two sources disagree both are listed and the coding must cover both.
  */
 import { expect } from 'chai';
-import type { MatrixDocument, Taxon } from '@shared/engine/types';
+import { isDiscreteCell, isNumericCell, type MatrixDocument, type Taxon } from '@shared/engine';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
-import { genusOf, isDiscreteCell, isNumericCell, valuesOf } from './matrix-facts';
+import { genusOf, valuesOf } from './matrix-facts';
 
 const doc: MatrixDocument = loadReferenceMatrix();
 const taxonById = new Map(doc.taxa.map((taxon) => [taxon.id, taxon]));
@@ -43,14 +43,17 @@ const DENDRO = 'Harlow, Harrar et al., Textbook of Dendrology (from memory)';
  */
 const PINES: Record<string, { needle: Published[]; cone: Published[]; usualCounts: number[]; otherCounts: number[]; countSource: string }> = {
   'pinus-taeda': {
-    // The two sources disagree on needle length: the coding has to cover 12–18 and 15–23 cm.
-    needle: [{ source: FNA2, low: 12, high: 18, min: 10, max: 22 }, { source: DENDRO, low: 15, high: 23 }],
-    cone: [{ source: FNA2, low: 6, high: 12 }, { source: DENDRO, low: 7.5, high: 15 }],
+    // The flora pools measurements over the whole range, so its shorter needles and cones overlap
+    // shortleaf pine; the dendrology text gives the figures foresters separate the two by. Its ranges
+    // are the typical ones and the flora's are read as the whole span (extremes only).
+    needle: [{ source: FNA2, low: 12, high: 18, min: 10, max: 22, span: true }, { source: DENDRO, low: 15, high: 23 }],
+    cone: [{ source: FNA2, low: 6, high: 12, span: true }, { source: DENDRO, low: 7.5, high: 15 }],
     // FNA vol. 2 gives "3(–2)" per fascicle; the dendrology text gives 3, rarely 2 (both from memory).
     usualCounts: [3], otherCounts: [2], countSource: `${FNA2}; ${DENDRO}`,
   },
   'pinus-echinata': {
-    needle: [{ source: FNA2, low: 7, high: 11, max: 13 }, { source: DENDRO, low: 7.5, high: 12.5 }],
+    // As for loblolly: the dendrology text's 7.5–12.5 cm is the typical range, the flora's (7–)11(–13) cm the span.
+    needle: [{ source: FNA2, low: 7, high: 11, max: 13, span: true }, { source: DENDRO, low: 7.5, high: 12.5 }],
     cone: [{ source: FNA2, low: 4, high: 6, max: 7 }],
     usualCounts: [2, 3], otherCounts: [], countSource: FNA2,
   },
@@ -81,7 +84,8 @@ const PINES: Record<string, { needle: Published[]; cone: Published[]; usualCount
   },
   'pinus-glabra': {
     needle: [{ source: FNA2, low: 4, high: 10 }, { source: DENDRO, low: 4, high: 7.5 }],
-    cone: [{ source: FNA2, low: 3.5, high: 7 }],
+    // The Virginia Tech Dendrology fact sheet (stored page) gives cones 1–2 in (2.5–5 cm), read as the span.
+    cone: [{ source: FNA2, low: 3.5, high: 7 }, { source: 'Virginia Tech Dendrology fact sheet, Pinus glabra', low: 2.5, high: 5, span: true }],
     usualCounts: [2], otherCounts: [], countSource: FNA2,
   },
   'pinus-pungens': {

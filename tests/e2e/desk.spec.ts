@@ -117,7 +117,7 @@ describe('e2e: the Matrix desk', function () {
     await dialog.getByRole('button', { name: 'Save to the draft' }).click();
     await dialog.waitFor({ state: 'detached' });
     expect((await cell.textContent())?.trim()).to.equal('10 (12–23) 26 cm');
-    expect(await cell.getAttribute('aria-label')).to.equal('typically 12–23 cm, extremes 10–26 cm');
+    expect(await cell.getAttribute('aria-label')).to.equal('typically 12–23 cm, recorded 10–26 cm');
 
     // publish from the editions page
     await page.getByRole('navigation', { name: 'Matrix desk' }).getByRole('link', { name: 'Editions' }).click();
@@ -157,7 +157,7 @@ describe('e2e: the Matrix desk', function () {
     await row.waitFor();
     const text = (await row.textContent()) ?? '';
     expect(text).to.contain('pinus-taeda').and.to.contain('needle-length').and.to.contain(demoAccount('curator').email);
-    expect(text).to.contain('extremes 10–26 cm');
+    expect(text).to.contain('recorded 10–26 cm');
     expect(await page.locator('tr[data-change]', { hasText: 'Longest loblolly needles from herbarium sheets' }).count()).to.equal(1);
     expect(pageErrors).to.deep.equal([]);
   });
@@ -184,8 +184,8 @@ describe('e2e: the Matrix desk', function () {
     await second.getByRole('dialog').getByRole('button', { name: 'Save to the draft' }).click();
     const stale = second.locator('[data-stale]');
     await stale.waitFor();
-    expect(await stale.locator('[data-cell="current"]').textContent()).to.equal('typically 7–11 cm, extremes 5–13 cm');
-    expect(await stale.locator('[data-cell="mine"]').textContent()).to.equal('typically 8–11 cm, extremes 6–12 cm');
+    expect(await stale.locator('[data-cell="current"]').textContent()).to.equal('typically 7–11 cm, recorded 5–13 cm');
+    expect(await stale.locator('[data-cell="mine"]').textContent()).to.equal('typically 8–11 cm, recorded 6–12 cm');
     // nothing typed is lost
     expect(await second.getByRole('dialog').getByLabel('Reason').inputValue()).to.equal('Shortleaf needles measured in the herbarium');
     expect(await second.getByRole('dialog').getByLabel('Largest').inputValue()).to.equal('12');

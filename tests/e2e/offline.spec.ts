@@ -47,8 +47,21 @@ describe('e2e: sifting offline', function () {
     // the next test goes on offline in this same context, with its service worker installed
     context = await running.suiteContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
+    const codings = new Map<string, string>();
+    // On the context, so the requests the service worker makes itself (it may fetch the bundle once it
+    // controls the page) count too; answers it served from its cache did not cross the network.
+    context.on('response', (response) => {
+      const url = new URL(response.url());
+      if (!response.fromServiceWorker() && (/\.(js|css)$/.test(url.pathname) || url.pathname.endsWith('/editions/current/bundle'))) {
+        const headers = response.headers();
+        if (headers['content-encoding'] || Number(headers['content-length']) >= 256) codings.set(url.pathname, headers['content-encoding'] ?? 'none');
+      }
+    });
     await page.goto(`${running.baseUrl}/sift`);
     await waitForSift(page);
+    // What came over the network came compressed: the scripts, the stylesheet and the edition bundle.
+    expect(codings.get('/api/v1/editions/current/bundle')).to.be.oneOf(['br', 'gzip']);
+    expect([...codings.values()].filter((coding) => coding === 'none'), JSON.stringify([...codings])).to.deep.equal([]);
     const href = await page.locator('link[rel="manifest"]').getAttribute('href');
     const manifest = (await (await page.request.get(new URL(href ?? '', running.baseUrl).href)).json()) as {
       name: string;

@@ -1,7 +1,6 @@
 import { expect } from 'chai';
 import fc from 'fast-check';
-import { buildKey, compare, compileMatrix, diagnose, health, keyToLines, type KeyNode, type MatrixDocument } from '@shared/engine';
-import { generateSyntheticMatrix } from '../../shared/engine/synthetic';
+import { buildKey, compare, compileMatrix, diagnose, generateSyntheticMatrix, health, keyToLines, type KeyNode, type MatrixDocument } from '@shared/engine';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
 import { southernTreesMatrix, taxon } from './fixtures';
 

@@ -1,15 +1,14 @@
 import { expect } from 'chai';
-import { compileMatrix, generateSyntheticMatrix, type Observation } from '@shared/engine';
+import { compileMatrix, formatNumber, generateSyntheticMatrix, inSentence, prepareObservations, rank, seededRandom, type Observation } from '@shared/engine';
 import { bandLabel, bandOf, bandProbabilities, niceBetween, weightedCuts } from '../../shared/engine/bands';
 import { countSpanOf, parseCount } from '../../shared/engine/count-span';
-import { prepareObservations } from '../../shared/engine/observations';
-import { addTen, addTenByPairs, exactProbability, logNormaliser, measureRegion, normalise, regionLikelihood, scoreObservations, type ScoreColumn } from '../../shared/engine/scoring';
-import { seededRandom } from '../../shared/engine/synthetic';
+import { addTen, addTenByPairs } from '../../shared/engine/kernels';
+import { measureRegion, regionLikelihood, type ScoreColumn } from '../../shared/engine/likelihood-columns';
+import { logNormaliser, normalise } from '../../shared/engine/normalise';
+import { exactProbability, scoreObservations } from '../../shared/engine/scoring';
 import { drawAnswer } from '../../scripts/lib/engine-sim';
 import { arithmeticMatrix } from './fixtures';
 import fc from 'fast-check';
-import { formatNumber, inSentence } from '../../shared/engine/texts';
-import { rank } from '../../shared/engine/rank';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
 import { ConflictCounts, paddedBytes, wordsOf } from '../../shared/engine/conflict-flags';
 

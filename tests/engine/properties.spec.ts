@@ -4,8 +4,7 @@
  */
 import { expect } from 'chai';
 import fc from 'fast-check';
-import { compileMatrix, decodeBundle, encodeBundle, generateSyntheticMatrix, rank, suggest, type CompiledMatrix, type Observation, type RankResult } from '@shared/engine';
-import { seededRandom } from '../../shared/engine/synthetic';
+import { compileMatrix, decodeBundle, encodeBundle, generateSyntheticMatrix, rank, seededRandom, suggest, type CompiledMatrix, type Observation, type RankResult } from '@shared/engine';
 import { drawAnswer } from '../../scripts/lib/engine-sim';
 
 const RUNS = 60;

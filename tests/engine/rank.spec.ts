@@ -1,9 +1,7 @@
 import { expect } from 'chai';
 import fc from 'fast-check';
-import { compileMatrix, generateSyntheticMatrix, ObservationError, rank, type Candidate, type MatrixDocument, type Observation, type RankResult } from '@shared/engine';
-import { prepareObservations } from '../../shared/engine/observations';
+import { compileMatrix, generateSyntheticMatrix, ObservationError, prepareObservations, rank, seededRandom, type Candidate, type MatrixDocument, type Observation, type RankResult } from '@shared/engine';
 import { exactProbability, scoreObservations } from '../../shared/engine/scoring';
-import { seededRandom } from '../../shared/engine/synthetic';
 import { drawAnswer } from '../../scripts/lib/engine-sim';
 import { arithmeticMatrix, southernTreesMatrix, taxon } from './fixtures';
 

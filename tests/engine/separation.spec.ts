@@ -4,8 +4,7 @@
  */
 import { expect } from 'chai';
 import fc from 'fast-check';
-import { compare, compileMatrix, diagnose, generateSyntheticMatrix, type Cell, type MatrixDocument, type Trait } from '@shared/engine';
-import type { ComparisonResult, TraitComparison } from '@shared/engine/types';
+import { compare, compileMatrix, diagnose, generateSyntheticMatrix, type Cell, type ComparisonResult, type MatrixDocument, type Trait, type TraitComparison } from '@shared/engine';
 import { relation, separatesCompletely } from '../../shared/engine/separation';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
 import { pairKey, separatingTraits } from '../data/matrix-facts';

@@ -114,3 +114,5 @@ export function defineAccountModels(sequelize: Sequelize) {
 
   return { User: UserRecord, Session: SessionRecord, OneTimeToken: OneTimeTokenRecord, SignInThrottle: SignInThrottleRecord };
 }
+
+export type AccountModels = ReturnType<typeof defineAccountModels>;

@@ -1,10 +1,12 @@
 import { Router, type ErrorRequestHandler, type RequestHandler } from 'express';
+import { FIELD_LIMITS } from '@shared/engine';
 import { currentUser, requireUser } from '../auth/guards';
 import { isRole } from '../auth/principal';
 import { problems } from '../http/problem';
-import { SignInLocked, type AccountService } from './account-service';
+import type { OneTimeLinkService } from './one-time-link-service';
+import { SignInLocked, type SessionService } from './session-service';
 import { accountView, sessionView } from './account-views';
-import { stringField } from './request-fields';
+import { stringField } from '../http/request-fields';
 
 const bearerToken = (header: string | undefined) => (header ?? '').replace(/^Bearer\s+/i, '').trim();
 
@@ -20,46 +22,47 @@ const retryAfterForLocks: ErrorRequestHandler = (error, _req, res, next) => {
 };
 
 /** Sign-up, sessions, the current account, password resets and invitations (mounted at /api/v1). */
-export function accountRoutes(accounts: AccountService, signInLimiter: RequestHandler): Router {
+export function accountRoutes(accounts: { sessions: SessionService; links: OneTimeLinkService }, signInLimiter: RequestHandler): Router {
+  const { sessions, links } = accounts;
   const router = Router();
   router.use(noStore);
 
   router.post('/accounts', async (req, res) => {
-    const account = await accounts.signUp({
+    const account = await sessions.signUp({
       email: stringField(req.body, 'email'),
       password: stringField(req.body, 'password'),
-      displayName: stringField(req.body, 'displayName', { max: 120 }),
+      displayName: stringField(req.body, 'displayName', { max: FIELD_LIMITS.displayName.max }),
     });
     res.status(201).location('/api/v1/me').json(accountView(account));
   });
 
   router.post('/sessions', signInLimiter, async (req, res) => {
-    const signedIn = await accounts.signIn({ email: stringField(req.body, 'email'), password: stringField(req.body, 'password') });
+    const signedIn = await sessions.signIn({ email: stringField(req.body, 'email'), password: stringField(req.body, 'password') });
     res.status(201).json(sessionView(signedIn));
   });
 
   router.delete('/sessions/current', requireUser(), async (req, res) => {
-    await accounts.signOut(bearerToken(req.headers.authorization));
+    await sessions.signOut(bearerToken(req.headers.authorization));
     res.status(204).end();
   });
 
   router.get('/me', requireUser(), async (req, res) => {
-    res.json(accountView(await accounts.me(currentUser(req.principal).userId)));
+    res.json(accountView(await sessions.me(currentUser(req.principal).userId)));
   });
 
   router.post('/password-resets', async (req, res) => {
-    await accounts.requestPasswordReset(stringField(req.body, 'email'));
+    await links.requestPasswordReset(stringField(req.body, 'email'));
     res.status(202).json({ message: 'If an account has this address, a reset link is on its way.' });
   });
 
   router.post('/password-resets/:token', async (req, res) => {
-    await accounts.resetPassword(String(req.params['token']), stringField(req.body, 'password'));
+    await links.resetPassword(String(req.params['token']), stringField(req.body, 'password'));
     res.status(204).end();
   });
 
   router.post('/invitations/:token', async (req, res) => {
-    const signedIn = await accounts.acceptInvitation(String(req.params['token']), {
-      displayName: stringField(req.body, 'displayName', { max: 120 }),
+    const signedIn = await links.acceptInvitation(String(req.params['token']), {
+      displayName: stringField(req.body, 'displayName', { max: FIELD_LIMITS.displayName.max }),
       password: stringField(req.body, 'password'),
     });
     res.status(201).json(sessionView(signedIn));
@@ -69,7 +72,7 @@ export function accountRoutes(accounts: AccountService, signInLimiter: RequestHa
     const role = stringField(req.body, 'role');
     if (!isRole(role)) throw problems.invalidInput('Unknown role.', [{ name: '/role', reason: 'not a role' }]);
     const admin = currentUser(req.principal);
-    const invitation = await accounts.invite({ email: stringField(req.body, 'email'), role, invitedBy: admin });
+    const invitation = await links.invite({ email: stringField(req.body, 'email'), role, invitedBy: admin });
     res.status(201).json({ email: invitation.email, role: invitation.role, expiresAt: invitation.expiresAt.toISOString() });
   });
 

@@ -1,5 +1,5 @@
 import { Op, type Transaction } from 'sequelize';
-import type { Models } from '../db/models';
+import type { AccountModels } from './account-models';
 import type { Role } from '../auth/principal';
 import type { OneTimePurpose } from './account-models';
 
@@ -51,18 +51,18 @@ const toAccount = (row: UserRow): Account => ({
 /** E-mail addresses are compared case-insensitively; they are stored trimmed and lower-cased. */
 export const normaliseEmail = (email: string) => email.trim().toLowerCase();
 
-export async function findAccountByEmail(models: Models, email: string): Promise<AccountWithHash | undefined> {
+export async function findAccountByEmail(models: AccountModels, email: string): Promise<AccountWithHash | undefined> {
   const row = await models.User.findOne({ where: { email: normaliseEmail(email) } });
   return row ? { ...toAccount(row), passwordHash: row.passwordHash } : undefined;
 }
 
-export async function findAccount(models: Models, id: number): Promise<Account | undefined> {
+export async function findAccount(models: AccountModels, id: number): Promise<Account | undefined> {
   const row = await models.User.findByPk(id);
   return row ? toAccount(row) : undefined;
 }
 
 export async function insertAccount(
-  models: Models,
+  models: AccountModels,
   account: { email: string; displayName: string; passwordHash: string; role: Role },
   transaction?: Transaction,
 ): Promise<Account> {
@@ -70,7 +70,7 @@ export async function insertAccount(
   return toAccount(row);
 }
 
-export async function listAccounts(models: Models, filter: { role?: Role; active?: boolean }): Promise<Account[]> {
+export async function listAccounts(models: AccountModels, filter: { role?: Role; active?: boolean }): Promise<Account[]> {
   const where: Record<string, unknown> = {};
   if (filter.role) where['role'] = filter.role;
   if (filter.active !== undefined) where['active'] = filter.active;
@@ -78,13 +78,13 @@ export async function listAccounts(models: Models, filter: { role?: Role; active
   return rows.map(toAccount);
 }
 
-export async function listActiveEmailsWithRoles(models: Models, roles: Role[]): Promise<string[]> {
+export async function listActiveEmailsWithRoles(models: AccountModels, roles: Role[]): Promise<string[]> {
   const rows = await models.User.findAll({ where: { role: { [Op.in]: roles }, active: true }, attributes: ['email'] });
   return rows.map((row) => row.email);
 }
 
 export async function updateAccount(
-  models: Models,
+  models: AccountModels,
   id: number,
   changes: Partial<{ role: Role; active: boolean; passwordHash: string; displayName: string; lastSignInAt: Date }>,
   transaction?: Transaction,
@@ -92,16 +92,16 @@ export async function updateAccount(
   await models.User.update(changes, { where: { id }, transaction });
 }
 
-export async function insertSession(models: Models, session: { userId: number; tokenHash: string; expiresAt: Date }): Promise<void> {
+export async function insertSession(models: AccountModels, session: { userId: number; tokenHash: string; expiresAt: Date }): Promise<void> {
   await models.Session.create({ ...session, revokedAt: null });
 }
 
-export async function revokeSession(models: Models, tokenHash: string, now: Date): Promise<void> {
+export async function revokeSession(models: AccountModels, tokenHash: string, now: Date): Promise<void> {
   await models.Session.update({ revokedAt: now }, { where: { tokenHash, revokedAt: null } });
 }
 
 /** Ends every live session of one user (password changed, account deactivated). */
-export async function revokeSessionsOf(models: Models, userId: number, now: Date, transaction?: Transaction): Promise<void> {
+export async function revokeSessionsOf(models: AccountModels, userId: number, now: Date, transaction?: Transaction): Promise<void> {
   await models.Session.update({ revokedAt: now }, { where: { userId, revokedAt: null }, transaction });
 }
 
@@ -110,34 +110,34 @@ export interface Throttle {
   lockedUntil: Date | null;
 }
 
-export async function readThrottle(models: Models, email: string): Promise<Throttle> {
+export async function readThrottle(models: AccountModels, email: string): Promise<Throttle> {
   const row = await models.SignInThrottle.findByPk(normaliseEmail(email));
   return row ? { failures: row.failures, lockedUntil: row.lockedUntil } : { failures: 0, lockedUntil: null };
 }
 
-export async function writeThrottle(models: Models, email: string, throttle: Throttle): Promise<void> {
+export async function writeThrottle(models: AccountModels, email: string, throttle: Throttle): Promise<void> {
   await models.SignInThrottle.upsert({ email: normaliseEmail(email), failures: throttle.failures, lockedUntil: throttle.lockedUntil });
 }
 
-export async function clearThrottle(models: Models, email: string): Promise<void> {
+export async function clearThrottle(models: AccountModels, email: string): Promise<void> {
   await models.SignInThrottle.destroy({ where: { email: normaliseEmail(email) } });
 }
 
 export async function insertOneTimeLink(
-  models: Models,
+  models: AccountModels,
   link: { purpose: OneTimePurpose; tokenHash: string; email: string; userId: number | null; role: Role | null; createdBy: number | null; expiresAt: Date },
 ): Promise<void> {
   await models.OneTimeToken.create({ ...link, email: normaliseEmail(link.email), usedAt: null });
 }
 
-export async function findOneTimeLink(models: Models, purpose: OneTimePurpose, tokenHash: string): Promise<OneTimeLink | undefined> {
+export async function findOneTimeLink(models: AccountModels, purpose: OneTimePurpose, tokenHash: string): Promise<OneTimeLink | undefined> {
   const row = await models.OneTimeToken.findOne({ where: { purpose, tokenHash } });
   if (!row) return undefined;
   return { id: row.id, purpose: row.purpose, email: row.email, userId: row.userId, role: row.role, expiresAt: row.expiresAt, usedAt: row.usedAt };
 }
 
 /** Marks a link used; false when another request used it first (so a link works exactly once). */
-export async function consumeOneTimeLink(models: Models, id: number, now: Date, transaction: Transaction): Promise<boolean> {
+export async function consumeOneTimeLink(models: AccountModels, id: number, now: Date, transaction: Transaction): Promise<boolean> {
   const [changed] = await models.OneTimeToken.update({ usedAt: now }, { where: { id, usedAt: null, expiresAt: { [Op.gt]: now } }, transaction });
   return changed === 1;
 }

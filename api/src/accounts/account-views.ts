@@ -1,5 +1,5 @@
 import type { Account } from './account-store';
-import type { SignedIn } from './account-service';
+import type { SignedIn } from './session-service';
 
 export interface AccountView {
   id: number;

@@ -21,6 +21,13 @@ export function backupRoutes(backups: BackupService): Router {
     res.json({ backups: (await backups.list()).map(backupView) });
   });
 
+  router.get('/:name', async (req, res) => {
+    const name = String(req.params['name']);
+    const file = await backups.fileFor(name);
+    // attachment() sets a type from the extension, so the SQLite type (IANA application/vnd.sqlite3) goes after it
+    res.attachment(name).type('application/vnd.sqlite3').sendFile(file);
+  });
+
   router.post('/:name/restore', async (req, res) => {
     await backups.restore(String(req.params['name']));
     res.status(204).end();

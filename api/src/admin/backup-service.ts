@@ -4,7 +4,7 @@ import { randomBytes } from 'node:crypto';
 import type { Sequelize } from 'sequelize';
 import { HttpProblem, problems } from '../http/problem';
 import { migrations } from '../db/migrations';
-import { isPostgres, postgresBackupCommands } from '../db/dialect';
+import { isPostgres, postgresBackupCommands } from '../sql/dialect';
 
 export interface Backup {
   name: string;
@@ -126,6 +126,15 @@ export function backupService(sequelize: Sequelize, backupDir: string, afterRest
           }),
       );
       return backups.sort((a, b) => b.name.localeCompare(a.name));
+    },
+
+    /** The file of one backup, for downloading it. */
+    async fileFor(name: string): Promise<string> {
+      requireSqlite();
+      const file = fileOf(name);
+      const found = await fs.stat(file).catch(() => undefined);
+      if (!found?.isFile()) throw problems.notFound(`There is no backup ${name}.`);
+      return file;
     },
 
     /**

@@ -3,7 +3,7 @@ import { currentUser, requireUser } from '../auth/guards';
 import { isRole, type Role } from '../auth/principal';
 import { problems } from '../http/problem';
 import { accountView } from '../accounts/account-views';
-import { idParam } from '../accounts/request-fields';
+import { idParam } from '../http/request-fields';
 import type { UserAdminService } from './user-admin-service';
 
 function changesFrom(body: unknown): { role?: Role; active?: boolean } {

@@ -1,11 +1,12 @@
 import type { Sequelize } from 'sequelize';
-import type { Models } from '../db/models';
+import type { AccountModels } from '../accounts/account-models';
+import type { KeyModels } from '../keys/key-models';
 import type { Role } from '../auth/principal';
 import { problems } from '../http/problem';
 import { findAccount, listAccounts, revokeSessionsOf, updateAccount, type Account } from '../accounts/account-store';
 import { revokeKeysOf } from '../keys/key-store';
 
-export function userAdminService(sequelize: Sequelize, models: Models) {
+export function userAdminService(sequelize: Sequelize, models: AccountModels & KeyModels) {
   return {
     list(filter: { role?: Role; active?: boolean }): Promise<Account[]> {
       return listAccounts(models, filter);

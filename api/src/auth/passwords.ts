@@ -1,5 +1,15 @@
 import { randomBytes, scrypt, timingSafeEqual, type ScryptOptions } from 'node:crypto';
-import type { ScryptParams } from '../accounts/people-config';
+import { FIELD_LIMITS } from '@shared/engine';
+
+/** scrypt parameters for new password hashes; old hashes keep the parameters stored beside them */
+export interface ScryptParams {
+  /** CPU/memory cost N, a power of two */
+  N: number;
+  /** block size r */
+  r: number;
+  /** parallelisation p */
+  p: number;
+}
 
 const KEY_LENGTH = 32;
 const SALT_BYTES = 16;
@@ -33,7 +43,7 @@ export async function verifyPassword(password: string, stored: string): Promise<
 
 /** Password rules: long enough to resist guessing, not absurdly long (scrypt reads all of it). */
 export function passwordProblem(password: string): string | undefined {
-  if (password.length < 10) return 'must be at least 10 characters';
-  if (password.length > 200) return 'must be at most 200 characters';
+  if (password.length < FIELD_LIMITS.password.min) return `must be at least ${FIELD_LIMITS.password.min} characters`;
+  if (password.length > FIELD_LIMITS.password.max) return `must be at most ${FIELD_LIMITS.password.max} characters`;
   return undefined;
 }

@@ -1,8 +1,8 @@
-import { compare, type Cell, type ComparisonVerdict, type SeparationStrength, type TraitComparison } from '@shared/engine';
+import { cellInWords, compare, type Cell, type ComparisonVerdict, type SeparationStrength, type TraitComparison } from '@shared/engine';
 import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog';
 import { problems, type InvalidParam } from '../http/problem';
-import { cellInWords } from '../taxa/cell-words';
 import { taxonReference } from '../taxa/taxon-views';
+import { closeTaxa, didYouMean } from '../taxa/taxon-search';
 
 export interface CompareRequest {
   taxa: string[];
@@ -43,7 +43,10 @@ function assertComparable(edition: LoadedEdition, ids: readonly string[]): void 
   ids.forEach((id, index) => {
     const earlier = seenAt.get(id);
     if (earlier !== undefined) invalid.push({ name: `/body/taxa/${index}`, reason: `"${id}" is already item ${earlier}; name each taxon once.` });
-    else if (!edition.taxaById.has(id)) invalid.push({ name: `/body/taxa/${index}`, reason: `There is no taxon "${id}" in edition ${edition.number}.` });
+    else if (!edition.taxaById.has(id)) {
+      const close = closeTaxa(edition.document.taxa, id);
+      invalid.push({ name: `/body/taxa/${index}`, reason: `There is no taxon "${id}" in edition ${edition.number}.${didYouMean(close)}`, suggestions: close.map(taxonReference) });
+    }
     seenAt.set(id, earlier ?? index);
   });
   if (ids.length < COMPARE_LIMITS.fewest || ids.length > COMPARE_LIMITS.most) {
@@ -53,7 +56,7 @@ function assertComparable(edition: LoadedEdition, ids: readonly string[]): void 
 }
 
 /** Side by side: the traits that tell the taxa apart, those that overlap, and those they share. */
-export async function compareTaxa(editions: EditionCatalog, request: CompareRequest): Promise<Comparison> {
+async function compareTaxa(editions: EditionCatalog, request: CompareRequest): Promise<Comparison> {
   const edition = await editions.current();
   assertComparable(edition, request.taxa);
   const result = compare(edition.compiled, request.taxa);
@@ -83,3 +86,12 @@ export async function compareTaxa(editions: EditionCatalog, request: CompareRequ
     notCoded: result.notCoded.map(describe),
   };
 }
+
+/** Side by side in the current edition. */
+export function compareService(editions: EditionCatalog) {
+  return {
+    compare: compareTaxa.bind(null, editions),
+  };
+}
+
+export type CompareService = ReturnType<typeof compareService>;

@@ -1,16 +1,17 @@
 import type { Sequelize } from 'sequelize';
 import type { Cell } from '@shared/engine';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionModels } from '../editions/edition-models';
 import { problems } from '../http/problem';
-import { recordAudit, type Actor } from './audit-store';
+import { recordAudit, type Actor } from '../matrix/audit-store';
 import { changeKeepingMatrixValid } from './matrix-guard';
-import { cellInvalid } from './matrix-problems';
-import { writeTransaction } from './write-transaction';
+import { cellInvalid } from '../matrix/matrix-problems';
+import { writeTransaction } from '../matrix/write-transaction';
 import { readCell, writeCellIfVersion, type CellState } from './working-matrix-store';
 
 export interface CurationDeps {
   sequelize: Sequelize;
-  models: Models;
+  models: MatrixModels & EditionModels;
 }
 
 export interface CellChange {
@@ -20,14 +21,14 @@ export interface CellChange {
   reason: string;
 }
 
-async function assertCellExists(models: Models, taxonId: string, traitCode: string): Promise<void> {
+async function assertCellExists(models: MatrixModels & EditionModels, taxonId: string, traitCode: string): Promise<void> {
   const [taxon, trait] = await Promise.all([models.Taxon.findByPk(taxonId), models.Trait.findByPk(traitCode)]);
   if (!taxon || taxon.retired) throw problems.notFound(`There is no taxon "${taxonId}" in the working matrix.`);
   if (!trait || trait.retired) throw problems.notFound(`There is no trait "${traitCode}" in the working matrix.`);
 }
 
 /** One cell of the working matrix with its version, for editing. */
-export async function getCell(deps: CurationDeps, taxonId: string, traitCode: string): Promise<CellState> {
+async function getCell(deps: CurationDeps, taxonId: string, traitCode: string): Promise<CellState> {
   await assertCellExists(deps.models, taxonId, traitCode);
   return readCell(deps.models, taxonId, traitCode);
 }
@@ -36,7 +37,7 @@ export async function getCell(deps: CurationDeps, taxonId: string, traitCode: st
  * Sets one cell. The curator names the version they read; if someone else saved in between, nothing
  * is written and the answer is 409 with the cell as it is now. The new value must fit the trait.
  */
-export async function setCell(deps: CurationDeps, actor: Actor, taxonId: string, traitCode: string, change: CellChange): Promise<CellState> {
+async function setCell(deps: CurationDeps, actor: Actor, taxonId: string, traitCode: string, change: CellChange): Promise<CellState> {
   await assertCellExists(deps.models, taxonId, traitCode);
   return writeTransaction(deps.sequelize, async (transaction) => {
     const before = await readCell(deps.models, taxonId, traitCode, transaction);
@@ -64,3 +65,13 @@ export async function setCell(deps: CurationDeps, actor: Actor, taxonId: string,
     return { taxonId, traitCode, value: change.value, version };
   });
 }
+
+/** Cells of the working matrix, read and written with optimistic locking. */
+export function cellService(deps: CurationDeps) {
+  return {
+    get: getCell.bind(null, deps),
+    set: setCell.bind(null, deps),
+  };
+}
+
+export type CellService = ReturnType<typeof cellService>;

@@ -2,11 +2,12 @@ import { Router } from 'express';
 import { requireUser } from '../auth/guards';
 import type { EditionCatalog } from '../editions/edition-catalog';
 import { cachePolicy } from '../http/caching';
-import { actorOf } from './actor';
-import { listAudit, type AuditEntity } from './audit-store';
-import { getCell, setCell, type CellChange, type CurationDeps } from './cell-service';
-import { readWorkingMatrixView, summariseDraft } from './draft-service';
-import { createTaxon, createTrait, createValue, updateTaxon, updateTrait, updateValue } from './entity-service';
+import { actorOf } from '../matrix/actor';
+import { listAudit, type AuditEntity } from '../matrix/audit-store';
+import { cellService, type CellChange, type CurationDeps } from './cell-service';
+import { draftService } from './draft-service';
+import { entityService, type EntityService } from './entity-service';
+import { curatedTaxonView, curatedTraitView, curatedValueView } from './curation-views';
 
 type Body = Record<string, unknown> & { reason: string };
 
@@ -17,17 +18,20 @@ function withoutReason(body: Body): Record<string, unknown> {
 
 /** The Matrix desk: curators edit the working matrix; every change lands in the audit log. */
 export function curationRoutes(deps: CurationDeps & { editions: EditionCatalog }): Router {
+  const cells = cellService(deps);
+  const entities = entityService(deps);
+  const draft = draftService(deps);
   const router = Router();
   router.use(requireUser('curator'));
 
   router.get('/cells/:taxonId/:traitCode', async (req, res) => {
-    const cell = await getCell(deps, req.params['taxonId'] as string, req.params['traitCode'] as string);
+    const cell = await cells.get(req.params['taxonId'] as string, req.params['traitCode'] as string);
     cachePolicy.privateRevalidate(res);
     res.json(cell);
   });
 
   router.put('/cells/:taxonId/:traitCode', async (req, res) => {
-    const cell = await setCell(deps, actorOf(req.principal), req.params['taxonId'] as string, req.params['traitCode'] as string, req.body as CellChange);
+    const cell = await cells.set(actorOf(req.principal), req.params['taxonId'] as string, req.params['traitCode'] as string, req.body as CellChange);
     cachePolicy.noStore(res);
     res.json(cell);
   });
@@ -35,37 +39,37 @@ export function curationRoutes(deps: CurationDeps & { editions: EditionCatalog }
   router.post('/taxa', async (req, res) => {
     const body = req.body as Body & { id: string };
     const { id: _id, ...fields } = withoutReason(body);
-    const taxon = await createTaxon(deps, actorOf(req.principal), body.id, fields as Parameters<typeof createTaxon>[3], body.reason);
-    res.status(201).location(`/api/v1/curation/taxa/${body.id}`).json(taxon);
+    const taxon = await entities.createTaxon(actorOf(req.principal), body.id, fields as Parameters<EntityService['createTaxon']>[2], body.reason);
+    res.status(201).location(`/api/v1/curation/taxa/${body.id}`).json(curatedTaxonView(taxon));
   });
 
   router.patch('/taxa/:id', async (req, res) => {
     const body = req.body as Body;
-    res.json(await updateTaxon(deps, actorOf(req.principal), req.params['id'] as string, withoutReason(body), body.reason));
+    res.json(curatedTaxonView(await entities.updateTaxon(actorOf(req.principal), req.params['id'] as string, withoutReason(body), body.reason)));
   });
 
   router.post('/traits', async (req, res) => {
-    const body = req.body as Body & { code: string; values?: Parameters<typeof createTrait>[4] };
+    const body = req.body as Body & { code: string; values?: Parameters<EntityService['createTrait']>[3] };
     const { code: _code, values: _values, ...fields } = withoutReason(body);
-    const trait = await createTrait(deps, actorOf(req.principal), body.code, fields as Parameters<typeof createTrait>[3], body.values ?? [], body.reason);
-    res.status(201).json(trait);
+    const trait = await entities.createTrait(actorOf(req.principal), body.code, fields as Parameters<EntityService['createTrait']>[2], body.values ?? [], body.reason);
+    res.status(201).json(curatedTraitView(trait, trait.values));
   });
 
   router.patch('/traits/:code', async (req, res) => {
     const body = req.body as Body;
-    res.json(await updateTrait(deps, actorOf(req.principal), req.params['code'] as string, withoutReason(body), body.reason));
+    res.json(curatedTraitView(await entities.updateTrait(actorOf(req.principal), req.params['code'] as string, withoutReason(body), body.reason)));
   });
 
   router.post('/traits/:code/values', async (req, res) => {
     const body = req.body as Body & { code: string };
     const { code: _code, ...fields } = withoutReason(body);
-    const value = await createValue(deps, actorOf(req.principal), req.params['code'] as string, body.code, fields as Parameters<typeof createValue>[4], body.reason);
-    res.status(201).json(value);
+    const value = await entities.createValue(actorOf(req.principal), req.params['code'] as string, body.code, fields as Parameters<EntityService['createValue']>[3], body.reason);
+    res.status(201).json(curatedValueView(req.params['code'] as string, value));
   });
 
   router.patch('/traits/:code/values/:value', async (req, res) => {
     const body = req.body as Body;
-    res.json(await updateValue(deps, actorOf(req.principal), req.params['code'] as string, req.params['value'] as string, withoutReason(body), body.reason));
+    res.json(curatedValueView(req.params['code'] as string, await entities.updateValue(actorOf(req.principal), req.params['code'] as string, req.params['value'] as string, withoutReason(body), body.reason)));
   });
 
   router.get('/audit', async (req, res) => {
@@ -83,13 +87,13 @@ export function curationRoutes(deps: CurationDeps & { editions: EditionCatalog }
   });
 
   router.get('/matrix', async (req, res) => {
-    const matrix = await readWorkingMatrixView(deps.models, req.query['format'] === 'packed' ? 'packed' : 'full');
+    const matrix = await draft.workingMatrix(req.query['format'] === 'packed' ? 'packed' : 'full');
     cachePolicy.privateRevalidate(res);
     res.json(matrix);
   });
 
   router.get('/draft/summary', async (_req, res) => {
-    const summary = await summariseDraft(deps.models, deps.editions);
+    const summary = await draft.summarise();
     cachePolicy.privateRevalidate(res);
     res.json(summary);
   });

@@ -1,10 +1,16 @@
 import type { Cell, MatrixProblem, Trait } from '@shared/engine';
-import type { EditionSummary, Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionSummary, EditionModels } from '../editions/edition-models';
 import type { EditionCatalog } from '../editions/edition-catalog';
-import { summariseChanges } from '../editions/edition-service';
-import { readWorkingMatrix } from '../taxa/matrix-store';
-import { curatedProblems, invalidCells } from './matrix-problems';
+import { summariseChanges } from '../editions/edition-snapshot';
+import { readWorkingMatrix } from '../matrix/matrix-store';
+import { curatedProblems, invalidCells } from '../matrix/matrix-problems';
 import { readCellVersions } from './working-matrix-store';
+
+export interface DraftDeps {
+  models: MatrixModels & EditionModels;
+  editions: EditionCatalog;
+}
 
 export interface DraftSummary {
   /** the edition the draft is compared with (the current one), or null before the first */
@@ -19,7 +25,7 @@ export interface DraftSummary {
 }
 
 /** What publishing now would change, and whether the draft can be published. */
-export async function summariseDraft(models: Models, editions: EditionCatalog): Promise<DraftSummary> {
+async function summariseDraft({ models, editions }: DraftDeps): Promise<DraftSummary> {
   const draft = await readWorkingMatrix(models, { title: 'draft' });
   const current = (await models.Edition.count()) > 0 ? await editions.current() : undefined;
   const summary = summariseChanges(current?.document, draft);
@@ -48,7 +54,7 @@ export interface PackedWorkingMatrixView {
   taxa: Array<{ id: string; scientificName: string; family: string; commonNames: string[]; packed: string; versions: number[] }>;
 }
 
-export async function readWorkingMatrixView(models: Models, format: 'full' | 'packed' = 'full'): Promise<WorkingMatrixView | PackedWorkingMatrixView> {
+async function readWorkingMatrixView({ models }: DraftDeps, format: 'full' | 'packed' = 'full'): Promise<WorkingMatrixView | PackedWorkingMatrixView> {
   const document = await readWorkingMatrix(models, { title: 'working matrix' });
   const versions = await readCellVersions(models);
   const latest = await models.Edition.max<number | null, InstanceType<typeof models.Edition>>('number');
@@ -75,3 +81,13 @@ export async function readWorkingMatrixView(models: Models, format: 'full' | 'pa
     })),
   };
 }
+
+/** The draft: the working matrix compared with the current edition, and the working matrix for the grid. */
+export function draftService(deps: DraftDeps) {
+  return {
+    summarise: summariseDraft.bind(null, deps),
+    workingMatrix: readWorkingMatrixView.bind(null, deps),
+  };
+}
+
+export type DraftService = ReturnType<typeof draftService>;

@@ -1,10 +1,10 @@
 import { UniqueConstraintError } from 'sequelize';
 import type { PlantPart, Season, TraitKind } from '@shared/engine';
 import { problems } from '../http/problem';
-import { recordAudit, type Actor } from './audit-store';
+import { recordAudit, type Actor } from '../matrix/audit-store';
 import type { CurationDeps } from './cell-service';
 import { changeKeepingMatrixValid } from './matrix-guard';
-import { writeTransaction } from './write-transaction';
+import { writeTransaction } from '../matrix/write-transaction';
 
 export interface TaxonFields {
   scientificName: string;
@@ -57,7 +57,7 @@ function taken(what: string): never {
 }
 
 /** Adds a taxon to the working matrix (its cells start unknown). */
-export async function createTaxon(deps: CurationDeps, actor: Actor, id: string, fields: Partial<TaxonFields> & Pick<TaxonFields, 'scientificName' | 'authority' | 'family' | 'commonNames'>, reason: string) {
+async function createTaxon(deps: CurationDeps, actor: Actor, id: string, fields: Partial<TaxonFields> & Pick<TaxonFields, 'scientificName' | 'authority' | 'family' | 'commonNames'>, reason: string) {
   return writeTransaction(deps.sequelize, async (transaction) => {
       const created = await changeKeepingMatrixValid(deps.models, transaction, `The taxon "${id}"`, () =>
         deps.models.Taxon.create({ id, ...pick(fields, TAXON_KEYS) }, { transaction }),
@@ -70,7 +70,7 @@ export async function createTaxon(deps: CurationDeps, actor: Actor, id: string, 
 }
 
 /** Changes a taxon's descriptive fields, or retires it (`retired: true`) so the next edition leaves it out. */
-export async function updateTaxon(deps: CurationDeps, actor: Actor, id: string, fields: Partial<TaxonFields>, reason: string) {
+async function updateTaxon(deps: CurationDeps, actor: Actor, id: string, fields: Partial<TaxonFields>, reason: string) {
   return writeTransaction(deps.sequelize, async (transaction) => {
       const taxon = await deps.models.Taxon.findByPk(id, { transaction });
       if (!taxon) throw problems.notFound(`There is no taxon "${id}" in the working matrix.`);
@@ -85,7 +85,7 @@ export async function updateTaxon(deps: CurationDeps, actor: Actor, id: string, 
 }
 
 /** Adds a trait (with its values) to the working matrix. */
-export async function createTrait(
+async function createTrait(
   deps: CurationDeps,
   actor: Actor,
   code: string,
@@ -110,7 +110,7 @@ export async function createTrait(
 }
 
 /** Changes a trait's definition, or retires it. Its kind cannot change: its cells were coded for that kind. */
-export async function updateTrait(deps: CurationDeps, actor: Actor, code: string, fields: Partial<Omit<TraitFields, 'kind'>>, reason: string) {
+async function updateTrait(deps: CurationDeps, actor: Actor, code: string, fields: Partial<Omit<TraitFields, 'kind'>>, reason: string) {
   return writeTransaction(deps.sequelize, async (transaction) => {
     const trait = await deps.models.Trait.findByPk(code, { transaction });
     if (!trait) throw problems.notFound(`There is no trait "${code}" in the working matrix.`);
@@ -124,7 +124,7 @@ export async function updateTrait(deps: CurationDeps, actor: Actor, code: string
 }
 
 /** Adds a value to a state trait. */
-export async function createValue(deps: CurationDeps, actor: Actor, traitCode: string, code: string, fields: Partial<ValueFields> & Pick<ValueFields, 'label'>, reason: string) {
+async function createValue(deps: CurationDeps, actor: Actor, traitCode: string, code: string, fields: Partial<ValueFields> & Pick<ValueFields, 'label'>, reason: string) {
   return writeTransaction(deps.sequelize, async (transaction) => {
       const trait = await deps.models.Trait.findByPk(traitCode, { transaction });
       if (!trait) throw problems.notFound(`There is no trait "${traitCode}" in the working matrix.`);
@@ -140,7 +140,7 @@ export async function createValue(deps: CurationDeps, actor: Actor, traitCode: s
 }
 
 /** Changes a value's label, definition, drawing or synonyms, or retires it (refused while cells still use it). */
-export async function updateValue(deps: CurationDeps, actor: Actor, traitCode: string, code: string, fields: Partial<ValueFields>, reason: string) {
+async function updateValue(deps: CurationDeps, actor: Actor, traitCode: string, code: string, fields: Partial<ValueFields>, reason: string) {
   return writeTransaction(deps.sequelize, async (transaction) => {
     const value = await deps.models.TraitValue.findOne({ where: { traitCode, code }, transaction });
     if (!value) throw problems.notFound(`There is no value "${traitCode}/${code}" in the working matrix.`);
@@ -152,3 +152,17 @@ export async function updateValue(deps: CurationDeps, actor: Actor, traitCode: s
     return after;
   });
 }
+
+/** Taxa, traits and values of the working matrix; every change keeps the matrix valid and is audited. */
+export function entityService(deps: CurationDeps) {
+  return {
+    createTaxon: createTaxon.bind(null, deps),
+    updateTaxon: updateTaxon.bind(null, deps),
+    createTrait: createTrait.bind(null, deps),
+    updateTrait: updateTrait.bind(null, deps),
+    createValue: createValue.bind(null, deps),
+    updateValue: updateValue.bind(null, deps),
+  };
+}
+
+export type EntityService = ReturnType<typeof entityService>;

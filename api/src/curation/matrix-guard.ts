@@ -1,16 +1,17 @@
 import type { Transaction } from 'sequelize';
 import type { MatrixProblem } from '@shared/engine';
 import type { HttpProblem } from '../http/problem';
-import type { Models } from '../db/models';
-import { readWorkingMatrix } from '../taxa/matrix-store';
-import { matrixErrors, matrixInvalid } from './matrix-problems';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionModels } from '../editions/edition-models';
+import { readWorkingMatrix } from '../matrix/matrix-store';
+import { matrixErrors, matrixInvalid } from '../matrix/matrix-problems';
 
 function keyOf(problem: MatrixProblem): string {
   return `${problem.code}|${problem.path}|${problem.message}`;
 }
 
 /** The working matrix's errors right now (inside the transaction, so it sees uncommitted changes). */
-async function currentErrors(models: Models, transaction: Transaction): Promise<MatrixProblem[]> {
+async function currentErrors(models: MatrixModels & EditionModels, transaction: Transaction): Promise<MatrixProblem[]> {
   return matrixErrors(await readWorkingMatrix(models, { title: 'working matrix' }, transaction));
 }
 
@@ -20,7 +21,7 @@ async function currentErrors(models: Models, transaction: Transaction): Promise<
  * transaction rolls back, so nothing is written. `refusal` shapes that problem (a cell write names its fields).
  */
 export async function changeKeepingMatrixValid<T>(
-  models: Models,
+  models: MatrixModels & EditionModels,
   transaction: Transaction,
   what: string,
   change: () => Promise<T>,

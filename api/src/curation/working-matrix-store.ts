@@ -1,6 +1,7 @@
 import { QueryTypes, type Sequelize, type Transaction } from 'sequelize';
 import type { Cell } from '@shared/engine';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionModels } from '../editions/edition-models';
 
 export interface CellState {
   taxonId: string;
@@ -10,7 +11,7 @@ export interface CellState {
   version: number;
 }
 
-export async function readCell(models: Models, taxonId: string, traitCode: string, transaction?: Transaction): Promise<CellState> {
+export async function readCell(models: MatrixModels & EditionModels, taxonId: string, traitCode: string, transaction?: Transaction): Promise<CellState> {
   const row = await models.Cell.findOne({ where: { taxonId, traitCode }, transaction });
   return row ? { taxonId, traitCode, value: row.value, version: row.version } : { taxonId, traitCode, value: 'unknown', version: 0 };
 }
@@ -22,7 +23,7 @@ export async function readCell(models: Models, taxonId: string, traitCode: strin
  */
 export async function writeCellIfVersion(
   sequelize: Sequelize,
-  models: Models,
+  models: MatrixModels & EditionModels,
   cell: { taxonId: string; traitCode: string; value: Cell },
   expectedVersion: number,
   transaction: Transaction,
@@ -48,7 +49,7 @@ export async function writeCellIfVersion(
 }
 
 /** The version of every written cell, by taxon and trait. */
-export async function readCellVersions(models: Models): Promise<Map<string, Record<string, number>>> {
+export async function readCellVersions(models: MatrixModels): Promise<Map<string, Record<string, number>>> {
   const rows = await models.Cell.findAll({ attributes: ['taxonId', 'traitCode', 'version'], raw: true });
   const versions = new Map<string, Record<string, number>>();
   for (const row of rows) {

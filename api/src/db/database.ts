@@ -61,12 +61,3 @@ export async function openDatabase(databaseUrl: string, logger?: Logger): Promis
   return sequelize;
 }
 
-/** True when the database answers a trivial query. */
-export async function isDatabaseReachable(sequelize: Sequelize): Promise<boolean> {
-  try {
-    await sequelize.query('SELECT 1');
-    return true;
-  } catch {
-    return false;
-  }
-}

@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto';
 import { compileMatrix, encodeBundle, type CompiledMatrix, type MatrixDocument, type Taxon, type Trait } from '@shared/engine';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionModels } from './edition-models';
 import { problems } from '../http/problem';
 import { findEditionWithDocument, latestEditionNumber, type EditionWithDocument } from './edition-store';
 
@@ -61,7 +62,7 @@ export class EditionCatalog {
   #currentNumber?: number;
   #loaded = new Map<number, Promise<LoadedEdition | undefined>>();
 
-  constructor(private readonly models: Models) {}
+  constructor(private readonly models: MatrixModels & EditionModels) {}
 
   /** The newest published edition; a 503 problem when nothing has been published yet. */
   async current(): Promise<LoadedEdition> {

@@ -1,75 +1,63 @@
-import type { Sequelize, Transaction } from 'sequelize';
-import type { MatrixDocument } from '@shared/engine/types';
-import type { EditionSummary, Models } from '../db/models';
-import { readWorkingMatrix } from '../taxa/matrix-store';
-import { writeTransaction } from '../curation/write-transaction';
+import type { Sequelize } from 'sequelize';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionModels } from './edition-models';
+import { recordAudit, type Actor } from '../matrix/audit-store';
+import { assertPublishable } from '../matrix/matrix-problems';
+import type { EditionCatalog } from './edition-catalog';
+import { problems } from '../http/problem';
+import { snapshotWorkingMatrix } from './edition-snapshot';
+import { findEditionHeader, listEditionHeaders } from './edition-store';
+import { editionView, type EditionView } from './edition-views';
 
-export interface PublishRequest {
-  title: string;
-  region?: string;
-  publishedBy?: string;
+export interface EditionDeps {
+  sequelize: Sequelize;
+  models: MatrixModels & EditionModels;
+  editions: EditionCatalog;
 }
 
-export interface PublishedEdition {
-  number: number;
-  title: string;
-  publishedAt: Date;
-  summary: EditionSummary;
+/** Every published edition, newest first; the first is the current one. */
+async function list(deps: EditionDeps): Promise<{ current: number | null; editions: EditionView[] }> {
+  const editions = (await listEditionHeaders(deps.models)).map(editionView);
+  return { current: editions[0]?.number ?? null, editions };
 }
 
-/** Compares two documents: taxa and traits added or removed, and cells whose coding changed. */
-export function summariseChanges(previous: MatrixDocument | undefined, next: MatrixDocument): EditionSummary {
-  const before = new Map((previous?.taxa ?? []).map((t) => [t.id, t]));
-  const after = new Map(next.taxa.map((t) => [t.id, t]));
-  const traitsBefore = new Set((previous?.traits ?? []).map((t) => t.code));
-  const traitsAfter = new Set(next.traits.map((t) => t.code));
-  let cellsChanged = 0;
-  for (const [id, taxon] of after) {
-    const old = before.get(id);
-    const codes = new Set([...Object.keys(taxon.cells), ...Object.keys(old?.cells ?? {})]);
-    for (const code of codes) {
-      if (JSON.stringify(taxon.cells[code] ?? 'unknown') !== JSON.stringify(old?.cells[code] ?? 'unknown')) cellsChanged++;
-    }
-  }
+async function get(deps: EditionDeps, number: number): Promise<EditionView> {
+  const edition = await findEditionHeader(deps.models, number);
+  if (!edition) throw problems.notFound(`There is no edition ${number}.`);
+  return editionView(edition);
+}
+
+/**
+ * Publishes the working matrix as the next edition: only a matrix without errors is published, the
+ * audit log records who did it, and from then on identify and the bundle serve the new edition.
+ */
+async function publish(deps: EditionDeps, actor: Actor, request: { title: string; region?: string; reason: string }): Promise<EditionView> {
+  const published = await snapshotWorkingMatrix(
+    deps.sequelize,
+    deps.models,
+    { title: request.title, region: request.region, publishedBy: actor.email ?? undefined },
+    {
+      check: (document) => assertPublishable(document, 'Nothing was published'),
+      published: (edition, transaction) =>
+        recordAudit(
+          deps.models,
+          actor,
+          [{ entity: 'edition', entityKey: String(edition.number), action: 'publish', before: null, after: { title: edition.title, summary: edition.summary }, reason: request.reason }],
+          transaction,
+        ),
+    },
+  );
+  deps.editions.invalidate();
+  return editionView({ ...published, publishedBy: actor.email });
+}
+
+/** Published editions: list them, read one, publish the working matrix as the next. */
+export function editionService(deps: EditionDeps) {
   return {
-    taxaAdded: [...after.keys()].filter((id) => !before.has(id)),
-    taxaRemoved: [...before.keys()].filter((id) => !after.has(id)),
-    traitsAdded: [...traitsAfter].filter((c) => !traitsBefore.has(c)),
-    traitsRemoved: [...traitsBefore].filter((c) => !traitsAfter.has(c)),
-    cellsChanged,
-    taxonCount: next.taxa.length,
-    traitCount: next.traits.length,
+    list: list.bind(null, deps),
+    get: get.bind(null, deps),
+    publish: publish.bind(null, deps),
   };
 }
 
-/** Steps a caller adds inside the publishing transaction. */
-export interface PublishHooks {
-  /** sees the document about to be published; throw to stop publishing */
-  check?(document: MatrixDocument): void;
-  /** runs after the edition row is written, in the same transaction (e.g. the audit entry) */
-  published?(edition: PublishedEdition, transaction: Transaction): Promise<void>;
-}
-
-/** Publishes the working matrix as the next immutable, numbered edition, in one transaction. */
-export async function publishEdition(sequelize: Sequelize, models: Models, request: PublishRequest, hooks: PublishHooks = {}): Promise<PublishedEdition> {
-  return writeTransaction(sequelize, async (transaction) => {
-    const document = await readWorkingMatrix(models, { title: request.title, region: request.region }, transaction);
-    hooks.check?.(document);
-    const latest = await models.Edition.findOne({ order: [['number', 'DESC']], transaction });
-    const summary = summariseChanges(latest?.document as MatrixDocument | undefined, document);
-    const edition = await models.Edition.create(
-      {
-        number: (latest?.number ?? 0) + 1,
-        title: request.title,
-        publishedAt: new Date(),
-        publishedBy: request.publishedBy ?? null,
-        summary,
-        document,
-      },
-      { transaction },
-    );
-    const published = { number: edition.number, title: edition.title, publishedAt: edition.publishedAt, summary };
-    await hooks.published?.(published, transaction);
-    return published;
-  });
-}
+export type EditionService = ReturnType<typeof editionService>;

@@ -1,4 +1,4 @@
-import type { EditionSummary } from '../db/models';
+import type { EditionSummary } from './edition-models';
 import type { EditionHeader } from './edition-store';
 
 export interface EditionView {

@@ -1,4 +1,4 @@
-import type { Response } from 'express';
+import type { Request, Response } from 'express';
 
 /**
  * Cache policies of the read routes. Express adds a strong ETag to every body it sends and answers
@@ -24,3 +24,17 @@ export const cachePolicy = {
     res.vary('Authorization');
   },
 } as const;
+
+/**
+ * Whether the request's If-None-Match names `etag` (weak comparison, RFC 9110 §13.1.2; `*` matches
+ * any). Express's own check gives up when the request says `Cache-Control: no-cache`, as fetch()
+ * sends on a reload; but that directive asks caches to revalidate, and revalidating with the origin
+ * is exactly this, so the origin still answers 304 (RFC 9111 §5.2.1.4, RFC 9110 §13.1.2).
+ */
+export function matchesIfNoneMatch(req: Request, ...etags: string[]): boolean {
+  const header = req.headers['if-none-match'];
+  if (!header) return false;
+  const opaque = (tag: string) => tag.trim().replace(/^W\//, '');
+  const ours = new Set(etags.map(opaque));
+  return header.split(',').some((tag) => tag.trim() === '*' || ours.has(opaque(tag)));
+}

@@ -2,12 +2,17 @@
  * RFC 9457 problem details. Every error the API returns is one of these, served as
  * `application/problem+json` with a stable `type` per kind of problem.
  */
-export const PROBLEM_BASE = 'https://sylvasift.invalid/problems/';
+import type { ProblemType } from './problem-types';
+
+/** Problem types are pages on this server that explain them (problem-pages.ts), resolved against the answer's own URL. */
+export const PROBLEM_BASE = '/api/problems/';
 
 export interface InvalidParam {
-  /** where the bad input is: a JSON pointer into the body (`/observations/2/trait`), or `query.limit` */
+  /** where the bad input is: a JSON pointer into the request (`/body/observations/2/trait`, `/query/limit`) */
   name: string;
   reason: string;
+  /** for an unknown id: what it most likely meant, best first */
+  suggestions?: Array<{ id: string; scientificName: string; commonNames: string[] }>;
 }
 
 export interface ProblemBody {
@@ -24,7 +29,7 @@ export interface ProblemBody {
 export class HttpProblem extends Error {
   constructor(
     readonly status: number,
-    readonly slug: string,
+    readonly slug: ProblemType,
     readonly title: string,
     readonly detail: string,
     readonly extensions: Record<string, unknown> = {},
@@ -39,7 +44,7 @@ export class HttpProblem extends Error {
 }
 
 export const problems = {
-  notFound: (detail: string) => new HttpProblem(404, 'not-found', 'Not found', detail),
+  notFound: (detail: string, extensions: Record<string, unknown> = {}) => new HttpProblem(404, 'not-found', 'Not found', detail, extensions),
   invalidInput: (detail: string, invalidParams: InvalidParam[]) =>
     new HttpProblem(400, 'invalid-input', 'Invalid input', detail, { 'invalid-params': invalidParams }),
   malformedJson: (detail: string) => new HttpProblem(400, 'malformed-json', 'Malformed JSON', detail),

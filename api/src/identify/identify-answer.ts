@@ -35,7 +35,18 @@ export interface IdentifyAnswer {
   totalRuledOut: number;
   skipped: Array<{ trait: string; reason: string }>;
   /** Look at next: the unobserved traits that would narrow the Shortlist most per unit of effort */
-  suggestions: Suggestion[];
+  suggestions: SuggestionView[];
+}
+
+/** One Look at next entry as openapi.yaml documents it (`Suggestion`). */
+export interface SuggestionView {
+  trait: string;
+  label: string;
+  expectedGain: number;
+  score: number;
+  /** present only when the engine looked ahead; those suggestions come first, least effort first */
+  expectedEffort?: number;
+  preview: Suggestion['preview'];
 }
 
 export const IDENTIFY_DEFAULTS = Object.freeze({ season: 'leaf-on' as ObservingSeason, leeway: 2, limit: 10, suggestions: 5 });
@@ -62,10 +73,45 @@ function candidateView(edition: IdentifyEdition, candidate: Candidate): Candidat
   };
 }
 
+/** The engine's suggestion reduced to the documented fields, in the engine's order. */
+function suggestionView(suggestion: Suggestion): SuggestionView {
+  return {
+    trait: suggestion.trait,
+    label: suggestion.label,
+    expectedGain: suggestion.expectedGain,
+    score: suggestion.score,
+    ...(suggestion.expectedEffort !== undefined && { expectedEffort: suggestion.expectedEffort }),
+    preview: suggestion.preview.map(({ answer, label, probability, leaders, remaining }) => ({ answer, label, probability, leaders, remaining })),
+  };
+}
+
+/**
+ * Counts are numbers in JSON (`"values": [3]`): a count sent as text (`"3"`) is refused rather than
+ * read as the number it spells, so a client that mixes up its types hears about it.
+ */
+function countsGivenAsText(compiled: CompiledMatrix, observations: readonly Observation[]): ObservationProblem[] {
+  const found: ObservationProblem[] = [];
+  observations.forEach((observation, index) => {
+    const traitIndex = compiled.traitIndexByCode.get(observation.trait);
+    const trait = traitIndex === undefined ? undefined : compiled.traits[traitIndex];
+    if (trait?.kind !== 'count') return;
+    const values: readonly unknown[] = 'values' in observation && Array.isArray(observation.values) ? observation.values : [];
+    const texts = values.filter((value): value is string => typeof value === 'string');
+    if (texts.length === 0) return;
+    found.push({
+      index,
+      field: 'values',
+      code: 'count-as-text',
+      message: `${trait.code} is a count: send whole numbers, not text (${texts.map((text) => `${JSON.stringify(text)} → ${Number.isFinite(Number(text)) ? Number(text) : 'a number'}`).join(', ')}).`,
+    });
+  });
+  return found;
+}
+
 /** A sift against one edition: the Shortlist, what was Ruled out and why, and what to Look at next. */
 export function identifyAnswer(edition: IdentifyEdition, request: IdentifyRequest): IdentifyOutcome {
   const compiled = edition.compiled;
-  const found = validateObservations(compiled, request.observations);
+  const found = [...countsGivenAsText(compiled, request.observations), ...validateObservations(compiled, request.observations)];
   if (found.length > 0) return { kind: 'invalid', problems: found };
 
   const season = request.season ?? IDENTIFY_DEFAULTS.season;
@@ -82,7 +128,7 @@ export function identifyAnswer(edition: IdentifyEdition, request: IdentifyReques
     totalCandidates: ranked.totalCandidates ?? ranked.candidates.length,
     totalRuledOut: ranked.totalRuledOut ?? ranked.ruledOut.length,
     skipped: ranked.skipped ?? [],
-    suggestions,
+    suggestions: suggestions.map(suggestionView),
   };
   return { kind: 'answer', body: utf8.encode(JSON.stringify(answer)) };
 }

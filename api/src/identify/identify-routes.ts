@@ -5,7 +5,7 @@ import { cachePolicy } from '../http/caching';
 import { sendJsonBytes } from '../http/json-bytes';
 import { IdentifyBusy, type IdentifyPool } from './identify-pool';
 import type { IdentifyRequest } from './identify-answer';
-import { identify } from './identify-service';
+import { identifyService } from './identify-service';
 
 export interface IdentifyRouteOptions {
   /** answer on worker threads; without it, on the request thread */
@@ -22,9 +22,10 @@ const retryAfterWhenBusy: ErrorRequestHandler = (error, _req, res, next) => {
 
 /** POST /identify: a partner key with the identify scope, or any signed-in user. */
 export function identifyRoutes(editions: EditionCatalog, options: IdentifyRouteOptions): Router {
+  const sifts = identifyService({ editions, pool: options.pool });
   const router = Router();
   router.post('/', requireScopeOrUser('identify'), async (req, res) => {
-    const body = await identify(editions, req.body as IdentifyRequest, options.pool);
+    const body = await sifts.identify(req.body as IdentifyRequest);
     cachePolicy.noStore(res);
     if (options.validateResponses) res.json(JSON.parse(Buffer.from(body.buffer, body.byteOffset, body.byteLength).toString('utf8')));
     else sendJsonBytes(res, body);

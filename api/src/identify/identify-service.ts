@@ -4,6 +4,12 @@ import { problems, type InvalidParam } from '../http/problem';
 import { identifyAnswer, type IdentifyRequest } from './identify-answer';
 import type { IdentifyPool } from './identify-pool';
 
+export interface IdentifyDeps {
+  editions: EditionCatalog;
+  /** answer on worker threads; without it, on the request thread */
+  pool?: IdentifyPool;
+}
+
 /** Where an observation problem sits, as a JSON pointer into the request (the validator's own form: `/body/...`). */
 function pointerOf(problem: ObservationProblem): string {
   const base = `/body/observations/${problem.index}`;
@@ -20,9 +26,18 @@ function rejectInvalid(found: ObservationProblem[]): never {
  * A sift against the current edition, as the UTF-8 JSON of an IdentifyAnswer: on the identify
  * workers when there is a pool, else on this thread. Invalid observations throw a 400 problem.
  */
-export async function identify(editions: EditionCatalog, request: IdentifyRequest, pool?: IdentifyPool): Promise<Uint8Array> {
+async function identify({ editions, pool }: IdentifyDeps, request: IdentifyRequest): Promise<Uint8Array> {
   const edition = await editions.current();
   const outcome = pool ? await pool.identify(edition, request) : identifyAnswer(edition, request);
   if (outcome.kind === 'invalid') rejectInvalid(outcome.problems);
   return outcome.body;
 }
+
+/** Sifts: rank the current edition's taxa against a set of observations. */
+export function identifyService(deps: IdentifyDeps) {
+  return {
+    identify: identify.bind(null, deps),
+  };
+}
+
+export type IdentifyService = ReturnType<typeof identifyService>;

@@ -4,9 +4,8 @@
  * Invariant: a plan with problems has no changes that may be written; a plan without problems
  * lists every cell the sheet changes exactly once, and leaves the matrix free of new errors.
  */
-import type { Cell, DiscreteCell, Frequency, MatrixDocument, MatrixProblem, Trait } from '@shared/engine';
-import { matrixErrors } from '../curation/matrix-problems';
-import { isDiscreteCell, isNumericCell } from '../taxa/taxon-views';
+import { isDiscreteCell, isNumericCell, type Cell, type DiscreteCell, type Frequency, type MatrixDocument, type MatrixProblem, type Trait } from '@shared/engine';
+import { matrixErrors } from '../matrix/matrix-problems';
 import { codeRow, quoted } from './row-coding';
 import type { Sheet, SheetColumn, SheetProblem } from './sheet-reading';
 

@@ -1,11 +1,11 @@
-import type { Actor } from '../curation/audit-store';
-import { recordAudit } from '../curation/audit-store';
+import type { Actor } from '../matrix/audit-store';
+import { recordAudit } from '../matrix/audit-store';
 import type { CurationDeps } from '../curation/cell-service';
 import { changeKeepingMatrixValid } from '../curation/matrix-guard';
-import { writeTransaction } from '../curation/write-transaction';
+import { writeTransaction } from '../matrix/write-transaction';
 import { writeCellIfVersion } from '../curation/working-matrix-store';
 import { HttpProblem, problems } from '../http/problem';
-import { readWorkingMatrix } from '../taxa/matrix-store';
+import { readWorkingMatrix } from '../matrix/matrix-store';
 import { planImport, type ImportPlan } from './import-plan';
 import { readCellVersions } from './import-store';
 import { readSheet, type SheetProblem } from './sheet-reading';
@@ -50,7 +50,7 @@ function sheetRefused(file: string, found: SheetProblem[]): HttpProblem {
 }
 
 /** Reads the sheet and reports what applying it would change; writes nothing. */
-export async function previewImport(deps: CurationDeps, file: UploadedSheet | undefined): Promise<ImportReport> {
+async function previewImport(deps: CurationDeps, file: UploadedSheet | undefined): Promise<ImportReport> {
   assertSheetSent(file);
   const sheet = await readSheet(file.buffer);
   const matrix = await readWorkingMatrix(deps.models, { title: 'working matrix' });
@@ -62,7 +62,7 @@ export async function previewImport(deps: CurationDeps, file: UploadedSheet | un
  * if the sheet has any problem nothing is written. Each changed cell gets a new version and its own
  * audit entry, and one more entry records the import as a whole.
  */
-export async function applyImport(deps: CurationDeps, actor: Actor, file: UploadedSheet | undefined): Promise<ImportReport> {
+async function applyImport(deps: CurationDeps, actor: Actor, file: UploadedSheet | undefined): Promise<ImportReport> {
   assertSheetSent(file);
   const name = displayName(file.originalname);
   const sheet = await readSheet(file.buffer);
@@ -92,3 +92,13 @@ export async function applyImport(deps: CurationDeps, actor: Actor, file: Upload
     return { mode: 'apply' as const, file: name, ...plan };
   });
 }
+
+/** Spreadsheet imports into the working matrix: preview what would change, or apply it. */
+export function importService(deps: CurationDeps) {
+  return {
+    preview: previewImport.bind(null, deps),
+    apply: applyImport.bind(null, deps),
+  };
+}
+
+export type ImportService = ReturnType<typeof importService>;

@@ -59,3 +59,5 @@ export function defineKeyModels(sequelize: Sequelize) {
 
   return { PartnerKey: PartnerKeyRecord, KeyUsage: KeyUsageRecord };
 }
+
+export type KeyModels = ReturnType<typeof defineKeyModels>;

@@ -1,10 +1,12 @@
 import { Router } from 'express';
+import { FIELD_LIMITS } from '@shared/engine';
 import { currentUser, requireUser } from '../auth/guards';
 import { isScope, type Scope } from '../auth/principal';
 import { problems } from '../http/problem';
-import { idParam, stringField } from '../accounts/request-fields';
+import { idParam, stringField } from '../http/request-fields';
 import type { KeyService, KeyWithUsage } from './key-service';
 import type { PartnerKey } from './key-store';
+import type { QuotaLeft } from './quota';
 
 const keyView = (key: PartnerKey) => ({
   id: key.id,
@@ -27,8 +29,8 @@ function scopesField(body: unknown): Scope[] {
   return value;
 }
 
-/** A signed-in user's partner keys (mounted at /api/v1/keys). */
-export function keyRoutes(keys: KeyService): Router {
+/** A signed-in user's partner keys (mounted at /api/v1/keys); `quotaLeft` reads the daily limiter. */
+export function keyRoutes(keys: KeyService, quotaLeft: (keyId: number) => Promise<QuotaLeft>): Router {
   const router = Router();
   router.use(requireUser(), (_req, res, next) => {
     res.set('Cache-Control', 'no-store');
@@ -36,13 +38,23 @@ export function keyRoutes(keys: KeyService): Router {
   });
 
   router.post('/', async (req, res) => {
-    const { key, record } = await keys.create(currentUser(req.principal).userId, { name: stringField(req.body, 'name', { max: 120 }), scopes: scopesField(req.body) });
+    const { key, record } = await keys.create(currentUser(req.principal).userId, { name: stringField(req.body, 'name', { max: FIELD_LIMITS.keyName.max }), scopes: scopesField(req.body) });
     res.status(201).location(`/api/v1/keys/${record.id}`).json({ ...keyView(record), key });
   });
 
   router.get('/', async (req, res) => {
     const list = await keys.listOwn(currentUser(req.principal).userId);
     res.json({ keys: list.map(keyWithUsageView) });
+  });
+
+  router.get('/:id', async (req, res) => {
+    res.json(keyWithUsageView(await keys.get(currentUser(req.principal), idParam(req.params['id']))));
+  });
+
+  router.get('/:id/usage', async (req, res) => {
+    const { key, days, total } = await keys.usageOf(currentUser(req.principal).userId, idParam(req.params['id']));
+    const quota = await quotaLeft(key.id);
+    res.json({ keyId: key.id, days, total, quota: { limit: quota.limit, remaining: quota.remaining, resetsAt: quota.resetsAt ? quota.resetsAt.toISOString() : null } });
   });
 
   router.delete('/:id', async (req, res) => {

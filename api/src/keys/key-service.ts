@@ -1,5 +1,5 @@
 import type { Logger } from 'pino';
-import type { Models } from '../db/models';
+import type { KeyModels } from './key-models';
 import type { Principal, Scope } from '../auth/principal';
 import { hashToken, KEY_PREFIX, newPartnerKey } from '../auth/tokens';
 import { problems } from '../http/problem';
@@ -9,13 +9,21 @@ import { findKey, insertKey, listKeys, markRevoked, usageSince, type DailyUsage,
 /** How many days of usage a key listing shows, today included. */
 export const USAGE_DAYS = 7;
 
+/** How many days one key's usage report covers, today included. */
+export const USAGE_REPORT_DAYS = 30;
+
 export interface KeyWithUsage extends PartnerKey {
   usage: { today: number; days: DailyUsage[] };
 }
 
 const utcDay = (date: Date) => date.toISOString().slice(0, 10);
 
-export function keyService(models: Models, logger?: Logger) {
+/** The UTC days from `count - 1` days before `now` up to today, oldest first. */
+function lastDays(now: Date, count: number): string[] {
+  return Array.from({ length: count }, (_, i) => utcDay(new Date(now.getTime() - (count - 1 - i) * 86_400_000)));
+}
+
+export function keyService(models: KeyModels, logger?: Logger) {
   const counter = new UsageCounter(models, logger);
 
   async function withUsage(keys: PartnerKey[]): Promise<KeyWithUsage[]> {
@@ -47,6 +55,24 @@ export function keyService(models: Models, logger?: Logger) {
 
     async listAll(): Promise<KeyWithUsage[]> {
       return withUsage(await listKeys(models, {}));
+    },
+
+    /** One key with its usage, for its owner (or an admin). Someone else's key looks the same as no key. */
+    async get(actor: Extract<Principal, { kind: 'user' }>, keyId: number): Promise<KeyWithUsage> {
+      const key = await findKey(models, keyId);
+      if (!key || (key.ownerId !== actor.userId && actor.role !== 'admin')) throw problems.notFound(`There is no partner key ${keyId} of yours.`);
+      const [withDays] = await withUsage([key]);
+      return withDays as KeyWithUsage;
+    },
+
+    /** One key's requests per UTC day over the last 30 days, every day present (0 without use); owners only. */
+    async usageOf(ownerId: number, keyId: number, now = new Date()): Promise<{ key: PartnerKey; days: DailyUsage[]; total: number }> {
+      const key = await findKey(models, keyId);
+      if (!key || key.ownerId !== ownerId) throw problems.notFound(`There is no partner key ${keyId} of yours.`);
+      const window = lastDays(now, USAGE_REPORT_DAYS);
+      const counted = new Map(((await usageSince(models, [key.id], window[0] ?? utcDay(now))).get(key.id) ?? []).map((d) => [d.day, d.count]));
+      const days = window.map((day) => ({ day, count: counted.get(day) ?? 0 }));
+      return { key, days, total: days.reduce((sum, d) => sum + d.count, 0) };
     },
 
     /** Owners revoke their own keys; admins revoke any. Someone else's key looks the same as no key. */

@@ -1,5 +1,5 @@
 import { Op, QueryTypes } from 'sequelize';
-import type { Models } from '../db/models';
+import type { KeyModels } from './key-models';
 import { isScope, type Scope } from '../auth/principal';
 
 export interface PartnerKey {
@@ -40,27 +40,27 @@ const toKey = (row: KeyRow): PartnerKey => ({
   revokedAt: row.revokedAt,
 });
 
-export async function insertKey(models: Models, key: { ownerId: number; name: string; prefix: string; keyHash: string; scopes: Scope[] }): Promise<PartnerKey> {
+export async function insertKey(models: KeyModels, key: { ownerId: number; name: string; prefix: string; keyHash: string; scopes: Scope[] }): Promise<PartnerKey> {
   const row = await models.PartnerKey.create({ ...key, revokedAt: null, revokedBy: null, lastUsedAt: null });
   return toKey(row);
 }
 
-export async function findKey(models: Models, id: number): Promise<PartnerKey | undefined> {
+export async function findKey(models: KeyModels, id: number): Promise<PartnerKey | undefined> {
   const row = await models.PartnerKey.findByPk(id);
   return row ? toKey(row) : undefined;
 }
 
-export async function listKeys(models: Models, filter: { ownerId?: number }): Promise<PartnerKey[]> {
+export async function listKeys(models: KeyModels, filter: { ownerId?: number }): Promise<PartnerKey[]> {
   const rows = await models.PartnerKey.findAll({ where: filter.ownerId === undefined ? {} : { ownerId: filter.ownerId }, order: [['id', 'ASC']] });
   return rows.map(toKey);
 }
 
-export async function markRevoked(models: Models, id: number, revokedBy: number, now: Date): Promise<void> {
+export async function markRevoked(models: KeyModels, id: number, revokedBy: number, now: Date): Promise<void> {
   await models.PartnerKey.update({ revokedAt: now, revokedBy }, { where: { id, revokedAt: null } });
 }
 
 /** Revokes every live key of one owner (the owner was deactivated). */
-export async function revokeKeysOf(models: Models, ownerId: number, revokedBy: number, now: Date): Promise<void> {
+export async function revokeKeysOf(models: KeyModels, ownerId: number, revokedBy: number, now: Date): Promise<void> {
   await models.PartnerKey.update({ revokedAt: now, revokedBy }, { where: { ownerId, revokedAt: null } });
 }
 
@@ -73,7 +73,7 @@ export interface UsageCount {
 }
 
 /** Adds counted requests to key_usage in one statement (concurrent writers add, never overwrite). */
-export async function addUsage(models: Models, counts: readonly UsageCount[], now: Date): Promise<void> {
+export async function addUsage(models: KeyModels, counts: readonly UsageCount[], now: Date): Promise<void> {
   if (counts.length === 0) return;
   const sequelize = models.KeyUsage.sequelize;
   if (!sequelize) throw new Error('KeyUsage model is not bound to a database');
@@ -86,7 +86,7 @@ export async function addUsage(models: Models, counts: readonly UsageCount[], no
 }
 
 /** Moves each counted key's last-used time forward (never back, whatever order processes write in). */
-export async function touchLastUsed(models: Models, counts: readonly UsageCount[]): Promise<void> {
+export async function touchLastUsed(models: KeyModels, counts: readonly UsageCount[]): Promise<void> {
   const lastUse = new Map<number, Date>();
   for (const c of counts) if ((lastUse.get(c.keyId)?.getTime() ?? -Infinity) < c.lastUsedAt.getTime()) lastUse.set(c.keyId, c.lastUsedAt);
   for (const [id, lastUsedAt] of lastUse) {
@@ -95,7 +95,7 @@ export async function touchLastUsed(models: Models, counts: readonly UsageCount[
 }
 
 /** Which of the keys counted still exist (read directly, so it never waits for pending usage). */
-export async function liveKeyIds(models: Models, counts: readonly UsageCount[]): Promise<Set<number>> {
+export async function liveKeyIds(models: KeyModels, counts: readonly UsageCount[]): Promise<Set<number>> {
   const sequelize = models.PartnerKey.sequelize;
   if (!sequelize) throw new Error('PartnerKey model is not bound to a database');
   const ids = [...new Set(counts.map((c) => c.keyId))];
@@ -104,7 +104,7 @@ export async function liveKeyIds(models: Models, counts: readonly UsageCount[]):
 }
 
 /** Usage per key for the days from `sinceDay` on (YYYY-MM-DD, UTC), oldest first. */
-export async function usageSince(models: Models, keyIds: number[], sinceDay: string): Promise<Map<number, DailyUsage[]>> {
+export async function usageSince(models: KeyModels, keyIds: number[], sinceDay: string): Promise<Map<number, DailyUsage[]>> {
   const rows = await models.KeyUsage.findAll({ where: { keyId: { [Op.in]: keyIds }, day: { [Op.gte]: sinceDay } }, order: [['day', 'ASC']] });
   const byKey = new Map<number, DailyUsage[]>();
   for (const row of rows) {

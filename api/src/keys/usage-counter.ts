@@ -7,7 +7,7 @@
  * models waits for the counts so far (outside a transaction), so a listing never misses a request.
  */
 import type { Logger } from 'pino';
-import type { Models } from '../db/models';
+import type { KeyModels } from './key-models';
 import { addUsage, liveKeyIds, touchLastUsed, type UsageCount } from './key-store';
 
 /** How often pending counts are written. */
@@ -22,7 +22,7 @@ export class UsageCounter {
   readonly #timer: NodeJS.Timeout;
 
   constructor(
-    private readonly models: Models,
+    private readonly models: KeyModels,
     private readonly logger?: Logger,
     flushEveryMs = USAGE_FLUSH_MS,
   ) {

@@ -1,7 +1,16 @@
 import nodemailer, { type Transporter } from 'nodemailer';
 import type { Logger } from 'pino';
-import type { PeopleConfig } from '../accounts/people-config';
 import { startFakeSmtpServer, type CapturedMessage } from './fake-smtp';
+
+/** Outgoing mail (config section `mail`). */
+export interface MailConfig {
+  /** real SMTP server (smtp:// or smtps://); unset in development and test means the local fake server */
+  smtpUrl: string | undefined;
+  /** From: address of every message */
+  from: string;
+  /** base URL for links in e-mail, without a trailing slash */
+  publicUrl: string;
+}
 
 export interface OutgoingMail {
   to: string | string[];
@@ -18,7 +27,7 @@ export interface Mailer {
 }
 
 /** Real SMTP when SMTP_URL is set; otherwise a local fake SMTP server on a loopback port that keeps the messages. */
-export async function startMailer(config: PeopleConfig, logger: Logger): Promise<Mailer> {
+export async function startMailer(config: MailConfig, logger: Logger): Promise<Mailer> {
   const fake = config.smtpUrl ? undefined : await startFakeSmtpServer();
   const transport: Transporter = fake
     ? nodemailer.createTransport({ host: '127.0.0.1', port: fake.port, secure: false, ignoreTLS: true })
@@ -28,7 +37,7 @@ export async function startMailer(config: PeopleConfig, logger: Logger): Promise
   return {
     async send(mail) {
       try {
-        await transport.sendMail({ from: config.mailFrom, to: mail.to, subject: mail.subject, text: mail.text });
+        await transport.sendMail({ from: config.from, to: mail.to, subject: mail.subject, text: mail.text });
         return true;
       } catch (error) {
         logger.error({ err: error, subject: mail.subject }, 'mail was not sent');

@@ -70,3 +70,5 @@ export function defineQueryModels(sequelize: Sequelize) {
 
   return { Query: QueryRecord, QueryEvent: QueryEventRecord };
 }
+
+export type QueryModels = ReturnType<typeof defineQueryModels>;

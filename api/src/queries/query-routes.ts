@@ -1,7 +1,8 @@
 import { Router } from 'express';
+import { FIELD_LIMITS } from '@shared/engine';
 import { currentUser, requireUser } from '../auth/guards';
 import { problems } from '../http/problem';
-import { idParam, stringField } from '../accounts/request-fields';
+import { idParam, stringField } from '../http/request-fields';
 import type { CellChange } from '../curation/cell-service';
 import type { QueryState } from './query-models';
 import type { QueryService } from './query-service';
@@ -37,7 +38,7 @@ export function queryRoutes(queries: QueryService): Router {
     const query = await queries.raise(currentUser(req.principal), {
       taxonId: stringField(req.body, 'taxonId', { max: 120 }),
       traitCode: stringField(req.body, 'traitCode', { max: 64 }),
-      note: stringField(req.body, 'note', { max: 4000 }),
+      note: stringField(req.body, 'note', { max: FIELD_LIMITS.queryText.max }),
     });
     res.status(201).location(`/api/v1/queries/${query.id}`).json(queryView(query));
   });
@@ -64,16 +65,16 @@ export function queryRoutes(queries: QueryService): Router {
   });
 
   router.post('/:id/answer', reviewer, async (req, res) => {
-    const evidence = stringField(req.body, 'evidence', { optional: true, max: 4000 });
+    const evidence = stringField(req.body, 'evidence', { optional: true, max: FIELD_LIMITS.queryText.max });
     const query = await queries.answer(currentUser(req.principal), idParam(req.params['id']), {
-      answer: stringField(req.body, 'answer', { max: 4000 }),
+      answer: stringField(req.body, 'answer', { max: FIELD_LIMITS.queryText.max }),
       evidence: evidence === '' ? null : evidence,
     });
     res.json(queryView(query));
   });
 
   router.post('/:id/settle', reviewer, async (req, res) => {
-    const note = stringField(req.body, 'note', { optional: true, max: 4000 });
+    const note = stringField(req.body, 'note', { optional: true, max: FIELD_LIMITS.queryText.max });
     res.json(queryView(await queries.settle(currentUser(req.principal), idParam(req.params['id']), note === '' ? null : note)));
   });
 
@@ -82,7 +83,7 @@ export function queryRoutes(queries: QueryService): Router {
     const { query, cell } = await queries.recode(currentUser(req.principal), idParam(req.params['id']), {
       value: body.value,
       version: body.version,
-      reason: stringField(req.body, 'reason', { max: 2000 }),
+      reason: stringField(req.body, 'reason', { max: FIELD_LIMITS.changeReason.max }),
     });
     res.json({ query: queryView(query), cell });
   });

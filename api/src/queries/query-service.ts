@@ -1,11 +1,14 @@
 import type { Logger } from 'pino';
 import type { Sequelize, Transaction } from 'sequelize';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { AccountModels } from '../accounts/account-models';
+import type { QueryModels } from './query-models';
+import type { EditionModels } from '../editions/edition-models';
 import type { Mailer } from '../mail/mailer';
 import type { Principal } from '../auth/principal';
 import { problems } from '../http/problem';
 import { findAccount, listActiveEmailsWithRoles } from '../accounts/account-store';
-import { setCell, type CellChange } from '../curation/cell-service';
+import { cellService, type CellChange } from '../curation/cell-service';
 import { readCell, type CellState } from '../curation/working-matrix-store';
 import type { QueryAction, QueryState } from './query-models';
 import { cellExists, insertEvent, insertQuery, moveQuery, readQueries, type CellQuery, type QueryFilter } from './query-store';
@@ -14,7 +17,7 @@ type User = Extract<Principal, { kind: 'user' }>;
 
 export interface QueryDeps {
   sequelize: Sequelize;
-  models: Models;
+  models: MatrixModels & EditionModels & AccountModels & QueryModels;
   mailer: Mailer;
   logger: Logger;
   publicUrl: string;
@@ -26,6 +29,7 @@ const notYours = (id: number) => problems.notFound(`There is no query ${id} you 
 
 export function queryService(deps: QueryDeps) {
   const { sequelize, models, mailer } = deps;
+  const cells = cellService({ sequelize, models });
 
   async function one(id: number, transaction?: Transaction): Promise<CellQuery> {
     const [query] = await readQueries(models, { id }, transaction);
@@ -123,7 +127,7 @@ export function queryService(deps: QueryDeps) {
     async recode(actor: User, id: number, change: CellChange): Promise<{ query: CellQuery; cell: CellState }> {
       const before = await one(id);
       if (before.state === 'settled') throw problems.conflict(`Query ${id} is settled already.`, { state: before.state });
-      const cell = await setCell({ sequelize, models }, { userId: actor.userId, email: actor.email }, before.taxonId, before.traitCode, {
+      const cell = await cells.set({ userId: actor.userId, email: actor.email }, before.taxonId, before.traitCode, {
         ...change,
         reason: `Query ${id}: ${change.reason}`,
       });

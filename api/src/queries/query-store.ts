@@ -1,5 +1,7 @@
 import { Op, type Transaction } from 'sequelize';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { AccountModels } from '../accounts/account-models';
+import type { QueryModels } from './query-models';
 import type { QueryAction, QueryOutcome, QueryState } from './query-models';
 
 export interface QueryEvent {
@@ -35,7 +37,7 @@ export interface QueryFilter {
   raisedBy?: number;
 }
 
-export async function insertQuery(models: Models, query: { taxonId: string; traitCode: string; note: string; raisedBy: number }, transaction: Transaction): Promise<number> {
+export async function insertQuery(models: MatrixModels & AccountModels & QueryModels, query: { taxonId: string; traitCode: string; note: string; raisedBy: number }, transaction: Transaction): Promise<number> {
   const row = await models.Query.create(
     { ...query, state: 'open', answer: null, evidence: null, answeredBy: null, outcome: null, settledBy: null, settledAt: null },
     { transaction },
@@ -43,13 +45,13 @@ export async function insertQuery(models: Models, query: { taxonId: string; trai
   return row.id;
 }
 
-export async function insertEvent(models: Models, event: { queryId: number; actorId: number; action: QueryAction; note: string | null }, transaction: Transaction): Promise<void> {
+export async function insertEvent(models: MatrixModels & AccountModels & QueryModels, event: { queryId: number; actorId: number; action: QueryAction; note: string | null }, transaction: Transaction): Promise<void> {
   await models.QueryEvent.create(event, { transaction });
 }
 
 /** Moves a query only if it is still in one of `from`; false when someone else moved it first. */
 export async function moveQuery(
-  models: Models,
+  models: MatrixModels & AccountModels & QueryModels,
   id: number,
   from: QueryState[],
   changes: Partial<{ state: QueryState; answer: string; evidence: string | null; answeredBy: number; outcome: QueryOutcome; settledBy: number; settledAt: Date }>,
@@ -59,7 +61,7 @@ export async function moveQuery(
   return changed === 1;
 }
 
-export async function readQueries(models: Models, filter: QueryFilter & { id?: number }, transaction?: Transaction): Promise<CellQuery[]> {
+export async function readQueries(models: MatrixModels & AccountModels & QueryModels, filter: QueryFilter & { id?: number }, transaction?: Transaction): Promise<CellQuery[]> {
   const where: Record<string, unknown> = {};
   for (const [key, value] of Object.entries(filter)) if (value !== undefined) where[key] = value;
   const rows = await models.Query.findAll({ where, order: [['createdAt', 'ASC'], ['id', 'ASC']], transaction });
@@ -89,7 +91,7 @@ export async function readQueries(models: Models, filter: QueryFilter & { id?: n
   }));
 }
 
-export async function cellExists(models: Models, taxonId: string, traitCode: string): Promise<{ taxon: boolean; trait: boolean }> {
+export async function cellExists(models: MatrixModels & AccountModels & QueryModels, taxonId: string, traitCode: string): Promise<{ taxon: boolean; trait: boolean }> {
   const [taxon, trait] = await Promise.all([models.Taxon.findByPk(taxonId), models.Trait.findByPk(traitCode)]);
   return { taxon: Boolean(taxon && !taxon.retired), trait: Boolean(trait && !trait.retired) };
 }

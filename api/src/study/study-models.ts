@@ -1,10 +1,7 @@
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 
-/**
- * Study set models, defined once per Sequelize instance: the routes and the demo seeder share one
- * definition, and each test's in-memory database gets its own.
- */
-function defineStudyModels(sequelize: Sequelize) {
+/** Study sets: a coach's species list for an event, and the taxa on it. */
+export function defineStudyModels(sequelize: Sequelize) {
   const common = { sequelize, underscored: true, timestamps: true } as const;
 
   class StudySetRecord extends Model<InferAttributes<StudySetRecord>, InferCreationAttributes<StudySetRecord>> {
@@ -60,15 +57,3 @@ function defineStudyModels(sequelize: Sequelize) {
 }
 
 export type StudyModels = ReturnType<typeof defineStudyModels>;
-
-const defined = new WeakMap<Sequelize, StudyModels>();
-
-/** The study set models of this database, defined on first use. */
-export function studyModels(sequelize: Sequelize): StudyModels {
-  let models = defined.get(sequelize);
-  if (!models) {
-    models = defineStudyModels(sequelize);
-    defined.set(sequelize, models);
-  }
-  return models;
-}

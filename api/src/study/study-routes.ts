@@ -1,9 +1,9 @@
 import { Router } from 'express';
-import type { AppContext } from '../app';
+import { FIELD_LIMITS } from '@shared/engine';
 import { currentUser, requireUser } from '../auth/guards';
 import { problems } from '../http/problem';
-import { idParam } from '../accounts/request-fields';
-import { studyService, type NewStudySet, type StudySetChange } from './study-service';
+import { idParam } from '../http/request-fields';
+import { studyService, type NewStudySet, type StudyDeps, type StudySetChange } from './study-service';
 import type { StudySet } from './study-store';
 
 const studySetView = (set: StudySet) => ({ ...set, createdAt: set.createdAt.toISOString(), updatedAt: set.updatedAt.toISOString() });
@@ -17,7 +17,7 @@ function nameField(body: Body): string {
   if (typeof value !== 'string') throw bad('name', 'must be a string');
   const name = value.trim();
   if (name === '') throw bad('name', 'must not be blank');
-  if (name.length > 120) throw bad('name', 'must be at most 120 characters');
+  if (name.length > FIELD_LIMITS.studySetName.max) throw bad('name', `must be at most ${FIELD_LIMITS.studySetName.max} characters`);
   return name;
 }
 
@@ -61,9 +61,9 @@ function newStudySet(raw: unknown): NewStudySet {
   if (taxa === undefined) throw bad('taxa', 'is required');
   return {
     name: nameField(body),
-    event: textField(body, 'event', 200) ?? null,
+    event: textField(body, 'event', FIELD_LIMITS.studySetEvent.max) ?? null,
     eventDate: dateField(body) ?? null,
-    notes: textField(body, 'notes', 4000) ?? null,
+    notes: textField(body, 'notes', FIELD_LIMITS.studySetNotes.max) ?? null,
     shared: sharedField(body) ?? false,
     taxa,
   };
@@ -73,11 +73,11 @@ function studySetChange(raw: unknown): StudySetChange {
   const body = bodyOf(raw);
   const change: StudySetChange = {};
   if (body['name'] !== undefined) change.name = nameField(body);
-  const event = textField(body, 'event', 200);
+  const event = textField(body, 'event', FIELD_LIMITS.studySetEvent.max);
   if (event !== undefined) change.event = event;
   const eventDate = dateField(body);
   if (eventDate !== undefined) change.eventDate = eventDate;
-  const notes = textField(body, 'notes', 4000);
+  const notes = textField(body, 'notes', FIELD_LIMITS.studySetNotes.max);
   if (notes !== undefined) change.notes = notes;
   const shared = sharedField(body);
   if (shared !== undefined) change.shared = shared;
@@ -88,8 +88,8 @@ function studySetChange(raw: unknown): StudySetChange {
 }
 
 /** Study sets: a coach's species list for an event or class (mounted at /api/v1/study-sets). */
-export function studyRoutes(context: Pick<AppContext, 'sequelize' | 'models'>): Router {
-  const study = studyService(context);
+export function studyRoutes(deps: StudyDeps): Router {
+  const study = studyService(deps);
   const router = Router();
   const coach = requireUser('coach');
   router.use(requireUser(), (_req, res, next) => {

@@ -1,9 +1,7 @@
 import type { Sequelize } from 'sequelize';
-import type { Models } from '../db/models';
 import type { Principal } from '../auth/principal';
 import { problems, type InvalidParam } from '../http/problem';
-import { writeTransaction } from '../curation/write-transaction';
-import { studyModels } from './study-models';
+import { writeTransaction } from '../matrix/write-transaction';
 import { deleteStudySet, findTaxa, insertStudySet, readStudySets, replaceTaxa, updateStudySet, type StudyData, type StudySet, type StudySetFields } from './study-store';
 
 type User = Extract<Principal, { kind: 'user' }>;
@@ -43,9 +41,13 @@ function speciesProblems(ids: string[], known: Map<string, { retired: boolean }>
   return invalid;
 }
 
-export function studyService(deps: { sequelize: Sequelize; models: Models }) {
-  const { sequelize } = deps;
-  const data: StudyData = { models: deps.models, study: studyModels(sequelize) };
+export interface StudyDeps {
+  sequelize: Sequelize;
+  models: StudyData;
+}
+
+export function studyService(deps: StudyDeps) {
+  const { sequelize, models: data } = deps;
 
   async function one(id: number): Promise<StudySet | undefined> {
     const [set] = await readStudySets(data, { id });

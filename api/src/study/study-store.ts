@@ -1,12 +1,10 @@
 import { Op, type Transaction } from 'sequelize';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { AccountModels } from '../accounts/account-models';
 import type { StudyModels } from './study-models';
 
-/** Data access for study sets; everything leaves as plain objects. */
-export interface StudyData {
-  models: Models;
-  study: StudyModels;
-}
+/** The models study-set data access reads: its own, the taxa on a set and the coach who owns it. Everything leaves as plain objects. */
+export type StudyData = StudyModels & Pick<MatrixModels, 'Taxon'> & Pick<AccountModels, 'User'>;
 
 export interface StudySetSpecies {
   id: string;
@@ -44,12 +42,12 @@ const toColumns = (fields: Partial<StudySetFields>) => ({
 
 /** Which of `ids` the working matrix has, and whether each is retired. */
 export async function findTaxa(data: StudyData, ids: string[], transaction?: Transaction): Promise<Map<string, { retired: boolean }>> {
-  const rows = await data.models.Taxon.findAll({ where: { id: { [Op.in]: ids } }, attributes: ['id', 'retired'], transaction });
+  const rows = await data.Taxon.findAll({ where: { id: { [Op.in]: ids } }, attributes: ['id', 'retired'], transaction });
   return new Map(rows.map((row) => [row.id, { retired: row.retired }]));
 }
 
 export async function insertStudySet(data: StudyData, set: StudySetFields & { ownerId: number }, taxonIds: string[], transaction: Transaction): Promise<number> {
-  const row = await data.study.StudySet.create(
+  const row = await data.StudySet.create(
     { name: set.name, eventName: set.event, eventDate: set.eventDate, notes: set.notes, shared: set.shared, ownerId: set.ownerId },
     { transaction },
   );
@@ -59,12 +57,12 @@ export async function insertStudySet(data: StudyData, set: StudySetFields & { ow
 
 /** Changes the given fields and bumps updatedAt (also when only the species changed). */
 export async function updateStudySet(data: StudyData, id: number, fields: Partial<StudySetFields>, transaction: Transaction): Promise<void> {
-  await data.study.StudySet.update({ ...toColumns(fields), updatedAt: new Date() }, { where: { id }, transaction });
+  await data.StudySet.update({ ...toColumns(fields), updatedAt: new Date() }, { where: { id }, transaction });
 }
 
 export async function replaceTaxa(data: StudyData, id: number, taxonIds: string[], transaction: Transaction): Promise<void> {
-  await data.study.StudySetTaxon.destroy({ where: { studySetId: id }, transaction });
-  await data.study.StudySetTaxon.bulkCreate(
+  await data.StudySetTaxon.destroy({ where: { studySetId: id }, transaction });
+  await data.StudySetTaxon.bulkCreate(
     taxonIds.map((taxonId, position) => ({ studySetId: id, taxonId, position })),
     { transaction },
   );
@@ -72,8 +70,8 @@ export async function replaceTaxa(data: StudyData, id: number, taxonIds: string[
 
 /** Deletes the set and its species list; false when there was no such set. */
 export async function deleteStudySet(data: StudyData, id: number, transaction: Transaction): Promise<boolean> {
-  await data.study.StudySetTaxon.destroy({ where: { studySetId: id }, transaction });
-  return (await data.study.StudySet.destroy({ where: { id }, transaction })) === 1;
+  await data.StudySetTaxon.destroy({ where: { studySetId: id }, transaction });
+  return (await data.StudySet.destroy({ where: { id }, transaction })) === 1;
 }
 
 /** Study sets with their species (names read from the working matrix), most recently changed first. */
@@ -81,18 +79,18 @@ export async function readStudySets(data: StudyData, filter: { id?: number; owne
   const where: Record<string, unknown> = {};
   if (filter.id !== undefined) where['id'] = filter.id;
   if (filter.ownerId !== undefined) where['ownerId'] = filter.ownerId;
-  const sets = await data.study.StudySet.findAll({ where, order: [['updatedAt', 'DESC'], ['id', 'DESC']], transaction });
+  const sets = await data.StudySet.findAll({ where, order: [['updatedAt', 'DESC'], ['id', 'DESC']], transaction });
   if (sets.length === 0) return [];
 
   const setIds = sets.map((s) => s.id);
-  const links = await data.study.StudySetTaxon.findAll({ where: { studySetId: { [Op.in]: setIds } }, order: [['studySetId', 'ASC'], ['position', 'ASC']], transaction });
-  const taxa = await data.models.Taxon.findAll({
+  const links = await data.StudySetTaxon.findAll({ where: { studySetId: { [Op.in]: setIds } }, order: [['studySetId', 'ASC'], ['position', 'ASC']], transaction });
+  const taxa = await data.Taxon.findAll({
     where: { id: { [Op.in]: [...new Set(links.map((l) => l.taxonId))] } },
     attributes: ['id', 'scientificName', 'commonNames', 'retired'],
     transaction,
   });
   const species = new Map(taxa.map((t) => [t.id, { id: t.id, scientificName: t.scientificName, commonNames: t.commonNames, retired: t.retired }]));
-  const owners = await data.models.User.findAll({ where: { id: { [Op.in]: [...new Set(sets.map((s) => s.ownerId))] } }, attributes: ['id', 'displayName'], transaction });
+  const owners = await data.User.findAll({ where: { id: { [Op.in]: [...new Set(sets.map((s) => s.ownerId))] } }, attributes: ['id', 'displayName'], transaction });
   const ownerNames = new Map(owners.map((o) => [o.id, o.displayName]));
 
   return sets.map((set) => ({

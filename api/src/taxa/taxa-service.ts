@@ -1,17 +1,17 @@
-import { compare, diagnose, type SeparationStrength } from '@shared/engine';
-import type { Models } from '../db/models';
+import { cellInWords, compare, diagnose, GENERAL_CAUTIONS, type SeparationStrength, type Taxon } from '@shared/engine';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { EditionModels } from '../editions/edition-models';
+import type { PhotoModels } from '../uploads/photo-models';
 import type { EditionCatalog, LoadedEdition } from '../editions/edition-catalog';
 import { problems } from '../http/problem';
 import { listPhotos } from '../uploads/photo-store';
 import { photoView, type PhotoView } from '../uploads/photo-urls';
-import { GENERAL_CAUTIONS } from './cautions';
-import { cellInWords } from './cell-words';
-import { searchTaxa } from './taxon-search';
+import { closeTaxa, didYouMean, searchTaxa } from './taxon-search';
 import { codedTraits, taxonReference, taxonSummary, type CodedTrait, type TaxonSummary } from './taxon-views';
 
 export interface LookupDeps {
   editions: EditionCatalog;
-  models: Models;
+  models: MatrixModels & EditionModels & PhotoModels;
 }
 
 export interface TaxonPage {
@@ -58,6 +58,23 @@ export interface Diagnostic {
   unseparated: string[];
 }
 
+/** How a sentence names a taxon: its first common name with the scientific name, or the scientific name alone. */
+function nameInText(taxon: Taxon): string {
+  const common = taxon.commonNames[0];
+  return common ? `${common} (${taxon.scientificName})` : taxon.scientificName;
+}
+
+/** The engine's sentence names taxa by id (`pinus-serotina`); people read names (`pond pine (Pinus serotina)`). */
+function withNames(edition: LoadedEdition, text: string, ids: readonly string[]): string {
+  // longest ids first, so an id that is the start of another never replaces part of it
+  return [...ids]
+    .sort((a, b) => b.length - a.length)
+    .reduce((sentence, id) => {
+      const taxon = edition.taxaById.get(id);
+      return taxon ? sentence.replace(new RegExp(`(?<![\\w-])${id}(?![\\w-])`, 'g'), nameInText(taxon)) : sentence;
+    }, text);
+}
+
 /** A small set of traits that tells the taxon from its look-alikes, each with how every look-alike differs. */
 function diagnoseAmongLookAlikes(edition: LoadedEdition, taxonId: string, lookAlikeIds: string[]): Diagnostic | null {
   if (lookAlikeIds.length === 0) return null;
@@ -80,7 +97,7 @@ function diagnoseAmongLookAlikes(edition: LoadedEdition, taxonId: string, lookAl
         trait: chosen.trait,
         label: chosen.label,
         separates: chosen.separates,
-        text: chosen.text,
+        text: withNames(edition, chosen.text, chosen.separates),
         strength: chosen.strength,
         coded: coded(taxonId),
         lookAlikes: lookAlikeIds.map((id) => {
@@ -94,7 +111,7 @@ function diagnoseAmongLookAlikes(edition: LoadedEdition, taxonId: string, lookAl
 }
 
 /** Finds published taxa by name, one page at a time. */
-export async function findPublishedTaxa(deps: LookupDeps, query: string, page: number, pageSize: number): Promise<TaxonPage> {
+async function findPublishedTaxa(deps: LookupDeps, query: string, page: number, pageSize: number): Promise<TaxonPage> {
   const edition = await deps.editions.current();
   const matches = searchTaxa(edition.document.taxa, query);
   const start = (page - 1) * pageSize;
@@ -109,10 +126,13 @@ export async function findPublishedTaxa(deps: LookupDeps, query: string, page: n
 }
 
 /** Everything a species page shows about one published taxon. */
-export async function describePublishedTaxon(deps: LookupDeps, id: string): Promise<TaxonDetail> {
+async function describePublishedTaxon(deps: LookupDeps, id: string): Promise<TaxonDetail> {
   const edition = await deps.editions.current();
   const taxon = edition.taxaById.get(id);
-  if (!taxon) throw problems.notFound(`There is no taxon "${id}" in edition ${edition.number}.`);
+  if (!taxon) {
+    const close = closeTaxa(edition.document.taxa, id);
+    throw problems.notFound(`There is no taxon "${id}" in edition ${edition.number}.${didYouMean(close)}`, { suggestions: close.map(taxonReference) });
+  }
 
   const lookAlikes = (taxon.lookAlikes ?? []).flatMap((otherId) => {
     const other = edition.taxaById.get(otherId);
@@ -136,3 +156,13 @@ export async function describePublishedTaxon(deps: LookupDeps, id: string): Prom
     generalCautions: GENERAL_CAUTIONS,
   };
 }
+
+/** Species lookup in the current edition: search and one taxon in full. */
+export function taxaService(deps: LookupDeps) {
+  return {
+    find: findPublishedTaxa.bind(null, deps),
+    describe: describePublishedTaxon.bind(null, deps),
+  };
+}
+
+export type TaxaService = ReturnType<typeof taxaService>;

@@ -1,4 +1,4 @@
-import type { Cell, DiscreteCell, Frequency, NumericCell, Taxon, Trait } from '@shared/engine/types';
+import { FREQUENCIES, isDiscreteCell, isNumericCell, type Frequency, type NumericCell, type Taxon, type Trait } from '@shared/engine';
 
 /** A taxon as lists show it. */
 export interface TaxonSummary {
@@ -36,16 +36,6 @@ export interface CodedValue {
 export type CodedTrait =
   | { trait: string; label: string; part: string; kind: 'state' | 'count'; values: CodedValue[] }
   | { trait: string; label: string; part: string; kind: 'numeric'; unit: 'cm'; range: NumericCell };
-
-const FREQUENCIES: readonly Frequency[] = ['usual', 'occasional', 'rare'];
-
-export function isNumericCell(cell: Cell): cell is NumericCell {
-  return typeof cell === 'object' && 'min' in cell;
-}
-
-export function isDiscreteCell(cell: Cell): cell is DiscreteCell {
-  return typeof cell === 'object' && !('min' in cell);
-}
 
 /** The taxon's coded cells (neither unknown nor inapplicable), in the edition's trait order. */
 export function codedTraits(taxon: Taxon, traits: readonly Trait[]): CodedTrait[] {

@@ -1,4 +1,4 @@
-import type { Trait } from '@shared/engine/types';
+import type { Trait } from '@shared/engine';
 import type { EditionCatalog } from '../editions/edition-catalog';
 
 /** Where the web app serves the value drawings. */
@@ -51,7 +51,16 @@ export function traitView(trait: Trait): TraitView {
 }
 
 /** The traits of the current edition with their values, help and drawings. */
-export async function listPublishedTraits(editions: EditionCatalog): Promise<{ edition: { id: number; publishedAt: string }; traits: TraitView[] }> {
+async function listPublishedTraits(editions: EditionCatalog): Promise<{ edition: { id: number; publishedAt: string }; traits: TraitView[] }> {
   const edition = await editions.current();
   return { edition: edition.reference, traits: edition.document.traits.map(traitView) };
 }
+
+/** The current edition's trait vocabulary. */
+export function traitsService(editions: EditionCatalog) {
+  return {
+    list: listPublishedTraits.bind(null, editions),
+  };
+}
+
+export type TraitsService = ReturnType<typeof traitsService>;

@@ -2,9 +2,10 @@ import { randomBytes } from 'node:crypto';
 import fs from 'node:fs/promises';
 import path from 'node:path';
 import sharp from 'sharp';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { PhotoModels } from './photo-models';
 import { HttpProblem, problems } from '../http/problem';
-import { recordAudit, type Actor } from '../curation/audit-store';
+import { recordAudit, type Actor } from '../matrix/audit-store';
 import { findPhotoByFileName, insertPhoto } from './photo-store';
 import { photoView, type PhotoView } from './photo-urls';
 
@@ -18,7 +19,7 @@ const ACCEPTED_FORMATS = new Set(['jpeg', 'png', 'webp', 'heif', 'avif', 'tiff']
 const STORED_NAME = /^[0-9a-f]{32}\.(jpg|webp)$/;
 
 export interface PhotoDeps {
-  models: Models;
+  models: MatrixModels & PhotoModels;
   uploadsDir: string;
 }
 
@@ -38,7 +39,7 @@ function notAnImage(detail: string): HttpProblem {
  * or JPEG when asked) so no metadata — EXIF, GPS position, camera serials — survives, and it is
  * stored outside the web root under a random name.
  */
-export async function attachPhoto(
+async function attachPhoto(
   deps: PhotoDeps,
   actor: Actor,
   taxonId: string,
@@ -82,9 +83,19 @@ export async function attachPhoto(
 }
 
 /** Where a stored photo's bytes are, for serving; 404 for any name this service did not give out. */
-export async function locatePhoto(deps: PhotoDeps, name: string): Promise<{ filePath: string; mediaType: string }> {
+async function locatePhoto(deps: PhotoDeps, name: string): Promise<{ filePath: string; mediaType: string }> {
   if (!STORED_NAME.test(name)) throw problems.notFound('There is no such photo.');
   const photo = await findPhotoByFileName(deps.models, name);
   if (!photo) throw problems.notFound('There is no such photo.');
   return { filePath: path.join(deps.uploadsDir, photo.fileName), mediaType: photo.mediaType };
 }
+
+/** Taxon photos: attach an upload (checked, re-encoded, audited) and find a stored one. */
+export function photoService(deps: PhotoDeps) {
+  return {
+    attach: attachPhoto.bind(null, deps),
+    locate: locatePhoto.bind(null, deps),
+  };
+}
+
+export type PhotoService = ReturnType<typeof photoService>;

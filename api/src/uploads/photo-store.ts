@@ -1,5 +1,6 @@
 import type { Transaction } from 'sequelize';
-import type { Models } from '../db/models';
+import type { MatrixModels } from '../matrix/matrix-models';
+import type { PhotoModels } from './photo-models';
 
 export interface PhotoRow {
   id: number;
@@ -14,7 +15,7 @@ export interface PhotoRow {
   createdAt: Date;
 }
 
-type PhotoInstance = InstanceType<Models['Photo']>;
+type PhotoInstance = InstanceType<MatrixModels & PhotoModels['Photo']>;
 
 function toRow(record: PhotoInstance): PhotoRow {
   return {
@@ -32,18 +33,18 @@ function toRow(record: PhotoInstance): PhotoRow {
 }
 
 /** A taxon's photos, oldest first. */
-export async function listPhotos(models: Models, taxonId: string): Promise<PhotoRow[]> {
+export async function listPhotos(models: MatrixModels & PhotoModels, taxonId: string): Promise<PhotoRow[]> {
   const rows = await models.Photo.findAll({ where: { taxonId }, order: [['id', 'ASC']] });
   return rows.map(toRow);
 }
 
-export async function findPhotoByFileName(models: Models, fileName: string): Promise<PhotoRow | undefined> {
+export async function findPhotoByFileName(models: MatrixModels & PhotoModels, fileName: string): Promise<PhotoRow | undefined> {
   const row = await models.Photo.findOne({ where: { fileName } });
   return row ? toRow(row) : undefined;
 }
 
 export async function insertPhoto(
-  models: Models,
+  models: MatrixModels & PhotoModels,
   photo: Omit<PhotoRow, 'id' | 'createdAt'> & { uploadedBy: number | null },
   transaction?: Transaction,
 ): Promise<PhotoRow> {
@@ -51,6 +52,6 @@ export async function insertPhoto(
   return toRow(row);
 }
 
-export async function countPhotos(models: Models): Promise<number> {
+export async function countPhotos(models: MatrixModels & PhotoModels): Promise<number> {
   return models.Photo.count();
 }

@@ -3,6 +3,7 @@ import { RouterOutlet } from '@angular/router';
 import { TopBar } from './core/layout/top-bar';
 import { SiteFooter } from './core/layout/site-footer';
 import { AppUpdates } from './core/offline/app-updates';
+import { EditionPrefetch } from './core/offline/edition-prefetch';
 
 @Component({
   selector: 'sv-root',
@@ -14,5 +15,6 @@ import { AppUpdates } from './core/offline/app-updates';
 export class App {
   constructor() {
     inject(AppUpdates).start();
+    inject(EditionPrefetch).start();
   }
 }

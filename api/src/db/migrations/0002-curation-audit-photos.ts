@@ -1,5 +1,5 @@
 import { DataTypes } from 'sequelize';
-import type { Step } from '../migrator';
+import type { Step } from '../step';
 
 const timestamps = {
   created_at: { type: DataTypes.DATE, allowNull: false },

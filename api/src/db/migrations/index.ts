@@ -1,4 +1,4 @@
-import type { Step } from '../migrator';
+import type { Step } from '../step';
 import { matrix } from './0001-matrix';
 import { curationAuditPhotos } from './0002-curation-audit-photos';
 import { accountsKeysQueries } from './0003-accounts-keys-queries';

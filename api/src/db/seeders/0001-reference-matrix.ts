@@ -1,17 +1,15 @@
-import path from 'node:path';
 import { loadReferenceMatrix } from '../../../../seeds/load-matrix';
-import { REPO_ROOT } from '../../config';
-import { insertMatrixDocument } from '../../taxa/matrix-store';
-import { publishEdition } from '../../editions/edition-service';
-import type { Step } from '../migrator';
+import { insertMatrixDocument } from '../../matrix/matrix-store';
+import { snapshotWorkingMatrix } from '../../editions/edition-snapshot';
+import type { Step } from '../step';
 
 /** Loads the reference tree matrix from seeds/matrix into the working matrix and publishes edition 1. */
 export const referenceMatrix: Step = {
   name: '0001-reference-matrix',
-  async up({ context: { sequelize, models, logger } }) {
-    const doc = loadReferenceMatrix(path.join(REPO_ROOT, 'seeds'));
+  async up({ context: { sequelize, models, config, logger } }) {
+    const doc = loadReferenceMatrix(config.seedsDir);
     await sequelize.transaction((transaction) => insertMatrixDocument(models, doc, transaction));
-    const edition = await publishEdition(sequelize, models, { title: doc.title, region: doc.region, publishedBy: 'seed' });
+    const edition = await snapshotWorkingMatrix(sequelize, models, { title: doc.title, region: doc.region, publishedBy: 'seed' });
     logger?.info({ edition: edition.number, taxa: doc.taxa.length, traits: doc.traits.length }, 'reference matrix seeded');
   },
   async down({ context: { sequelize, models } }) {

@@ -1,12 +1,10 @@
 import { randomBytes } from 'node:crypto';
 import { Op } from 'sequelize';
 import type { Logger } from 'pino';
-import type { Sequelize } from 'sequelize';
-import { loadConfig, type AppConfig } from '../../config';
 import type { Role, Scope } from '../../auth/principal';
 import { hashPassword } from '../../auth/passwords';
 import { hashToken, KEY_PREFIX, newPartnerKey } from '../../auth/tokens';
-import type { Step } from '../migrator';
+import type { SeedConfig, Step } from '../step';
 
 /**
  * The demo scenario: an invented youth forestry club getting ready for an invented regional
@@ -56,29 +54,22 @@ const DEMO_QUERIES = [
   },
 ];
 
-const configs = new WeakMap<Sequelize, AppConfig>();
-
-/** Tells the demo seeder which configuration the app runs with (the seeder step itself only gets the database). */
-export function registerSeedConfig(sequelize: Sequelize, config: AppConfig): void {
-  configs.set(sequelize, config);
-}
-
 /** Whether this configuration seeds the demo scenario: always outside production, in production only with SEED_DEMO=true. */
-export function seedsDemo(config: AppConfig): boolean {
-  return config.env !== 'production' || config.people.seedDemo;
+export function seedsDemo(config: Pick<SeedConfig, 'env' | 'demo'>): boolean {
+  return config.env !== 'production' || config.demo.seed;
 }
 
 /** The demo sign-ins to print when the server starts in development; nothing elsewhere. */
-export function demoSignInLines(config: AppConfig): string[] {
+export function demoSignInLines(config: Pick<SeedConfig, 'env' | 'demo'>): string[] {
   if (config.env !== 'development') return [];
   return [
     `Demo accounts (${DEMO_CLUB}, preparing for the ${DEMO_EVENT}), password "${DEMO_PASSWORD}":`,
     ...DEMO_ACCOUNTS.map((a) => `  ${a.role.padEnd(8)} ${a.email.padEnd(42)} ${a.displayName}, ${a.part}`),
-    config.people.demoPartnerKey ? `  partner key (lookup, identify): ${config.people.demoPartnerKey}` : '  partner key: printed when the demo was seeded; set DEMO_PARTNER_KEY to fix it',
+    config.demo.partnerKey ? `  partner key (lookup, identify): ${config.demo.partnerKey}` : '  partner key: printed when the demo was seeded; set DEMO_PARTNER_KEY to fix it',
   ];
 }
 
-function say(config: AppConfig, logger: Logger | undefined, lines: string[]): void {
+function say(config: Pick<SeedConfig, 'env'>, logger: Logger | undefined, lines: string[]): void {
   if (config.env !== 'development') return;
   logger?.info({ accounts: DEMO_ACCOUNTS.map((a) => a.email) }, 'demo scenario seeded');
   console.log(`\n${lines.join('\n')}\n`);
@@ -86,21 +77,20 @@ function say(config: AppConfig, logger: Logger | undefined, lines: string[]): vo
 
 export const demoScenario: Step = {
   name: '0002-demo-scenario',
-  async up({ context: { sequelize, models, logger } }) {
-    const config = configs.get(sequelize) ?? loadConfig();
+  async up({ context: { sequelize, models, config, logger } }) {
     if (!seedsDemo(config)) {
       logger?.info('demo scenario skipped in production (set SEED_DEMO=true to seed it)');
       return;
     }
     const development = config.env !== 'production';
-    const key = config.people.demoPartnerKey ?? newPartnerKey();
+    const key = config.demo.partnerKey ?? newPartnerKey();
 
     await sequelize.transaction(async (transaction) => {
       const ids = new Map<string, number>();
       for (const account of DEMO_ACCOUNTS) {
         const password = development ? DEMO_PASSWORD : randomBytes(24).toString('base64url');
         const row = await models.User.create(
-          { email: account.email, displayName: account.displayName, role: account.role, passwordHash: await hashPassword(password, config.people.scrypt), lastSignInAt: null },
+          { email: account.email, displayName: account.displayName, role: account.role, passwordHash: await hashPassword(password, config.auth.scrypt), lastSignInAt: null },
           { transaction },
         );
         ids.set(account.email, row.id);
@@ -132,7 +122,7 @@ export const demoScenario: Step = {
       }
     });
 
-    const keyLine = config.people.demoPartnerKey ? [] : [`Demo partner key for ${PARTNER_EMAIL} (lookup, identify), shown once: ${key}`];
+    const keyLine = config.demo.partnerKey ? [] : [`Demo partner key for ${PARTNER_EMAIL} (lookup, identify), shown once: ${key}`];
     say(config, logger, [...demoSignInLines(config), ...keyLine]);
   },
   async down({ context: { sequelize, models } }) {

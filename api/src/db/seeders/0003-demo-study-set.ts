@@ -1,5 +1,4 @@
-import type { Step } from '../migrator';
-import { studyModels } from '../../study/study-models';
+import type { Step } from '../step';
 import { deleteStudySet, findTaxa, insertStudySet } from '../../study/study-store';
 import { DEMO_ACCOUNTS, DEMO_CLUB, DEMO_EVENT } from './0002-demo-scenario';
 
@@ -58,14 +57,13 @@ export const demoStudySet: Step = {
       logger?.info('demo study set skipped: the demo scenario is not seeded');
       return;
     }
-    const data = { models, study: studyModels(sequelize) };
-    const known = await findTaxa(data, [...DEMO_STUDY_SET.taxa]);
+    const known = await findTaxa(models, [...DEMO_STUDY_SET.taxa]);
     const taxa = DEMO_STUDY_SET.taxa.filter((id) => known.get(id)?.retired === false);
     const missing = DEMO_STUDY_SET.taxa.filter((id) => !taxa.includes(id));
     if (missing.length > 0) logger?.warn({ missing }, 'demo study set: species left out, not in the matrix or retired');
     await sequelize.transaction((transaction) =>
       insertStudySet(
-        data,
+        models,
         { name: DEMO_STUDY_SET.name, event: DEMO_STUDY_SET.event, eventDate: DEMO_STUDY_SET.eventDate, notes: DEMO_STUDY_SET.notes, shared: DEMO_STUDY_SET.shared, ownerId: coach.id },
         taxa,
         transaction,
@@ -75,10 +73,9 @@ export const demoStudySet: Step = {
   async down({ context: { sequelize, models } }) {
     const coach = await models.User.findOne({ where: { email: coachEmail() } });
     if (!coach) return;
-    const { StudySet } = studyModels(sequelize);
-    const sets = await StudySet.findAll({ where: { ownerId: coach.id, name: DEMO_STUDY_SET.name } });
+    const sets = await models.StudySet.findAll({ where: { ownerId: coach.id, name: DEMO_STUDY_SET.name } });
     await sequelize.transaction(async (transaction) => {
-      for (const set of sets) await deleteStudySet({ models, study: studyModels(sequelize) }, set.id, transaction);
+      for (const set of sets) await deleteStudySet(models, set.id, transaction);
     });
   },
 };

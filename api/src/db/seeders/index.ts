@@ -1,4 +1,4 @@
-import type { Step } from '../migrator';
+import type { Step } from '../step';
 import { referenceMatrix } from './0001-reference-matrix';
 import { demoScenario } from './0002-demo-scenario';
 import { demoStudySet } from './0003-demo-study-set';

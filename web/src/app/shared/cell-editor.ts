@@ -5,7 +5,7 @@ import { MatFormField, MatLabel, MatSuffix } from '@angular/material/form-field'
 import { MatInput } from '@angular/material/input';
 import { MatOption, MatSelect } from '@angular/material/select';
 import { MatRadioButton, MatRadioGroup } from '@angular/material/radio';
-import type { Cell } from '@shared/engine/types';
+import type { Cell } from '@shared/engine';
 import { type CellMode, type CellTrait, FREQUENCIES, RANGE_FIELDS, RANGE_LABELS, buildCellForm, cellFromForm, cellProblem, fillCellForm } from './cell-form';
 
 /**

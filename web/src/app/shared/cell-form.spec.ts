@@ -1,6 +1,6 @@
 import '@angular/compiler';
 import { expect } from 'chai';
-import type { Cell } from '@shared/engine/types';
+import type { Cell } from '@shared/engine';
 import { type CellTrait, buildCellForm, cellFromForm, cellProblem, fillCellForm } from './cell-form';
 
 // A numeric cell reads as floras print a measurement, (min–)low–high(–max), the typical range inside the

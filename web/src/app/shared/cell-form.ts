@@ -1,6 +1,6 @@
 import { FormControl, FormGroup, FormRecord, Validators, type AbstractControl, type ValidationErrors, type ValidatorFn } from '@angular/forms';
-import type { Cell, DiscreteCell } from '@shared/engine/types';
-import { isDiscreteCell, isNumericCell } from './matrix-words';
+import type { Cell, DiscreteCell } from '@shared/engine';
+import { isDiscreteCell, isNumericCell } from '@shared/engine';
 
 /** What the cell editor needs to know of a trait: its kind, its values in order, and its unit. */
 export interface CellTrait {

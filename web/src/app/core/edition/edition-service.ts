@@ -1,11 +1,12 @@
 import { DestroyRef, Injectable, computed, inject, signal } from '@angular/core';
 import { HttpClient, type HttpHeaders } from '@angular/common/http';
-import { decodeBundle } from '@shared/engine';
-import type { CompiledMatrix } from '@shared/engine/compiled';
+import { decodeBundle, type CompiledMatrix } from '@shared/engine';
 import { readableError } from '../http/api-problem';
+import { BUNDLE_URL } from './edition-url';
 
-export const BUNDLE_URL = '/api/v1/editions/current/bundle';
 export const EDITIONS_URL = '/api/v1/editions';
+/** How often an open sift asks whether a newer edition has been published. */
+const EDITION_CHECK_MS = 10 * 60 * 1000;
 
 /** The edition the browser sifts with, decoded once from the binary bundle. */
 export interface LoadedEdition {
@@ -57,9 +58,11 @@ export class EditionService {
     };
     window.addEventListener('online', updateOnline);
     window.addEventListener('offline', updateOnline);
+    const timer = setInterval(() => this.checkForNewerEdition(), EDITION_CHECK_MS);
     inject(DestroyRef).onDestroy(() => {
       window.removeEventListener('online', updateOnline);
       window.removeEventListener('offline', updateOnline);
+      clearInterval(timer);
     });
     this.load();
   }

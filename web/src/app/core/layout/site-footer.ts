@@ -1,6 +1,7 @@
-import { ChangeDetectionStrategy, Component } from '@angular/core';
+import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
 import { RouterLink } from '@angular/router';
-import { FIELD_SAFETY_CAUTION, IDENTIFICATION_CAUTION, USE_CAUTION } from './cautions';
+import { CAUTIONS } from '@shared/engine';
+import { PageCautions } from './page-cautions';
 
 @Component({
   selector: 'sv-site-footer',
@@ -10,7 +11,8 @@ import { FIELD_SAFETY_CAUTION, IDENTIFICATION_CAUTION, USE_CAUTION } from './cau
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class SiteFooter {
-  protected readonly fieldSafety = FIELD_SAFETY_CAUTION;
-  protected readonly identification = IDENTIFICATION_CAUTION;
-  protected readonly use = USE_CAUTION;
+  protected readonly pageCautions = inject(PageCautions);
+  protected readonly fieldSafety = CAUTIONS.fieldSafety;
+  protected readonly identification = CAUTIONS.identification;
+  protected readonly use = CAUTIONS.use;
 }

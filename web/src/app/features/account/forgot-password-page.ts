@@ -5,6 +5,7 @@ import { MatFormField, MatLabel, MatError } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
 import { MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
+import { FIELD_LIMITS } from '@shared/engine';
 import { FormSubmission } from '../../core/forms/form-submission';
 import { AccountLinksService } from './account-links-service';
 
@@ -27,7 +28,7 @@ import { AccountLinksService } from './account-links-service';
       <form [formGroup]="form" (ngSubmit)="requestLink()" novalidate>
         <mat-form-field appearance="outline">
           <mat-label>E-mail</mat-label>
-          <input matInput type="email" formControlName="email" autocomplete="email" required maxlength="254" />
+          <input matInput type="email" formControlName="email" autocomplete="email" required [maxlength]="limits.email.max" />
           @if (form.controls.email.hasError('required')) {
             <mat-error>Enter your e-mail address.</mat-error>
           } @else if (form.controls.email.hasError('email')) {
@@ -58,6 +59,7 @@ export default class ForgotPasswordPage {
   readonly #injector = inject(Injector);
 
   protected readonly sentNotice = viewChild<ElementRef<HTMLElement>>('sentNotice');
+  protected readonly limits = FIELD_LIMITS;
   protected readonly form = this.#fb.group({
     email: ['', [Validators.required, Validators.email]],
   });

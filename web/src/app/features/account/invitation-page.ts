@@ -6,6 +6,7 @@ import { MatFormField, MatLabel, MatError, MatHint } from '@angular/material/for
 import { MatInput } from '@angular/material/input';
 import { MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
+import { FIELD_LIMITS } from '@shared/engine';
 import { AuthService } from '../../core/auth/auth-service';
 import { FormSubmission } from '../../core/forms/form-submission';
 import { AccountLinksService, isLinkNotValid } from './account-links-service';
@@ -29,7 +30,7 @@ import { MAX_PASSWORD, MIN_PASSWORD } from './new-password';
       <form [formGroup]="form" (ngSubmit)="acceptInvitation()" novalidate>
         <mat-form-field appearance="outline">
           <mat-label>Name shown to others</mat-label>
-          <input matInput formControlName="displayName" autocomplete="name" required maxlength="120" />
+          <input matInput formControlName="displayName" autocomplete="name" required [maxlength]="limits.displayName.max" />
           @if (form.controls.displayName.hasError('required') || form.controls.displayName.hasError('pattern')) {
             <mat-error>Enter a name.</mat-error>
           } @else if (form.controls.displayName.hasError('server')) {
@@ -74,6 +75,7 @@ export default class InvitationPage {
 
   protected readonly minPassword = MIN_PASSWORD;
   protected readonly maxPassword = MAX_PASSWORD;
+  protected readonly limits = FIELD_LIMITS;
   protected readonly form = this.#fb.group({
     displayName: ['', [Validators.required, Validators.pattern(/\S/)]],
     password: ['', [Validators.required, Validators.minLength(MIN_PASSWORD), Validators.maxLength(MAX_PASSWORD)]],

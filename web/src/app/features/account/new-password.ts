@@ -1,9 +1,10 @@
 import { type AbstractControl, type ValidationErrors, type ValidatorFn } from '@angular/forms';
+import { FIELD_LIMITS } from '@shared/engine';
 
 /** The shortest password the API accepts. */
-export const MIN_PASSWORD = 10;
+export const MIN_PASSWORD = FIELD_LIMITS.password.min;
 /** The longest password the API accepts. */
-export const MAX_PASSWORD = 200;
+export const MAX_PASSWORD = FIELD_LIMITS.password.max;
 
 /** On a confirmation field: its value must equal the sibling control named `passwordField`. */
 export function matchesSibling(passwordField: string): ValidatorFn {

@@ -5,6 +5,8 @@ import { switchMap } from 'rxjs';
 import { MatFormField, MatLabel, MatError, MatHint } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
 import { MatButton } from '@angular/material/button';
+import { FIELD_LIMITS } from '@shared/engine';
+import { MIN_PASSWORD } from './new-password';
 import { AuthService } from '../../core/auth/auth-service';
 import { FormSubmission } from '../../core/forms/form-submission';
 
@@ -17,7 +19,7 @@ import { FormSubmission } from '../../core/forms/form-submission';
     <form [formGroup]="form" (ngSubmit)="signUp()" novalidate>
       <mat-form-field appearance="outline">
         <mat-label>Name shown to others</mat-label>
-        <input matInput formControlName="displayName" autocomplete="name" required maxlength="120" />
+        <input matInput formControlName="displayName" autocomplete="name" required [maxlength]="limits.displayName.max" />
         @if (form.controls.displayName.hasError('required')) {
           <mat-error>Enter a name.</mat-error>
         } @else if (form.controls.displayName.hasError('server')) {
@@ -64,7 +66,8 @@ export default class SignUpPage {
   readonly #router = inject(Router);
   readonly #fb = inject(NonNullableFormBuilder);
 
-  protected readonly minPassword = 10;
+  protected readonly minPassword = MIN_PASSWORD;
+  protected readonly limits = FIELD_LIMITS;
   protected readonly form = this.#fb.group({
     displayName: ['', Validators.required],
     email: ['', [Validators.required, Validators.email]],

@@ -5,12 +5,12 @@ import { MatButton } from '@angular/material/button';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
 import type { Observable } from 'rxjs';
-import type { Cell, Trait } from '@shared/engine/types';
+import type { Cell, Trait } from '@shared/engine';
 import { FormSubmission } from '../../core/forms/form-submission';
 import { CellEditor } from '../../shared/cell-editor';
 import type { CellTrait } from '../../shared/cell-form';
 import { DeskService, StaleCellEdit } from './desk-service';
-import { cellWords, orderColumns } from './grid-model';
+import { cellWords } from './grid-model';
 
 export interface CellEditData {
   taxon: { id: string; scientificName: string };
@@ -62,7 +62,6 @@ export class CellEditDialog {
 
   protected readonly submission = new FormSubmission();
   protected readonly editorTrait = cellTraitOf(this.data.trait, this.data.value);
-  readonly #column = orderColumns([this.data.trait])[0]!;
   /** the cell in the editor; null while it cannot be written */
   protected readonly edited = signal<Cell | null>(this.data.value);
   /** the version the save is based on */
@@ -70,14 +69,14 @@ export class CellEditDialog {
   /** the cell as a refused save found it, until the curator chooses */
   protected readonly stale = signal<{ value: Cell; version: number } | null>(null);
   protected readonly tried = signal(false);
-  protected readonly readWords = cellWords(this.#column, this.data.value);
+  protected readonly readWords = cellWords(this.data.trait, this.data.value);
   protected readonly staleWords = computed(() => {
     const stale = this.stale();
-    return stale ? cellWords(this.#column, stale.value) : '';
+    return stale ? cellWords(this.data.trait, stale.value) : '';
   });
   protected readonly mineWords = computed(() => {
     const cell = this.edited();
-    return cell === null ? 'not writable yet' : cellWords(this.#column, cell);
+    return cell === null ? 'not writable yet' : cellWords(this.data.trait, cell);
   });
 
   protected readonly form = this.#fb.group({ reason: ['', [Validators.required, Validators.minLength(3), Validators.maxLength(2000)]] });

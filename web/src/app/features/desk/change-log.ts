@@ -3,7 +3,7 @@
  *
  * Invariant: pure functions of the entries (no Angular), so the words and the CSV can be checked without a browser.
  */
-import type { Cell } from '@shared/engine/types';
+import type { Cell } from '@shared/engine';
 import type { AuditEntry } from './desk-service';
 import { cellWords } from './grid-model';
 
@@ -35,8 +35,8 @@ function isCell(value: unknown): value is Cell {
 
 /** Words for a value before or after a change; codes stand for labels (the log outlives label changes). */
 function valueWords(entity: string, action: string, value: unknown): string {
-  if (value === null || value === undefined) return entity === 'cell' ? 'not coded yet' : '—';
-  if (entity === 'cell' && isCell(value)) return cellWords({ labels: new Map(), trait: { unit: 'cm' } }, value);
+  if (value === null || value === undefined) return entity === 'cell' ? cellWords({}, 'unknown') : '—';
+  if (entity === 'cell' && isCell(value)) return cellWords({}, value);
   if (typeof value === 'object' && value !== null) {
     const record = value as Record<string, unknown>;
     const name = record['title'] ?? record['scientificName'] ?? record['label'] ?? record['code'] ?? record['id'];

@@ -1,7 +1,7 @@
 import { Injectable, inject } from '@angular/core';
 import { HttpClient, HttpParams } from '@angular/common/http';
 import { type Observable, catchError, map, throwError } from 'rxjs';
-import type { Cell, PlantPart, Trait } from '@shared/engine/types';
+import type { Cell, PlantPart, Trait } from '@shared/engine';
 import { ApiProblem } from '../../core/http/api-problem';
 
 /**

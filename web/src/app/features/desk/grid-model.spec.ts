@@ -1,5 +1,5 @@
 import { expect } from 'chai';
-import type { Trait } from '@shared/engine/types';
+import type { Trait } from '@shared/engine';
 import { changeRow, changesCsv } from './change-log';
 import { cellView, cellWords, columnWindow, filterColumns, movedTo, orderColumns, partSegments, rangeText } from './grid-model';
 
@@ -42,7 +42,7 @@ describe('web: the Matrix desk grid model', () => {
     // loblolly pine needles 10 (12–23) 23 cm, the seeded value (Flora of North America vol. 2 gives 12–23 cm)
     expect(rangeText({ min: 10, low: 12, high: 23, max: 23 }, 'cm')).to.equal('10 (12–23) 23 cm');
     const [column] = orderColumns([NEEDLE_LENGTH]);
-    expect(cellWords(column!, { min: 10, low: 12, high: 23, max: 23 })).to.equal('typically 12–23 cm, extremes 10–23 cm');
+    expect(cellWords(column!.trait, { min: 10, low: 12, high: 23, max: 23 })).to.equal('typically 12–23 cm, recorded 10–23 cm');
   });
 
   it('marks each value with how often it is seen, and tells unknown from inapplicable', () => {
@@ -55,11 +55,11 @@ describe('web: the Matrix desk grid model', () => {
         { label: 'Furrowed', frequency: 'occasional' },
         { label: 'Smooth', frequency: 'rare' },
       ],
-      words: 'usually Plated; occasionally Furrowed; rarely Smooth',
+      words: 'usually plated, occasionally furrowed, rarely smooth',
     });
-    expect(cellView(column!, 'unknown')).to.deep.equal({ kind: 'unknown', words: 'not coded yet' });
-    expect(cellView(column!, undefined)).to.deep.equal({ kind: 'unknown', words: 'not coded yet' });
-    expect(cellView(column!, 'inapplicable')).to.deep.equal({ kind: 'inapplicable', words: 'does not apply' });
+    expect(cellView(column!, 'unknown')).to.deep.equal({ kind: 'unknown', words: 'not coded' });
+    expect(cellView(column!, undefined)).to.deep.equal({ kind: 'unknown', words: 'not coded' });
+    expect(cellView(column!, 'inapplicable')).to.deep.equal({ kind: 'inapplicable', words: 'not applicable' });
   });
 
   it('moves the active cell with the keys, clamped to the grid', () => {
@@ -85,9 +85,9 @@ describe('web: the Matrix desk grid model', () => {
       after: 'unknown',
       reason: '=HYPERLINK("x"), checked "twice"',
     });
-    expect(row).to.include({ taxon: 'pinus-taeda', trait: 'needle-length', before: 'typically 12–23 cm, extremes 10–23 cm', after: 'not coded yet' });
+    expect(row).to.include({ taxon: 'pinus-taeda', trait: 'needle-length', before: 'typically 12–23 cm, recorded 10–23 cm', after: 'not coded' });
     const [header, line] = changesCsv([row]).split('\r\n');
     expect(header).to.equal('when,who,what,taxon,trait,before,after,reason');
-    expect(line).to.equal(`2026-12-04T10:00:00.000Z,harriet@example.invalid,cell,pinus-taeda,needle-length,"typically 12–23 cm, extremes 10–23 cm",not coded yet,"'=HYPERLINK(""x""), checked ""twice"""`);
+    expect(line).to.equal(`2026-12-04T10:00:00.000Z,harriet@example.invalid,cell,pinus-taeda,needle-length,"typically 12–23 cm, recorded 10–23 cm",not coded,"'=HYPERLINK(""x""), checked ""twice"""`);
   });
 });

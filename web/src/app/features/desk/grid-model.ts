@@ -5,12 +5,10 @@
  * Invariant: everything here is a pure function of its arguments (no Angular, no DOM), so the grid's
  * sums can be checked without a browser.
  */
-import type { Cell, PlantPart, Trait } from '@shared/engine/types';
-import { PART_LABELS, PART_ORDER, isDiscreteCell, isNumericCell } from '../../shared/matrix-words';
+import { type Cell, PART_LABELS, PLANT_PARTS, type PlantPart, type Trait, cellInWords, isNumericCell, valueLabel } from '@shared/engine';
 
 export type Frequency = 'usual' | 'occasional' | 'rare';
 const FREQUENCY_ORDER: readonly Frequency[] = ['usual', 'occasional', 'rare'];
-const FREQUENCY_ADVERBS: Readonly<Record<Frequency, string>> = { usual: 'usually', occasional: 'occasionally', rare: 'rarely' };
 
 /** One trait column of the grid. */
 export interface GridColumn {
@@ -20,7 +18,6 @@ export interface GridColumn {
   position: number;
   trait: Trait;
   part: PlantPart;
-  labels: ReadonlyMap<string, string>;
 }
 
 /** A cell as the grid draws it, with the words a screen reader announces. */
@@ -32,7 +29,7 @@ export type CellView =
 
 /** The traits as grid columns, grouped by plant part in the product's part order (stable inside a part). */
 export function orderColumns(traits: readonly Trait[]): GridColumn[] {
-  const rank = (part: PlantPart) => PART_ORDER.indexOf(part);
+  const rank = (part: PlantPart) => PLANT_PARTS.indexOf(part);
   return traits
     .map((trait, index) => ({ trait, index }))
     .sort((a, b) => rank(a.trait.part) - rank(b.trait.part) || a.index - b.index)
@@ -41,7 +38,6 @@ export function orderColumns(traits: readonly Trait[]): GridColumn[] {
       position: index,
       trait,
       part: trait.part,
-      labels: new Map((trait.values ?? []).map((value) => [String(value.code), value.label || String(value.code)])),
     }));
 }
 
@@ -85,29 +81,19 @@ export function rangeText(cell: { min: number; low: number; high: number; max: n
   return `${formatNumber(cell.min)} (${formatNumber(cell.low)}–${formatNumber(cell.high)}) ${formatNumber(cell.max)} ${unit}`;
 }
 
-/** How a cell reads aloud: "usually furrowed; occasionally scaly", "typically 12–23 cm, extremes 10–25 cm". */
-export function cellWords(column: { labels: ReadonlyMap<string, string>; trait: Pick<Trait, 'unit'> }, cell: Cell): string {
-  if (cell === 'unknown') return 'not coded yet';
-  if (cell === 'inapplicable') return 'does not apply';
-  const unit = column.trait.unit ?? 'cm';
-  if (isNumericCell(cell)) return `typically ${formatNumber(cell.low)}–${formatNumber(cell.high)} ${unit}, extremes ${formatNumber(cell.min)}–${formatNumber(cell.max)} ${unit}`;
-  if (!isDiscreteCell(cell)) return 'not coded yet';
-  const parts = FREQUENCY_ORDER.filter((frequency) => (cell[frequency]?.length ?? 0) > 0).map(
-    (frequency) => `${FREQUENCY_ADVERBS[frequency]} ${(cell[frequency] ?? []).map((value) => column.labels.get(String(value)) ?? String(value)).join(', ')}`,
-  );
-  return parts.length > 0 ? parts.join('; ') : 'no values coded';
+/** How a cell reads aloud, in the engine's words: "usually furrowed, occasionally scaly", "typically 12–23 cm, recorded 10–25 cm". */
+export function cellWords(trait: Pick<Trait, 'values'>, cell: Cell): string {
+  return cellInWords(trait, cell);
 }
 
 /** The cell as the grid draws it. */
 export function cellView(column: GridColumn, cell: Cell | undefined): CellView {
   const value = cell ?? 'unknown';
-  const words = cellWords(column, value);
+  const words = cellWords(column.trait, value);
   if (value === 'unknown') return { kind: 'unknown', words };
   if (value === 'inapplicable') return { kind: 'inapplicable', words };
   if (isNumericCell(value)) return { kind: 'range', text: rangeText(value, column.trait.unit ?? 'cm'), words };
-  const values = FREQUENCY_ORDER.flatMap((frequency) =>
-    ((value as Partial<Record<Frequency, Array<string | number>>>)[frequency] ?? []).map((code) => ({ label: column.labels.get(String(code)) ?? String(code), frequency })),
-  );
+  const values = FREQUENCY_ORDER.flatMap((frequency) => (value[frequency] ?? []).map((code) => ({ label: valueLabel(column.trait, code), frequency })));
   return { kind: 'values', values, words };
 }
 

@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component } from '@angular/core';
-import { FIELD_SAFETY_CAUTION, IDENTIFICATION_CAUTION, USE_CAUTION } from '../../core/layout/cautions';
+import { CAUTIONS } from '@shared/engine';
 
 @Component({
   selector: 'sv-about-page',
@@ -8,8 +8,8 @@ import { FIELD_SAFETY_CAUTION, IDENTIFICATION_CAUTION, USE_CAUTION } from '../..
 })
 export default class AboutPage {
   protected readonly cautions = [
-    { title: 'Field safety', text: FIELD_SAFETY_CAUTION },
-    { title: 'A suggestion, not a determination', text: IDENTIFICATION_CAUTION },
-    { title: 'Not advice on using plants', text: USE_CAUTION },
+    { title: 'Field safety', text: CAUTIONS.fieldSafety },
+    { title: 'A suggestion, not a determination', text: CAUTIONS.identification },
+    { title: 'Not advice on using plants', text: CAUTIONS.use },
   ];
 }

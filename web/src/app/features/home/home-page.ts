@@ -1,10 +1,12 @@
-import { ChangeDetectionStrategy, Component, inject } from '@angular/core';
+import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/core';
 import { RouterLink } from '@angular/router';
 import { MatCard, MatCardActions, MatCardAvatar, MatCardContent, MatCardHeader, MatCardTitle } from '@angular/material/card';
 import { MatAnchor } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { HealthService } from '../../core/api/health-service';
+import { AuthService } from '../../core/auth/auth-service';
+import { ADMIN_ROLES } from '../../core/auth/roles';
 
 @Component({
   selector: 'sv-home-page',
@@ -15,5 +17,7 @@ import { HealthService } from '../../core/api/health-service';
 })
 export default class HomePage {
   private readonly healthService = inject(HealthService);
+  readonly #auth = inject(AuthService);
   protected readonly health = this.healthService.healthResource();
+  protected readonly isAdmin = computed(() => ADMIN_ROLES.includes(this.#auth.me()?.role ?? ''));
 }

@@ -3,6 +3,7 @@ import { FormGroupDirective, NonNullableFormBuilder, ReactiveFormsModule, Valida
 import { MatButton } from '@angular/material/button';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
+import { FIELD_LIMITS } from '@shared/engine';
 import { type CellQuery, QueryService } from '../../core/api/query-service';
 import { FormSubmission } from '../../core/forms/form-submission';
 import { type QueryWorked, movedOn } from './query-worked';
@@ -17,7 +18,7 @@ import { type QueryWorked, movedOn } from './query-worked';
       <form class="stack" [formGroup]="form" (ngSubmit)="answerQuery()" novalidate>
         <mat-form-field appearance="outline" subscriptSizing="dynamic">
           <mat-label>Answer</mat-label>
-          <textarea matInput formControlName="answer" rows="3" maxlength="4000" required></textarea>
+          <textarea matInput formControlName="answer" rows="3" [maxlength]="limits.queryText.max" required></textarea>
           <mat-hint>What the cell should say and why, for the person who raised it</mat-hint>
           @if (fieldError('answer'); as message) {
             <mat-error>{{ message }}</mat-error>
@@ -25,7 +26,7 @@ import { type QueryWorked, movedOn } from './query-worked';
         </mat-form-field>
         <mat-form-field appearance="outline" subscriptSizing="dynamic">
           <mat-label>Evidence</mat-label>
-          <textarea matInput formControlName="evidence" rows="2" maxlength="4000"></textarea>
+          <textarea matInput formControlName="evidence" rows="2" [maxlength]="limits.queryText.max"></textarea>
           <mat-hint>Where the answer comes from: a flora, a specimen, a photo</mat-hint>
           @if (fieldError('evidence'); as message) {
             <mat-error>{{ message }}</mat-error>
@@ -44,6 +45,7 @@ import { type QueryWorked, movedOn } from './query-worked';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class QueryAnswerForm {
+  protected readonly limits = FIELD_LIMITS;
   readonly #queries = inject(QueryService);
   readonly #fb = inject(NonNullableFormBuilder);
 
@@ -60,8 +62,8 @@ export class QueryAnswerForm {
   /** resetting through the directive also forgets that the form was submitted */
   private readonly formDirective = viewChild.required(FormGroupDirective);
   protected readonly form = this.#fb.group({
-    answer: ['', [Validators.required, Validators.minLength(3), Validators.maxLength(4000)]],
-    evidence: ['', Validators.maxLength(4000)],
+    answer: ['', [Validators.required, Validators.minLength(FIELD_LIMITS.queryText.min), Validators.maxLength(FIELD_LIMITS.queryText.max)]],
+    evidence: ['', Validators.maxLength(FIELD_LIMITS.queryText.max)],
   });
 
   protected fieldError(field: 'answer' | 'evidence'): string | null {

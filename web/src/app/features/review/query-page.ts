@@ -5,13 +5,12 @@ import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { EMPTY, Subject, catchError, combineLatest, map, of, startWith, switchMap } from 'rxjs';
-import type { Cell } from '@shared/engine/types';
-import { cellOf } from '@shared/engine';
+import type { Cell } from '@shared/engine';
+import { cellOf, cellInBrief } from '@shared/engine';
 import { AuthService } from '../../core/auth/auth-service';
 import { EditionService } from '../../core/edition/edition-service';
 import { type CellQuery, QueryService } from '../../core/api/query-service';
 import { ApiProblem, readableError } from '../../core/http/api-problem';
-import { describeCell } from '../../shared/matrix-words';
 import { QueryAnswerForm } from './query-answer-form';
 import { QuerySettle } from './query-settle';
 import { QueryRecode, type WorkingCell } from './query-recode';
@@ -124,8 +123,8 @@ export default class QueryPage {
     const trait = this.trait();
     const cell = this.editionCell();
     if (working.status !== 'read' || !trait || cell === null) return null;
-    const words = describeCell(trait, working.cell.value);
-    return words === describeCell(trait, cell) ? null : words;
+    const words = cellInBrief(trait, working.cell.value);
+    return words === cellInBrief(trait, cell) ? null : words;
   });
 
   private readonly answerForm = viewChild(QueryAnswerForm);

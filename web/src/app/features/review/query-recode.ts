@@ -4,13 +4,13 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatButton } from '@angular/material/button';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
-import type { Cell } from '@shared/engine/types';
-import type { CompiledTrait } from '@shared/engine/compiled';
+import type { Cell } from '@shared/engine';
+import type { CompiledTrait } from '@shared/engine';
+import { cellInBrief, FIELD_LIMITS } from '@shared/engine';
 import { type CellQuery, type CellVersion, QueryService, StaleCell } from '../../core/api/query-service';
 import { FormSubmission } from '../../core/forms/form-submission';
 import { CellEditor } from '../../shared/cell-editor';
 import type { CellTrait } from '../../shared/cell-form';
-import { describeCell } from '../../shared/matrix-words';
 import { confirmQuery } from './confirm-query-dialog';
 import { type QueryWorked, movedOn } from './query-worked';
 import type { QueryCellWords } from './review-words';
@@ -35,6 +35,7 @@ function cellTraitOf(trait: CompiledTrait): CellTrait {
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class QueryRecode {
+  protected readonly limits = FIELD_LIMITS;
   readonly #queries = inject(QueryService);
   readonly #dialog = inject(MatDialog);
   readonly #fb = inject(NonNullableFormBuilder);
@@ -69,10 +70,10 @@ export class QueryRecode {
   });
   protected readonly staleWords = computed(() => {
     const stale = this.stale();
-    return stale ? describeCell(this.trait(), stale.value) : '';
+    return stale ? cellInBrief(this.trait(), stale.value) : '';
   });
 
-  protected readonly form = this.#fb.group({ reason: ['', [Validators.required, Validators.minLength(3), Validators.maxLength(2000)]] });
+  protected readonly form = this.#fb.group({ reason: ['', [Validators.required, Validators.minLength(FIELD_LIMITS.changeReason.min), Validators.maxLength(FIELD_LIMITS.changeReason.max)]] });
 
   constructor() {
     // The form holds the reason; a cell the editor says can be written is its form-level rule (added
@@ -108,7 +109,7 @@ export class QueryRecode {
           confirmQuery(this.#dialog, {
             title: 'Recode this cell?',
             lines: [
-              `${words.speciesName} · ${words.traitLabel}: “${this.#fromWords()}” becomes “${describeCell(trait, this.#writableCell())}”.`,
+              `${words.speciesName} · ${words.traitLabel}: “${this.#fromWords()}” becomes “${cellInBrief(trait, this.#writableCell())}”.`,
               'The working matrix changes now and the query is settled as recoded; the sift uses the new value once the next edition is published.',
             ],
             confirm: 'Recode and settle',
@@ -152,7 +153,7 @@ export class QueryRecode {
   /** The cell the recode replaces, as far as this page knows it: the working cell if read, else the published one. */
   #fromWords(): string {
     const working = this.working();
-    if (working.status === 'read') return describeCell(this.trait(), working.cell.value);
+    if (working.status === 'read') return cellInBrief(this.trait(), working.cell.value);
     return this.words().codedNow;
   }
 }

@@ -4,6 +4,7 @@ import { MatDialog } from '@angular/material/dialog';
 import { MatButton } from '@angular/material/button';
 import { MatFormField, MatLabel } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
+import { FIELD_LIMITS } from '@shared/engine';
 import { type CellQuery, QueryService } from '../../core/api/query-service';
 import { FormSubmission } from '../../core/forms/form-submission';
 import { confirmQuery } from './confirm-query-dialog';
@@ -20,7 +21,7 @@ import type { QueryCellWords } from './review-words';
       <form class="stack" [formGroup]="form" (ngSubmit)="confirmSettle()" novalidate>
         <mat-form-field appearance="outline" subscriptSizing="dynamic">
           <mat-label>Note (optional)</mat-label>
-          <textarea matInput formControlName="note" rows="2" maxlength="4000"></textarea>
+          <textarea matInput formControlName="note" rows="2" [maxlength]="limits.queryText.max"></textarea>
         </mat-form-field>
         @if (submission.problem(); as message) {
           <p class="problem small" role="alert">The query was not settled. {{ message }}</p>
@@ -35,6 +36,7 @@ import type { QueryCellWords } from './review-words';
   changeDetection: ChangeDetectionStrategy.OnPush,
 })
 export class QuerySettle {
+  protected readonly limits = FIELD_LIMITS;
   readonly #queries = inject(QueryService);
   readonly #dialog = inject(MatDialog);
   readonly #fb = inject(NonNullableFormBuilder);
@@ -49,7 +51,7 @@ export class QuerySettle {
 
   protected readonly submission = new FormSubmission();
   readonly busy = this.submission.busy;
-  protected readonly form = this.#fb.group({ note: ['', Validators.maxLength(4000)] });
+  protected readonly form = this.#fb.group({ note: ['', Validators.maxLength(FIELD_LIMITS.queryText.max)] });
 
   protected confirmSettle(): void {
     const words = this.words();

@@ -1,7 +1,5 @@
-import type { CompiledMatrix, CompiledTrait } from '@shared/engine/compiled';
-import { cellOf } from '@shared/engine';
+import { cellInBrief, cellOf, commonName, type CompiledMatrix, type CompiledTrait } from '@shared/engine';
 import type { CellQuery, QueryEvent, QueryState } from '../../core/api/query-service';
-import { commonName, describeCell } from '../../shared/matrix-words';
 
 /** Roles that work the Second look queue (the server decides; this only shapes the screens). */
 export function worksSecondLook(role: string | undefined): boolean {
@@ -71,7 +69,7 @@ export function queryCellWords(compiled: CompiledMatrix | null, query: Pick<Cell
     speciesName: taxon ? commonName(taxon) : query.taxonId,
     scientificName: taxon?.scientificName ?? '',
     traitLabel: trait?.label ?? query.traitCode,
-    codedNow: compiled && taxon && trait ? describeCell(trait, cellOf(compiled, taxon.id, trait.code)) : 'not in the current edition',
+    codedNow: compiled && taxon && trait ? cellInBrief(trait, cellOf(compiled, taxon.id, trait.code)) : 'not in the current edition',
     trait,
   };
 }

@@ -1,9 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import { MatButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
-import type { CompiledMatrix } from '@shared/engine/compiled';
-import type { Suggestion } from '@shared/engine/types';
-import { commonName } from '../../shared/matrix-words';
+import { commonName, type CompiledMatrix, type Suggestion } from '@shared/engine';
 
 @Component({
   selector: 'sv-look-at-next',

@@ -2,8 +2,7 @@ import { ChangeDetectionStrategy, Component, computed, input, output } from '@an
 import { MatChip, MatChipRemove, MatChipSet } from '@angular/material/chips';
 import { MatIcon } from '@angular/material/icon';
 import { MatButton } from '@angular/material/button';
-import type { CompiledMatrix } from '@shared/engine/compiled';
-import type { Observation } from '@shared/engine/types';
+import type { CompiledMatrix, Observation } from '@shared/engine';
 import { describeObservation } from '../../shared/matrix-words';
 
 @Component({

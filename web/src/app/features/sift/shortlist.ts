@@ -1,14 +1,13 @@
 import { ChangeDetectionStrategy, Component, computed, input, output, signal } from '@angular/core';
 import { RouterLink } from '@angular/router';
-import { DecimalPipe, PercentPipe } from '@angular/common';
+import { PercentPipe } from '@angular/common';
 import { MatExpansionPanel, MatExpansionPanelContent, MatExpansionPanelHeader, MatExpansionPanelTitle } from '@angular/material/expansion';
 import { MatCheckbox } from '@angular/material/checkbox';
 import { MatButtonToggle, MatButtonToggleGroup } from '@angular/material/button-toggle';
 import { MatButton } from '@angular/material/button';
-import type { CompiledMatrix } from '@shared/engine/compiled';
-import type { Candidate, RankResult, Reason, ReasonStatus } from '@shared/engine/types';
-import { commonName } from '../../shared/matrix-words';
+import { commonName, type Candidate, type CompiledMatrix, type RankResult, type Reason, type ReasonStatus } from '@shared/engine';
 import { MAX_LEEWAY } from './sift-query';
+import { weightInWords } from './measure-words';
 
 export const MAX_SIDE_BY_SIDE = 4;
 const FIRST_FEW = 10;
@@ -52,7 +51,6 @@ function viewOf(compiled: CompiledMatrix, candidate: Candidate): CandidateView {
   imports: [
     RouterLink,
     PercentPipe,
-    DecimalPipe,
     MatExpansionPanel,
     MatExpansionPanelHeader,
     MatExpansionPanelTitle,
@@ -75,6 +73,7 @@ export class Shortlist {
   readonly leewayChange = output<number>();
   readonly chosenChange = output<string[]>();
 
+  protected readonly weightWords = weightInWords;
   protected readonly leewayChoices = Array.from({ length: MAX_LEEWAY + 1 }, (_, leeway) => leeway);
   /** a phone screen shows the first few; the rest are one tap away */
   protected readonly showAll = signal(false);

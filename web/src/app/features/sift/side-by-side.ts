@@ -1,10 +1,7 @@
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import { RouterLink } from '@angular/router';
 import { MatButton } from '@angular/material/button';
-import { compare } from '@shared/engine';
-import type { CompiledMatrix } from '@shared/engine/compiled';
-import type { ComparisonVerdict, SeparationStrength, TraitComparison } from '@shared/engine/types';
-import { commonName, describeCell } from '../../shared/matrix-words';
+import { cellInBrief, commonName, compare, type ComparisonVerdict, type CompiledMatrix, type SeparationStrength, type TraitComparison } from '@shared/engine';
 
 const VERDICT_LABELS: Readonly<Record<ComparisonVerdict, string>> = {
   separates: 'Separates',
@@ -136,7 +133,7 @@ export class SideBySide {
         label: comparison.label,
         verdict: comparison.verdict,
         strength: comparison.strength,
-        cells: result.taxa.map((id) => describeCell(trait, comparison.cells[id] ?? 'unknown')),
+        cells: result.taxa.map((id) => cellInBrief(trait, comparison.cells[id] ?? 'unknown')),
       };
     };
     return [...result.separating, ...result.overlapping, ...result.notCoded].map(toRow);

@@ -4,9 +4,7 @@
  * Invariant: `formatObservations(parseObservations(text, compiled), compiled)` is `text` with only
  * the observations this edition knows, in the order written, so a shared link reads the same.
  */
-import { RANK_DEFAULTS } from '@shared/engine';
-import type { CompiledMatrix, CompiledTrait } from '@shared/engine/compiled';
-import type { LengthUnit, Observation, ObservingSeason } from '@shared/engine/types';
+import { formatNumber, RANK_DEFAULTS, type CompiledMatrix, type CompiledTrait, type LengthUnit, type Observation, type ObservingSeason } from '@shared/engine';
 
 export const DEFAULT_SEASON: ObservingSeason = 'leaf-on';
 /** the engine's own default, so a link without `leeway` ranks as the API does */
@@ -24,11 +22,6 @@ const MEASURE = /^(\d+(?:\.\d+)?)(cm|mm|in)?$/;
 
 export function isNumericObservation(observation: Observation): observation is { trait: string; value: number; unit?: LengthUnit } {
   return 'value' in observation;
-}
-
-/** A length written compactly: at most two decimals, no trailing zeros. */
-export function formatNumber(value: number): string {
-  return String(Math.round(value * 100) / 100);
 }
 
 function parseOne(trait: CompiledTrait, tokens: string[]): Observation | null {
@@ -124,4 +117,18 @@ export function loadLastSift(): SiftQuery | null {
   } catch {
     return null;
   }
+}
+
+/**
+ * The trait's observation with one more answer ("one of these"), in the trait's own answer order;
+ * null when the answer is not one the trait has. A numeric trait takes no answer this way.
+ */
+export function addAnswer(compiled: CompiledMatrix, observations: readonly Observation[], code: string, answer: string | number): Observation | null {
+  const index = compiled.traitIndexByCode.get(code);
+  const trait = index === undefined ? undefined : compiled.traits[index];
+  if (!trait || trait.kind === 'numeric' || !trait.answerCodes.some((known) => String(known) === String(answer))) return null;
+  const current = observations.find((observation) => observation.trait === code);
+  const held = current && !isNumericObservation(current) ? current.values.map(String) : [];
+  const values = trait.answerCodes.filter((known) => held.includes(String(known)) || String(known) === String(answer));
+  return { trait: code, values };
 }

@@ -6,10 +6,10 @@ import { MatIconButton, MatButton } from '@angular/material/button';
 import { MatButtonToggle, MatButtonToggleGroup, type MatButtonToggleChange } from '@angular/material/button-toggle';
 import { MatFormField, MatLabel, MatHint } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
-import type { CompiledMatrix, CompiledTrait } from '@shared/engine/compiled';
-import type { LengthUnit, Observation, ObservingSeason, PlantPart } from '@shared/engine/types';
-import { PART_LABELS, PART_ORDER, illustrationUrl } from '../../shared/matrix-words';
-import { formatNumber, isNumericObservation } from './sift-query';
+import { answerLabel, formatNumber, PART_LABELS, PLANT_PARTS, visibleInSeason, type CompiledMatrix, type CompiledTrait, type LengthUnit, type Observation, type ObservingSeason, type PlantPart } from '@shared/engine';
+import { illustrationUrl } from '../../shared/matrix-words';
+import { isNumericObservation } from './sift-query';
+import { type NumericSpan, convertTyped, countProblem, lengthProblem, numericSpan, outsideNote, plural, spanText } from './measure-words';
 
 /** Discrete traits with more answers than this take a typed count instead of chips. */
 const MAX_COUNT_CHIPS = 12;
@@ -26,6 +26,8 @@ export interface TraitView {
   trait: CompiledTrait;
   input: 'chips' | 'count' | 'measure';
   options: AnswerOption[];
+  /** numeric traits: the lengths species here show */
+  span: NumericSpan | null;
 }
 
 export interface PartGroup {
@@ -43,25 +45,25 @@ export function chipId(trait: string, answer: string | number): string {
   return `chip-${trait}-${answer}`;
 }
 
-function viewOf(trait: CompiledTrait): TraitView {
-  if (trait.kind === 'numeric') return { trait, input: 'measure', options: [] };
-  if (trait.kind === 'count' && trait.answerCount > MAX_COUNT_CHIPS) return { trait, input: 'count', options: [] };
-  const options = trait.answerCodes.map((answer, index) => {
+function viewOf(compiled: CompiledMatrix, trait: CompiledTrait): TraitView {
+  if (trait.kind === 'numeric') return { trait, input: 'measure', options: [], span: numericSpan(compiled, trait) };
+  if (trait.kind === 'count' && trait.answerCount > MAX_COUNT_CHIPS) return { trait, input: 'count', options: [], span: null };
+  const options = trait.answerCodes.map((answer) => {
     const value = trait.values.find((candidate) => candidate.code === String(answer));
     return {
       answer,
-      label: trait.answerLabels[index] ?? String(answer),
+      label: answerLabel(trait, answer),
       definition: value?.definition,
       illustration: illustrationUrl(value?.illustration),
       chipId: chipId(trait.code, answer),
     };
   });
-  return { trait, input: 'chips', options };
+  return { trait, input: 'chips', options, span: null };
 }
 
 /** Visible when the season shows it and no observation contradicts its appliesWhen condition. */
 export function traitVisible(trait: CompiledTrait, season: ObservingSeason, observed: ReadonlyMap<string, Observation>): boolean {
-  if (season === 'leaf-off' && trait.season === 'leaf-on') return false;
+  if (!visibleInSeason(trait, season)) return false;
   for (const [code, allowed] of Object.entries(trait.appliesWhen ?? {})) {
     const observation = observed.get(code);
     if (!observation || isNumericObservation(observation)) continue;
@@ -120,13 +122,19 @@ export class TraitPicker {
 
   protected readonly observed = computed(() => new Map(this.observations().map((observation) => [observation.trait, observation])));
 
-  readonly #views = computed(() => this.compiled().traits.map(viewOf));
+  readonly #views = computed(() => {
+    const compiled = this.compiled();
+    return compiled.traits.map((trait) => viewOf(compiled, trait));
+  });
+  /** what was typed into a number field and cannot be used, by trait code */
+  protected readonly problems = signal<ReadonlyMap<string, string>>(new Map());
+  protected readonly plural = plural;
 
   protected readonly groups = computed<PartGroup[]>(() => {
     const season = this.season();
     const observed = this.observed();
     const visible = this.#views().filter((view) => traitVisible(view.trait, season, observed));
-    return PART_ORDER.map((part) => ({ part, label: PART_LABELS[part], traits: visible.filter((view) => view.trait.part === part) })).filter(
+    return PLANT_PARTS.map((part) => ({ part, label: PART_LABELS[part], traits: visible.filter((view) => view.trait.part === part) })).filter(
       (group) => group.traits.length > 0,
     );
   });
@@ -176,50 +184,91 @@ export class TraitPicker {
     return trait.countMin + trait.answerCount - 1;
   }
 
+  #setProblem(code: string, problem: string | null): void {
+    this.problems.update((problems) => {
+      const next = new Map(problems);
+      if (problem) next.set(code, problem);
+      else next.delete(code);
+      return next;
+    });
+  }
+
+  /** An out-of-range note for a length that counts but lies beyond every species here. */
+  protected measureNote(view: TraitView): string | null {
+    const observation = this.observed().get(view.trait.code);
+    if (!view.span || !observation || !isNumericObservation(observation)) return null;
+    return outsideNote(view.span, observation.value, observation.unit ?? 'cm');
+  }
+
+  protected spanWords(view: TraitView, unit: LengthUnit): string {
+    return view.span ? spanText(view.span, unit) : '';
+  }
+
   protected enterCount(trait: CompiledTrait, text: string): void {
-    const count = Number(text);
-    const valid = text.trim() !== '' && Number.isInteger(count) && count >= trait.countMin && count <= this.countMax(trait);
-    this.changed.emit({ trait: trait.code, observation: valid ? { trait: trait.code, values: [count] } : null });
+    const problem = countProblem(text, trait.countMin, this.countMax(trait));
+    this.#setProblem(trait.code, problem);
+    const valid = text.trim() !== '' && !problem;
+    this.changed.emit({ trait: trait.code, observation: valid ? { trait: trait.code, values: [Number(text)] } : null });
   }
 
   protected enterMeasure(trait: CompiledTrait, text: string, unit: LengthUnit): void {
-    const value = Number(text);
-    const valid = text.trim() !== '' && Number.isFinite(value) && value > 0;
-    this.changed.emit({ trait: trait.code, observation: valid ? { trait: trait.code, value, unit } : null });
+    const problem = lengthProblem(text);
+    this.#setProblem(trait.code, problem);
+    const valid = text.trim() !== '' && !problem;
+    this.changed.emit({ trait: trait.code, observation: valid ? { trait: trait.code, value: Number(text), unit } : null });
   }
 
-  protected switchUnit(trait: CompiledTrait, change: MatButtonToggleChange): void {
+  /** A new unit converts what is typed (8 cm becomes 3.1 in); it never relabels the number. */
+  protected switchUnit(trait: CompiledTrait, change: MatButtonToggleChange, typed: string, from: LengthUnit): void {
     const unit = change.value as LengthUnit;
     this.preferredUnit.set(unit);
-    const current = this.observed().get(trait.code);
-    if (current && isNumericObservation(current)) this.changed.emit({ trait: trait.code, observation: { ...current, unit } });
+    if (typed.trim() === '' || lengthProblem(typed)) return;
+    const value = convertTyped(Number(typed), from, unit);
+    this.changed.emit({ trait: trait.code, observation: { trait: trait.code, value, unit } });
   }
 
   protected clearTrait(code: string): void {
+    this.#setProblem(code, null);
     this.changed.emit({ trait: code, observation: null });
   }
 
-  /** Opens the trait's part, scrolls it into view and focuses its chip (or its first control). */
+  /**
+   * Opens the trait's part, then — once its content is rendered and the panel has finished opening —
+   * scrolls the trait to the middle of the screen and focuses its chip (or its first control).
+   */
   reveal(code: string, answer?: string | number): void {
     const trait = this.compiled().traits.find((candidate) => candidate.code === code);
     if (!trait) return;
     this.setPartOpen(trait.part, true);
-    afterNextRender(() => this.#focusWhenReady(code, answer, true), { injector: this.#injector });
+    afterNextRender(() => void this.#revealWhenReady(code, answer), { injector: this.#injector });
   }
 
-  /**
-   * A panel's lazy content appears a frame or two after it opens, and cannot take focus until its
-   * expand animation has started; try for up to half a second.
-   */
-  #focusWhenReady(code: string, answer: string | number | undefined, scroll: boolean, framesLeft = 30): void {
-    const section = document.getElementById(`trait-${code}`);
-    if (section) {
-      if (scroll) section.scrollIntoView({ block: 'center' });
-      const chip = answer === undefined ? null : document.getElementById(chipId(code, answer));
-      const target = chip?.querySelector<HTMLElement>('[role="option"]') ?? section.querySelector<HTMLElement>('[role="option"], input');
-      target?.focus({ preventScroll: true });
-      if (!target || document.activeElement === target) return;
+  async #revealWhenReady(code: string, answer: string | number | undefined): Promise<void> {
+    // A panel's lazy content appears a frame or two after it opens.
+    let section: HTMLElement | null = null;
+    for (let frame = 0; frame < 30 && !section; frame++) {
+      section = document.getElementById(`trait-${code}`);
+      if (!section) await nextFrame();
     }
-    if (framesLeft > 0) requestAnimationFrame(() => this.#focusWhenReady(code, answer, scroll && !section, framesLeft - 1));
+    if (!section) return;
+    // Scrolling while the panel still grows lands short of the trait: wait for the opening to end.
+    const panel = section.closest('mat-expansion-panel') ?? section;
+    await Promise.allSettled(panel.getAnimations({ subtree: true }).map((animation) => animation.finished));
+    const chip = answer === undefined ? null : document.getElementById(chipId(code, answer));
+    const target = chip?.querySelector<HTMLElement>('[role="option"]') ?? section.querySelector<HTMLElement>('[role="option"], input');
+    // Late layout (drawings loading, the panel's last frame) can still move it: settle over a few frames.
+    let lastTop = Number.NaN;
+    for (let frame = 0; frame < 10; frame++) {
+      const top = section.getBoundingClientRect().top;
+      if (Math.abs(top - lastTop) < 1) break;
+      section.scrollIntoView({ block: section.offsetHeight > window.innerHeight * 0.8 ? 'start' : 'center' });
+      lastTop = section.getBoundingClientRect().top;
+      target?.focus({ preventScroll: true });
+      await nextFrame();
+    }
   }
+}
+
+function nextFrame(): Promise<void> {
+  return new Promise((resolve) => requestAnimationFrame(() => resolve()));
 }

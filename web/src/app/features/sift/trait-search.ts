@@ -4,8 +4,7 @@ import { MatAutocomplete, MatAutocompleteTrigger, MatOption, type MatAutocomplet
 import { MatFormField, MatLabel, MatPrefix } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
 import { MatIcon } from '@angular/material/icon';
-import type { CompiledMatrix } from '@shared/engine/compiled';
-import { PART_LABELS } from '../../shared/matrix-words';
+import { answerLabel, PART_LABELS, type CompiledMatrix } from '@shared/engine';
 
 /** One thing the text box can find: a trait, or one value of it. */
 export interface SearchEntry {
@@ -37,14 +36,14 @@ export function searchEntries(compiled: CompiledMatrix): SearchEntry[] {
   for (const trait of compiled.traits) {
     const part = PART_LABELS[trait.part];
     entries.push({ key: trait.code, trait: trait.code, traitLabel: trait.label, label: trait.label, definition: trait.help ?? '', synonyms: [], part });
-    trait.answerCodes.forEach((answer, index) => {
+    trait.answerCodes.forEach((answer) => {
       const value = trait.values.find((candidate) => candidate.code === String(answer));
       entries.push({
         key: `${trait.code}:${answer}`,
         trait: trait.code,
         answer,
         traitLabel: trait.label,
-        label: trait.answerLabels[index] ?? String(answer),
+        label: answerLabel(trait, answer),
         definition: value?.definition ?? '',
         synonyms: value?.synonyms ?? [],
         part,

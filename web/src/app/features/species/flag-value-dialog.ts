@@ -5,6 +5,7 @@ import { MAT_DIALOG_DATA, MatDialogActions, MatDialogClose, MatDialogContent, Ma
 import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatError, MatFormField, MatHint, MatLabel } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
+import { FIELD_LIMITS } from '@shared/engine';
 import { type CellQuery, QueryService } from '../../core/api/query-service';
 import { ApiProblem, readableError } from '../../core/http/api-problem';
 
@@ -43,7 +44,7 @@ export interface FlagValueData {
           </p>
           <mat-form-field appearance="outline" class="note" subscriptSizing="dynamic">
             <mat-label>What did you see?</mat-label>
-            <textarea matInput formControlName="note" rows="4" maxlength="4000" required cdkFocusInitial></textarea>
+            <textarea matInput formControlName="note" rows="4" [maxlength]="limits.queryText.max" required cdkFocusInitial></textarea>
             <mat-hint>For example: “Saw bundles of two on a young tree.” Say where and on how many trees.</mat-hint>
             @if (noteError(); as message) {
               <mat-error>{{ message }}</mat-error>
@@ -77,9 +78,10 @@ export interface FlagValueData {
 export class FlagValueDialog {
   readonly #queries = inject(QueryService);
   protected readonly data = inject<FlagValueData>(MAT_DIALOG_DATA);
+  protected readonly limits = FIELD_LIMITS;
 
   protected readonly form = inject(NonNullableFormBuilder).group({
-    note: ['', [Validators.required, Validators.minLength(3), Validators.maxLength(4000)]],
+    note: ['', [Validators.required, Validators.minLength(FIELD_LIMITS.queryText.min), Validators.maxLength(FIELD_LIMITS.queryText.max)]],
   });
   protected readonly raised = signal<CellQuery | null>(null);
   protected readonly sending = signal(false);
@@ -88,8 +90,8 @@ export class FlagValueDialog {
   protected noteError(): string | null {
     const control = this.form.controls.note;
     if (control.hasError('required')) return 'Say what you saw that does not match.';
-    if (control.hasError('minlength')) return 'Write at least 3 characters.';
-    if (control.hasError('maxlength')) return 'At most 4000 characters.';
+    if (control.hasError('minlength')) return `Write at least ${FIELD_LIMITS.queryText.min} characters.`;
+    if (control.hasError('maxlength')) return `At most ${FIELD_LIMITS.queryText.max} characters.`;
     return (control.getError('server') as string | undefined) ?? null;
   }
 

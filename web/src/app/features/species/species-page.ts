@@ -5,16 +5,13 @@ import { Location } from '@angular/common';
 import { MatIcon } from '@angular/material/icon';
 import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
-import { cellOf, diagnose } from '@shared/engine';
-import type { CompiledMatrix, CompiledTrait, TaxonInfo } from '@shared/engine/compiled';
-import type { Cell } from '@shared/engine/types';
+import { CAUTIONS, cellInBrief, cellOf, commonName, diagnose, isDiscreteCell, PART_LABELS, PLANT_PARTS, type Cell, type CompiledMatrix, type CompiledTrait, type TaxonInfo } from '@shared/engine';
+import { illustrationUrl } from '../../shared/matrix-words';
 import { EditionService } from '../../core/edition/edition-service';
 import { AuthService } from '../../core/auth/auth-service';
 import { TaxonPhotos } from './taxon-photos';
 import { FlagValueDialog, type FlagValueData } from './flag-value-dialog';
-import { USE_CAUTION, IDENTIFICATION_CAUTION } from '../../core/layout/cautions';
 import { EditionStatus } from '../../shared/edition-status';
-import { PART_LABELS, PART_ORDER, commonName, describeCell, illustrationUrl, isDiscreteCell } from '../../shared/matrix-words';
 
 interface CodedRow {
   trait: CompiledTrait;
@@ -65,8 +62,8 @@ export default class SpeciesPage {
     return (this.taxon()?.photos ?? []).map((photo) => ({ url: photo.url, width: 0, height: 0, caption: photo.caption ?? null, credit: photo.credit ?? null }));
   });
 
-  protected readonly useCaution = USE_CAUTION;
-  protected readonly identificationCaution = IDENTIFICATION_CAUTION;
+  protected readonly useCaution = CAUTIONS.use;
+  protected readonly identificationCaution = CAUTIONS.identification;
 
   protected readonly taxon = computed(() => {
     const compiled = this.editions.compiled();
@@ -86,8 +83,8 @@ export default class SpeciesPage {
     const rows = compiled.traits
       .map((trait) => ({ trait, cell: cellOf(compiled, taxon.id, trait.code) }))
       .filter(({ cell }) => cell !== 'unknown' && cell !== 'inapplicable')
-      .map(({ trait, cell }): CodedRow => ({ trait, words: describeCell(trait, cell), drawings: drawingsOf(trait, cell) }));
-    return PART_ORDER.map((part) => ({ part, label: PART_LABELS[part], rows: rows.filter((row) => row.trait.part === part) })).filter(
+      .map(({ trait, cell }): CodedRow => ({ trait, words: cellInBrief(trait, cell), drawings: drawingsOf(trait, cell) }));
+    return PLANT_PARTS.map((part) => ({ part, label: PART_LABELS[part], rows: rows.filter((row) => row.trait.part === part) })).filter(
       (group) => group.rows.length > 0,
     );
   });
@@ -110,7 +107,7 @@ export default class SpeciesPage {
         return {
           trait: diagnostic.trait,
           label: diagnostic.label,
-          here: describeCell(trait, cellOf(compiled, taxon.id, diagnostic.trait)),
+          here: cellInBrief(trait, cellOf(compiled, taxon.id, diagnostic.trait)),
           strength: diagnostic.strength,
           reliablyNames: diagnostic.separations.filter((item) => item.strength === 'reliable').map((item) => nameOf(item.taxonId)).join(', '),
           usuallyNames: diagnostic.separations.filter((item) => item.strength === 'usual').map((item) => nameOf(item.taxonId)).join(', '),

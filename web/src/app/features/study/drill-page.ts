@@ -5,10 +5,10 @@ import { MatFormField, MatLabel, MatHint } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
+import { CAUTIONS, seededRandom } from '@shared/engine';
 import { EditionService } from '../../core/edition/edition-service';
-import { IDENTIFICATION_CAUTION, USE_CAUTION } from '../../core/layout/cautions';
 import { EditionStatus } from '../../shared/edition-status';
-import { type Difference, type DrillChoice, type DrillQuestion, askableIds, differences, drillQuestions, nameMatcher, seededRandom } from './drill';
+import { type Difference, type DrillChoice, type DrillQuestion, askableIds, differences, drillQuestions, nameMatcher } from './drill';
 import { loadStudySet } from './study-set-loader';
 import { idsInEdition, nameOf } from './study-sheet';
 
@@ -55,8 +55,8 @@ export default class DrillPage {
 
   protected readonly loaded = loadStudySet(this.id);
   protected readonly set = this.loaded.set;
-  protected readonly useCaution = USE_CAUTION;
-  protected readonly identificationCaution = IDENTIFICATION_CAUTION;
+  protected readonly useCaution = CAUTIONS.use;
+  protected readonly identificationCaution = CAUTIONS.identification;
 
   readonly #random = computed(() => seededRandom(seedFrom(this.seed())));
   protected readonly setIds = computed(() => {

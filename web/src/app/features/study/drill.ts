@@ -4,35 +4,11 @@
  * Invariant: every question's choices hold its answer once, and are drawn from the same set.
  */
 import Fuse from 'fuse.js';
-import { cellOf, diagnose } from '@shared/engine';
-import type { CompiledMatrix } from '@shared/engine/compiled';
-import { describeCell } from '../../shared/matrix-words';
+import { cellInBrief, cellOf, diagnose, shuffled, type CompiledMatrix } from '@shared/engine';
 import { type SeparatingTrait, diagnoseInSet, nameOf } from './study-sheet';
 
 /** at most this many species to choose from per question */
 export const CHOICES_PER_QUESTION = 4;
-
-/** A small, fast seeded generator (mulberry32): the same seed gives the same drill. */
-export function seededRandom(seed: number): () => number {
-  let state = seed >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-/** A shuffled copy (Fisher–Yates). */
-export function shuffled<T>(items: readonly T[], random: () => number): T[] {
-  const copy = [...items];
-  for (let i = copy.length - 1; i > 0; i--) {
-    const j = Math.floor(random() * (i + 1));
-    [copy[i], copy[j]] = [copy[j], copy[i]];
-  }
-  return copy;
-}
 
 export interface DrillChoice {
   id: string;
@@ -90,8 +66,8 @@ export function differences(compiled: CompiledMatrix, answer: string, picked: st
       {
         trait: diagnostic.trait,
         label: diagnostic.label,
-        answer: describeCell(trait, cellOf(compiled, answer, diagnostic.trait)),
-        picked: describeCell(trait, cellOf(compiled, picked, diagnostic.trait)),
+        answer: cellInBrief(trait, cellOf(compiled, answer, diagnostic.trait)),
+        picked: cellInBrief(trait, cellOf(compiled, picked, diagnostic.trait)),
       },
     ];
   });

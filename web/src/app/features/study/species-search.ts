@@ -6,9 +6,9 @@ import { MatFormField, MatHint, MatLabel, MatPrefix } from '@angular/material/fo
 import { MatInput } from '@angular/material/input';
 import { MatIcon } from '@angular/material/icon';
 import { catchError, debounceTime, distinctUntilChanged, map, of, startWith, switchMap } from 'rxjs';
+import { commonName } from '@shared/engine';
 import { StudyService, type TaxonMatch } from '../../core/api/study-service';
 import { readableError } from '../../core/http/api-problem';
-import { speciesName } from './study-words';
 
 type SearchState = { status: 'idle' } | { status: 'searching' } | { status: 'done'; matches: TaxonMatch[] } | { status: 'error'; message: string };
 
@@ -110,7 +110,7 @@ export class SpeciesSearch {
     return state.status === 'done' ? state.matches : [];
   });
 
-  protected readonly speciesName = speciesName;
+  protected readonly speciesName = commonName;
   protected readonly displayNothing = () => '';
 
   protected pick(event: MatAutocompleteSelectedEvent): void {

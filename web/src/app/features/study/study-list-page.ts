@@ -6,11 +6,12 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
+import { commonName } from '@shared/engine';
 import { AuthService } from '../../core/auth/auth-service';
 import { type StudySet, StudyService } from '../../core/api/study-service';
 import { readableError } from '../../core/http/api-problem';
 import { ConfirmDeleteDialog, type ConfirmDeleteData } from './confirm-delete-dialog';
-import { eventDay, keepsStudySets, shareLink, speciesName } from './study-words';
+import { eventDay, keepsStudySets, shareLink } from './study-words';
 
 type ListState = { status: 'loading' } | { status: 'ready'; sets: StudySet[] } | { status: 'error'; message: string };
 
@@ -50,7 +51,7 @@ export default class StudyListPage {
   protected readonly exampleLink = shareLink({ id: 12 });
 
   protected readonly eventDay = eventDay;
-  protected readonly speciesName = speciesName;
+  protected readonly speciesName = commonName;
 
   constructor() {
     // Only coaches and admins have sets to list; the page waits until it knows who is signed in.
@@ -68,7 +69,7 @@ export default class StudyListPage {
   }
 
   protected firstSpecies(set: StudySet): string {
-    const names = set.taxa.slice(0, 4).map(speciesName);
+    const names = set.taxa.slice(0, 4).map(commonName);
     return set.taxa.length > 4 ? `${names.join(', ')} and ${set.taxa.length - 4} more` : names.join(', ');
   }
 

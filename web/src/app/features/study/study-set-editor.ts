@@ -9,11 +9,12 @@ import { MatAnchor, MatButton, MatIconButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatSnackBar } from '@angular/material/snack-bar';
+import { FIELD_LIMITS, commonName } from '@shared/engine';
 import { AuthService } from '../../core/auth/auth-service';
 import { type StudySetDraft, StudyService, type TaxonMatch } from '../../core/api/study-service';
 import { ApiProblem, readableError } from '../../core/http/api-problem';
 import type { HoldsUnsavedChanges } from '../../core/navigation/unsaved-changes';
-import { keepsStudySets, shareLink, speciesName, studySetId } from './study-words';
+import { keepsStudySets, shareLink, studySetId } from './study-words';
 import { SpeciesSearch } from './species-search';
 
 /** One species in the list being edited. */
@@ -73,10 +74,10 @@ export default class StudySetEditor implements HoldsUnsavedChanges {
   });
 
   protected readonly form = this.#fb.group({
-    name: ['', [Validators.required, Validators.maxLength(120)]],
-    event: ['', Validators.maxLength(200)],
+    name: ['', [Validators.required, Validators.maxLength(FIELD_LIMITS.studySetName.max)]],
+    event: ['', Validators.maxLength(FIELD_LIMITS.studySetEvent.max)],
     eventDate: [''],
-    notes: ['', Validators.maxLength(4000)],
+    notes: ['', Validators.maxLength(FIELD_LIMITS.studySetNotes.max)],
     shared: [false],
   });
   protected readonly species = signal<ListedSpecies[]>([]);
@@ -95,7 +96,8 @@ export default class StudySetEditor implements HoldsUnsavedChanges {
     return saved?.shared ? shareLink(saved) : null;
   });
 
-  protected readonly speciesName = speciesName;
+  protected readonly speciesName = commonName;
+  protected readonly limits = FIELD_LIMITS;
 
   readonly unsavedSubject = 'this study set';
   /** the fields and species as last loaded or saved; anything else is an unsaved edit */
@@ -159,7 +161,7 @@ export default class StudySetEditor implements HoldsUnsavedChanges {
       next.delete(id);
       return next;
     });
-    if (removed) this.#snackBar.open(`Removed ${speciesName(removed)}.`, undefined, { duration: 3000 });
+    if (removed) this.#snackBar.open(`Removed ${commonName(removed)}.`, undefined, { duration: 3000 });
   }
 
   protected dropSpecies(event: CdkDragDrop<ListedSpecies[]>): void {

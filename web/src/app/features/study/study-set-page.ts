@@ -5,11 +5,11 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
+import { CAUTIONS, commonName } from '@shared/engine';
 import { AuthService } from '../../core/auth/auth-service';
 import { EditionService } from '../../core/edition/edition-service';
-import { IDENTIFICATION_CAUTION, USE_CAUTION } from '../../core/layout/cautions';
 import { loadStudySet } from './study-set-loader';
-import { eventDay, shareLink, speciesName } from './study-words';
+import { eventDay, shareLink } from './study-words';
 
 /** One study set as students see it: its species, and the way to its study sheet and drills. */
 @Component({
@@ -30,8 +30,8 @@ export default class StudySetPage {
 
   protected readonly loaded = loadStudySet(this.id);
   protected readonly set = this.loaded.set;
-  protected readonly useCaution = USE_CAUTION;
-  protected readonly identificationCaution = IDENTIFICATION_CAUTION;
+  protected readonly useCaution = CAUTIONS.use;
+  protected readonly identificationCaution = CAUTIONS.identification;
 
   /** the owner or an admin may change the set (the server checks again) */
   protected readonly mayChange = computed(() => {
@@ -49,7 +49,7 @@ export default class StudySetPage {
     const compiled = this.#editions.compiled();
     return (this.set()?.taxa ?? []).map((taxon) => ({
       ...taxon,
-      name: speciesName(taxon),
+      name: commonName(taxon),
       // unknown until the edition is here; then whether the edition holds the species
       inEdition: compiled ? compiled.taxonIndexById.has(taxon.id) : true,
     }));

@@ -3,11 +3,11 @@ import { RouterLink } from '@angular/router';
 import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
+import { CAUTIONS, commonName } from '@shared/engine';
 import { EditionService } from '../../core/edition/edition-service';
-import { FIELD_SAFETY_CAUTION, IDENTIFICATION_CAUTION, USE_CAUTION } from '../../core/layout/cautions';
 import { loadStudySet } from './study-set-loader';
 import { diagnoseInSet, idsInEdition, keyForSet } from './study-sheet';
-import { eventDay, speciesName } from './study-words';
+import { eventDay } from './study-words';
 
 /** Set on <body> while the sheet is open, so print rules can leave the app's top bar off the paper. */
 const PRINTING_CLASS = 'sv-study-sheet-open';
@@ -31,7 +31,7 @@ export default class StudySheetPage {
   protected readonly loaded = loadStudySet(this.id);
   protected readonly set = this.loaded.set;
   protected readonly day = computed(() => eventDay(this.set()?.eventDate ?? null));
-  protected readonly cautions = [FIELD_SAFETY_CAUTION, USE_CAUTION, IDENTIFICATION_CAUTION];
+  protected readonly cautions = [CAUTIONS.fieldSafety, CAUTIONS.use, CAUTIONS.identification];
 
   protected readonly ids = computed(() => {
     const compiled = this.editions.compiled();
@@ -42,7 +42,7 @@ export default class StudySheetPage {
     const compiled = this.editions.compiled();
     const set = this.set();
     if (!compiled || !set) return [];
-    return set.taxa.filter((taxon) => !compiled.taxonIndexById.has(taxon.id)).map(speciesName);
+    return set.taxa.filter((taxon) => !compiled.taxonIndexById.has(taxon.id)).map(commonName);
   });
   protected readonly diagnoses = computed(() => {
     const compiled = this.editions.compiled();

@@ -1,8 +1,6 @@
 /** What the study sheet and the drills take from the engine for one study set. */
-import { buildKey, cellOf, diagnose } from '@shared/engine';
-import type { CompiledMatrix, CompiledTrait } from '@shared/engine/compiled';
-import type { Cell, DichotomousKey, KeyNode, SeparationStrength } from '@shared/engine/types';
-import { commonName, describeCell, illustrationUrl, isDiscreteCell } from '../../shared/matrix-words';
+import { buildKey, cellInBrief, cellOf, commonName, diagnose, isDiscreteCell, type Cell, type CompiledMatrix, type CompiledTrait, type DichotomousKey, type KeyNode, type SeparationStrength } from '@shared/engine';
+import { illustrationUrl } from '../../shared/matrix-words';
 
 export interface Drawing {
   url: string;
@@ -84,7 +82,7 @@ export function diagnoseInSet(compiled: CompiledMatrix, id: string, setIds: read
       return {
         trait: diagnostic.trait,
         label: diagnostic.label,
-        here: trait ? describeCell(trait, cell) : diagnostic.text,
+        here: trait ? cellInBrief(trait, cell) : diagnostic.text,
         drawings: trait ? drawingsOf(trait, cell) : [],
         strength: diagnostic.strength,
         separates: diagnostic.separates.map((other) => nameOf(compiled, other)),

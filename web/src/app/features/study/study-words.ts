@@ -1,15 +1,9 @@
-/** Small helpers the study set pages share: names, links and who may keep sets. */
-import type { StudySet, StudySetSpecies } from '../../core/api/study-service';
+/** Small helpers the study set pages share: links, days and who may keep sets. */
+import type { StudySet } from '../../core/api/study-service';
 
 /** Roles whose holders make and keep study sets (the server decides; this only picks the screen). */
 export function keepsStudySets(role: string | undefined): boolean {
   return role === 'coach' || role === 'admin';
-}
-
-/** The first common name, capitalised, or the scientific name when there is none. */
-export function speciesName(species: Pick<StudySetSpecies, 'commonNames' | 'scientificName'>): string {
-  const name = species.commonNames[0];
-  return name ? name.charAt(0).toUpperCase() + name.slice(1) : species.scientificName;
 }
 
 /** The address students open to read a shared set. */
