@@ -4,9 +4,9 @@
  * from memory of those texts unless a stored copy is named.
  */
 import { expect } from 'chai';
-import type { DiscreteCell, MatrixDocument, Taxon, Trait } from '@shared/engine/types';
+import { isDiscreteCell, isNumericCell, type DiscreteCell, type MatrixDocument, type Taxon, type Trait } from '@shared/engine';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
-import { isDiscreteCell, isNumericCell, separatingTraits, valuesOf } from './matrix-facts';
+import { separatingTraits, valuesOf } from './matrix-facts';
 
 const doc: MatrixDocument = loadReferenceMatrix();
 const taxonById = new Map(doc.taxa.map((item) => [item.id, item]));
