@@ -177,6 +177,143 @@ describe('api: curation (Matrix desk)', () => {
     });
   });
 
+  describe('cell rules (each refused, nothing written)', () => {
+    const BARK = '/api/v1/curation/cells/pinus-taeda/bark-texture';
+    const COUNT = '/api/v1/curation/cells/pinus-taeda/needles-per-fascicle';
+    const namesOf = (body: { 'invalid-params'?: Array<{ name: string }> }) => (body['invalid-params'] ?? []).map((param) => param.name);
+
+    /** Writes `value` at the cell's current version and expects `status`; checks the cell and the audit are untouched. */
+    const refused = async (url: string, value: unknown, status: number) => {
+      const [taxonId, traitCode] = url.split('/').slice(-2) as [string, string];
+      const now = (await as(curator).get(url).expect(200)).body;
+      const auditBefore = await auditCount();
+      const res = await as(curator).put(url, { value, version: now.version, reason: 'breaks a cell rule' }).expect(status);
+      expect(res.headers['content-type']).to.match(/^application\/problem\+json/);
+      expect(await storedCell(taxonId, traitCode)).to.deep.equal({ value: now.value, version: now.version });
+      expect(await auditCount()).to.equal(auditBefore);
+      return res.body;
+    };
+
+    // the contract: "a numeric range min ≤ low ≤ high ≤ max in cm" (openapi.yaml, setCell)
+    it('refuses a typical range whose low is above its high, naming low and high', async () => {
+      const body = await refused(CELL, { min: 10, low: 24, high: 23, max: 25 }, 422);
+      expect(body.type).to.match(/\/problems\/matrix-invalid$/);
+      expect(namesOf(body).sort()).to.deep.equal(['/body/value/high', '/body/value/low']);
+      expect(body.errors.map((error: { code: string }) => error.code)).to.deep.equal(['range-out-of-order']);
+      const draft = (await as(curator).get('/api/v1/curation/draft/summary').expect(200)).body;
+      expect(draft.errors).to.deep.equal([]);
+      expect(draft.invalidCells).to.deep.equal([]);
+    });
+
+    it('refuses extremes inside the typical range, naming the fields out of order', async () => {
+      expect(namesOf(await refused(CELL, { min: 13, low: 12, high: 23, max: 25 }, 422)).sort()).to.deep.equal(['/body/value/low', '/body/value/min']);
+      expect(namesOf(await refused(CELL, { min: 10, low: 12, high: 23, max: 20 }, 422)).sort()).to.deep.equal(['/body/value/high', '/body/value/max']);
+    });
+
+    it('refuses a negative length, naming the field', async () => {
+      expect(namesOf(await refused(CELL, { min: -1, low: 12, high: 23, max: 25 }, 422))).to.deep.equal(['/body/value/min']);
+    });
+
+    it('refuses a range on a state trait and coded values on a numeric trait', async () => {
+      expect(namesOf(await refused(BARK, { min: 1, low: 2, high: 3, max: 4 }, 422))).to.deep.equal(['/body/value']);
+      expect(namesOf(await refused(CELL, { usual: ['furrowed'] }, 422))).to.deep.equal(['/body/value']);
+    });
+
+    it('refuses a state value that is not one of the trait\'s codes, naming its frequency list', async () => {
+      const body = await refused(BARK, { usual: ['furrowed'], occasional: ['corky'] }, 422);
+      expect(namesOf(body)).to.deep.equal(['/body/value/occasional']);
+      expect(body.detail).to.contain('corky');
+    });
+
+    it('refuses a frequency other than usual, occasional or rare (the contract\'s schema)', async () => {
+      const body = await refused(BARK, { usual: ['furrowed'], often: ['scaly'] }, 400);
+      expect(namesOf(body).some((name) => name.startsWith('/body/value'))).to.equal(true);
+    });
+
+    it('refuses the same value under two frequencies', async () => {
+      expect(namesOf(await refused(BARK, { usual: ['furrowed'], rare: ['furrowed'] }, 422))).to.deep.equal(['/body/value/rare']);
+    });
+
+    // needles per bundle runs 1–5 (countRange in seeds/matrix/traits.json; pines have 1–5 needles per
+    // fascicle, Flora of North America vol. 2, Pinus)
+    it('refuses a count outside the trait\'s range and a count that is not a whole number', async () => {
+      expect(namesOf(await refused(COUNT, { usual: [3], rare: [6] }, 422))).to.deep.equal(['/body/value/rare']);
+      expect(namesOf(await refused(COUNT, { usual: ['three'] }, 422))).to.deep.equal(['/body/value/usual']);
+    });
+
+    it('keeps unknown and inapplicable exclusive: never mixed with coded values', async () => {
+      expect(namesOf(await refused(BARK, { usual: ['furrowed'], rare: ['inapplicable'] }, 422))).to.deep.equal(['/body/value/rare']);
+      expect(namesOf(await refused(BARK, { usual: ['unknown'] }, 422))).to.deep.equal(['/body/value/usual']);
+      await refused(BARK, ['unknown', 'inapplicable'], 400);
+      await refused(BARK, 'unknown and inapplicable', 400);
+    });
+
+    it('accepts unknown and inapplicable on any trait', async () => {
+      for (const value of ['inapplicable', 'unknown'] as const) {
+        const now = (await as(curator).get(BARK).expect(200)).body;
+        await as(curator).put(BARK, { value, version: now.version, reason: `mark it ${value}` }).expect(200);
+      }
+      const now = (await as(curator).get(BARK).expect(200)).body;
+      await as(curator).put(BARK, { value: { usual: ['furrowed'], occasional: ['scaly'] }, version: now.version, reason: 'furrowed, flaking into scales' }).expect(200);
+    });
+
+    it('refuses to publish while a cell breaks a rule (409 naming it); the draft says so, and fixing it lets it publish', async () => {
+      // a cell saved before the rule was enforced: written straight into the database
+      const now = (await as(curator).get(CELL).expect(200)).body;
+      await created.context.models.Cell.update({ value: { min: 10, low: 24, high: 23, max: 25 } }, { where: { taxonId: 'pinus-taeda', traitCode: 'needle-length' } });
+      const draft = (await as(curator).get('/api/v1/curation/draft/summary').expect(200)).body;
+      expect(draft.publishable).to.equal(false);
+      expect(draft.invalidCells).to.deep.equal([{ taxonId: 'pinus-taeda', traitCode: 'needle-length', problems: [draft.errors[0].message] }]);
+      expect(draft.errors.map((error: { code: string }) => error.code)).to.deep.equal(['range-out-of-order']);
+      const editionsBefore = await created.context.models.Edition.count();
+      const res = await as(curator).post('/api/v1/editions', { title: 'With a bad cell', reason: 'should not publish' }).expect(409);
+      expect(res.body.type).to.match(/\/problems\/invalid-cells$/);
+      expect(res.body.cells.map((cell: { taxonId: string; traitCode: string }) => `${cell.taxonId}/${cell.traitCode}`)).to.deep.equal(['pinus-taeda/needle-length']);
+      expect(namesOf(res.body)).to.deep.equal(['pinus-taeda/needle-length']);
+      expect(await created.context.models.Edition.count()).to.equal(editionsBefore);
+      await as(curator).put(CELL, { value: now.value, version: now.version, reason: 'range back in order' }).expect(200);
+      const fixed = (await as(curator).get('/api/v1/curation/draft/summary').expect(200)).body;
+      expect(fixed.invalidCells).to.deep.equal([]);
+      expect(fixed.errors).to.deep.equal([]);
+    });
+  });
+
+  describe('the working matrix for the grid', () => {
+    it('lists every live taxon and trait with every cell and the version of each written cell', async () => {
+      const res = await as(curator).get('/api/v1/curation/matrix').expect(200);
+      expect(res.headers['cache-control']).to.match(/private/);
+      const taxonCount = await created.context.models.Taxon.count({ where: { retired: false } });
+      const traitCount = await created.context.models.Trait.count({ where: { retired: false } });
+      expect(res.body.taxa).to.have.length(taxonCount);
+      expect(res.body.traits).to.have.length(traitCount);
+      const taeda = res.body.taxa.find((taxon: { id: string }) => taxon.id === 'pinus-taeda');
+      const stored = await storedCell('pinus-taeda', 'needle-length');
+      expect(taeda.cells['needle-length']).to.deep.equal(stored?.value);
+      expect(taeda.versions['needle-length']).to.equal(stored?.version);
+      expect(taeda.family).to.equal('Pinaceae');
+      await request(created.app).get('/api/v1/curation/matrix').set('Authorization', `Bearer ${learner.token}`).expect(403);
+    });
+
+    it('packs each taxon\'s cells into one JSON text in the order of the traits, with the versions in that order', async () => {
+      const full = (await as(curator).get('/api/v1/curation/matrix').expect(200)).body;
+      const packed = (await as(curator).get('/api/v1/curation/matrix').query({ format: 'packed' }).expect(200)).body;
+      const codes: string[] = packed.traits.map((trait: { code: string }) => trait.code);
+      expect(codes).to.deep.equal(full.traits.map((trait: { code: string }) => trait.code));
+      for (const [index, taxon] of packed.taxa.entries()) {
+        const other = full.taxa[index];
+        expect(taxon.id).to.equal(other.id);
+        expect(taxon).to.not.have.property('cells');
+        const cells: unknown[] = JSON.parse(taxon.packed);
+        expect(cells).to.have.length(codes.length);
+        codes.forEach((code, at) => {
+          expect(cells[at], `${taxon.id} × ${code}`).to.deep.equal(other.cells[code] ?? 'unknown');
+          expect(taxon.versions[at]).to.equal(other.versions[code] ?? 0);
+        });
+      }
+      await as(curator).get('/api/v1/curation/matrix').query({ format: 'columns' }).expect(400);
+    });
+  });
+
   describe('publishing', () => {
     it('publishes the draft as edition 2; identify, lookups and the bundle then serve it', async () => {
       const bundleBefore = await request(created.app).get('/api/v1/editions/current/bundle').expect(200);

@@ -173,6 +173,7 @@ describe('api: permission table (every route × every caller)', function () {
       expect: users(404, ['curator']),
     },
     { operation: 'GET /api/v1/curation/audit', prepare: () => ({ url: '/api/v1/curation/audit' }), expect: users(200, ['curator']) },
+    { operation: 'GET /api/v1/curation/matrix', prepare: () => ({ url: '/api/v1/curation/matrix' }), expect: users(200, ['curator']) },
     { operation: 'GET /api/v1/curation/draft/summary', prepare: () => ({ url: '/api/v1/curation/draft/summary' }), expect: users(200, ['curator']) },
     {
       operation: 'POST /api/v1/curation/imports',

@@ -5,6 +5,7 @@ import type { EditionModels } from '../editions/edition-models';
 import { problems } from '../http/problem';
 import { recordAudit, type Actor } from '../matrix/audit-store';
 import { changeKeepingMatrixValid } from './matrix-guard';
+import { cellInvalid } from '../matrix/matrix-problems';
 import { writeTransaction } from '../matrix/write-transaction';
 import { readCell, writeCellIfVersion, type CellState } from './working-matrix-store';
 
@@ -40,8 +41,13 @@ async function setCell(deps: CurationDeps, actor: Actor, taxonId: string, traitC
   await assertCellExists(deps.models, taxonId, traitCode);
   return writeTransaction(deps.sequelize, async (transaction) => {
     const before = await readCell(deps.models, taxonId, traitCode, transaction);
-    const version = await changeKeepingMatrixValid(deps.models, transaction, `The cell ${taxonId} × ${traitCode}`, () =>
-      writeCellIfVersion(deps.sequelize, deps.models, { taxonId, traitCode, value: change.value }, change.version, transaction),
+    const what = `The cell ${taxonId} × ${traitCode}`;
+    const version = await changeKeepingMatrixValid(
+      deps.models,
+      transaction,
+      what,
+      () => writeCellIfVersion(deps.sequelize, deps.models, { taxonId, traitCode, value: change.value }, change.version, transaction),
+      (introduced) => cellInvalid(what, change.value, introduced),
     );
     if (version === undefined) {
       const current = await readCell(deps.models, taxonId, traitCode, transaction);

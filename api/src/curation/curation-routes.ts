@@ -86,6 +86,12 @@ export function curationRoutes(deps: CurationDeps & { editions: EditionCatalog }
     res.json({ entries, next: entries.length > 0 && entries.length === Number(query['limit'] ?? 50) ? entries[entries.length - 1]!.id : null });
   });
 
+  router.get('/matrix', async (req, res) => {
+    const matrix = await draft.workingMatrix(req.query['format'] === 'packed' ? 'packed' : 'full');
+    cachePolicy.privateRevalidate(res);
+    res.json(matrix);
+  });
+
   router.get('/draft/summary', async (_req, res) => {
     const summary = await draft.summarise();
     cachePolicy.privateRevalidate(res);

@@ -1,9 +1,11 @@
-import { validateMatrix, type MatrixProblem } from '@shared/engine';
+import type { Cell, MatrixProblem, Trait } from '@shared/engine';
 import type { MatrixModels } from '../matrix/matrix-models';
 import type { EditionSummary, EditionModels } from '../editions/edition-models';
 import type { EditionCatalog } from '../editions/edition-catalog';
 import { summariseChanges } from '../editions/edition-snapshot';
 import { readWorkingMatrix } from '../matrix/matrix-store';
+import { curatedProblems, invalidCells } from '../matrix/matrix-problems';
+import { readCellVersions } from './working-matrix-store';
 
 export interface DraftDeps {
   models: MatrixModels & EditionModels;
@@ -17,6 +19,8 @@ export interface DraftSummary {
   /** true when the draft has no errors and differs from the current edition */
   publishable: boolean;
   errors: MatrixProblem[];
+  /** the cells that break a cell rule (publishing is refused while there are any) */
+  invalidCells: Array<{ taxonId: string; traitCode: string; problems: string[] }>;
   warnings: number;
 }
 
@@ -25,17 +29,64 @@ async function summariseDraft({ models, editions }: DraftDeps): Promise<DraftSum
   const draft = await readWorkingMatrix(models, { title: 'draft' });
   const current = (await models.Edition.count()) > 0 ? await editions.current() : undefined;
   const summary = summariseChanges(current?.document, draft);
-  const found = validateMatrix(draft);
+  const found = curatedProblems(draft);
   const errors = found.filter((problem) => problem.severity === 'error');
   const changed =
     summary.cellsChanged + summary.taxaAdded.length + summary.taxaRemoved.length + summary.traitsAdded.length + summary.traitsRemoved.length > 0;
-  return { basedOn: current?.number ?? null, summary, publishable: errors.length === 0 && changed, errors: errors.slice(0, 100), warnings: found.length - errors.length };
+  return { basedOn: current?.number ?? null, summary, publishable: errors.length === 0 && changed, errors: errors.slice(0, 100), invalidCells: invalidCells(errors).slice(0, 100), warnings: found.length - errors.length };
 }
 
-/** The draft: the working matrix compared with the current edition. */
+/** The working matrix as the Matrix desk grid shows it: every live taxon and trait, every cell and its version. */
+export interface WorkingMatrixView {
+  basedOn: number | null;
+  traits: Trait[];
+  taxa: Array<{ id: string; scientificName: string; family: string; commonNames: string[]; cells: Record<string, Cell>; versions: Record<string, number> }>;
+}
+
+/**
+ * The same, packed for a large grid: each taxon's cells are one JSON text of the cells in the order of
+ * `traits` (a page decodes only the rows it draws, instead of building every cell at once), and its
+ * versions a list in that order (0: never written).
+ */
+export interface PackedWorkingMatrixView {
+  basedOn: number | null;
+  traits: Trait[];
+  taxa: Array<{ id: string; scientificName: string; family: string; commonNames: string[]; packed: string; versions: number[] }>;
+}
+
+async function readWorkingMatrixView({ models }: DraftDeps, format: 'full' | 'packed' = 'full'): Promise<WorkingMatrixView | PackedWorkingMatrixView> {
+  const document = await readWorkingMatrix(models, { title: 'working matrix' });
+  const versions = await readCellVersions(models);
+  const latest = await models.Edition.max<number | null, InstanceType<typeof models.Edition>>('number');
+  const codes = document.traits.map((trait) => trait.code);
+  const live = new Set(codes);
+  const header = { basedOn: latest ?? null, traits: document.traits };
+  const names = (taxon: (typeof document.taxa)[number]) => ({ id: taxon.id, scientificName: taxon.scientificName, family: taxon.family, commonNames: taxon.commonNames });
+  if (format === 'packed') {
+    return {
+      ...header,
+      taxa: document.taxa.map((taxon) => ({
+        ...names(taxon),
+        packed: JSON.stringify(codes.map((code) => taxon.cells[code] ?? 'unknown')),
+        versions: codes.map((code) => versions.get(taxon.id)?.[code] ?? 0),
+      })),
+    };
+  }
+  return {
+    ...header,
+    taxa: document.taxa.map((taxon) => ({
+      ...names(taxon),
+      cells: taxon.cells,
+      versions: Object.fromEntries(Object.entries(versions.get(taxon.id) ?? {}).filter(([code]) => live.has(code))),
+    })),
+  };
+}
+
+/** The draft: the working matrix compared with the current edition, and the working matrix for the grid. */
 export function draftService(deps: DraftDeps) {
   return {
     summarise: summariseDraft.bind(null, deps),
+    workingMatrix: readWorkingMatrixView.bind(null, deps),
   };
 }
 

@@ -47,3 +47,15 @@ export async function writeCellIfVersion(
   );
   return affected === 1 ? expectedVersion + 1 : undefined;
 }
+
+/** The version of every written cell, by taxon and trait. */
+export async function readCellVersions(models: MatrixModels): Promise<Map<string, Record<string, number>>> {
+  const rows = await models.Cell.findAll({ attributes: ['taxonId', 'traitCode', 'version'], raw: true });
+  const versions = new Map<string, Record<string, number>>();
+  for (const row of rows) {
+    const ofTaxon = versions.get(row.taxonId) ?? {};
+    ofTaxon[row.traitCode] = row.version;
+    versions.set(row.taxonId, ofTaxon);
+  }
+  return versions;
+}

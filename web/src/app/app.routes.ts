@@ -2,7 +2,7 @@ import { type Routes } from '@angular/router';
 import { unsavedChangesGuard } from './core/navigation/unsaved-changes';
 import { authGuard } from './core/auth/auth-guard';
 import { roleGuard } from './core/auth/role-guard';
-import { ADMIN_ROLES, KEY_HOLDER_ROLES } from './core/auth/roles';
+import { ADMIN_ROLES, CURATOR_ROLES, KEY_HOLDER_ROLES } from './core/auth/roles';
 
 export const routes: Routes = [
   { path: '', title: 'Sylvasift', loadComponent: () => import('./features/home/home-page') },
@@ -23,6 +23,7 @@ export const routes: Routes = [
   { path: 'review', title: 'Second look · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/review/review-queue-page') },
   { path: 'review/queries/:id', redirectTo: '/review/:id' },
   { path: 'review/:id', title: 'Query · Sylvasift', canActivate: [authGuard], loadComponent: () => import('./features/review/query-page') },
+  { path: 'desk', canActivate: [roleGuard(CURATOR_ROLES)], loadChildren: () => import('./features/desk/desk-routes').then((m) => m.DESK_ROUTES) },
   { path: 'keys', title: 'Partner keys · Sylvasift', canActivate: [roleGuard(KEY_HOLDER_ROLES)], loadComponent: () => import('./features/keys/keys-page') },
   { path: 'admin', title: 'Admin · Sylvasift', canActivate: [roleGuard(ADMIN_ROLES)], loadComponent: () => import('./features/admin/admin-page') },
   { path: 'about', title: 'About Sylvasift · Sylvasift', loadComponent: () => import('./features/home/about-page') },

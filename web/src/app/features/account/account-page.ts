@@ -20,7 +20,7 @@ import { FormSubmission } from '../../core/forms/form-submission';
           <div><dt>Member since</dt><dd>{{ me.createdAt | date: 'longDate' }}</dd></div>
         }
       </dl>
-      <p>Study sets, study sheets and drills are under <a routerLink="/study">Study</a>. @if (me.role === 'reviewer' || me.role === 'admin') {Queries on doubtful values wait for an answer in <a routerLink="/review">Second look</a>.} @else {The queries you raise on doubtful values, from a species page, are under <a routerLink="/review">Your queries</a>.} Curating the matrix has no pages yet: curators do that through the <a href="/api/docs">API</a>.</p>
+      <p>Study sets, study sheets and drills are under <a routerLink="/study">Study</a>. @if (me.role === 'reviewer' || me.role === 'admin') {Queries on doubtful values wait for an answer in <a routerLink="/review">Second look</a>.} @else {The queries you raise on doubtful values, from a species page, are under <a routerLink="/review">Your queries</a>.} @if (me.role === 'curator' || me.role === 'admin') {You keep the matrix on the <a routerLink="/desk">Matrix desk</a>: the working matrix, editions and the change log.} @else {Curators keep the matrix on the Matrix desk.}</p>
     } @else if (loading.problem(); as message) {
       <p class="problem" role="alert">{{ message }}</p>
     } @else {
