@@ -48,6 +48,11 @@ export default class StudyListPage {
     return state.status === 'error' ? state.message : '';
   });
   protected readonly ownId = computed(() => Number(this.auth.me()?.id));
+  /** other people's shared sets opened on this device, kept there for offline drills */
+  protected readonly sharedWithMe = computed(() => {
+    const me = this.auth.me();
+    return me ? this.#study.sharedSetsOpenedHere(Number(me.id)) : [];
+  });
   protected readonly exampleLink = shareLink({ id: 12 });
 
   protected readonly eventDay = eventDay;

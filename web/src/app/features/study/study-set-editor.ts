@@ -97,6 +97,7 @@ export default class StudySetEditor implements HoldsUnsavedChanges {
   });
 
   protected readonly speciesName = commonName;
+  protected readonly limits = FIELD_LIMITS;
 
   readonly unsavedSubject = 'this study set';
   /** the fields and species as last loaded or saved; anything else is an unsaved edit */
