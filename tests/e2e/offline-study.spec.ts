@@ -175,6 +175,13 @@ describe('e2e: studying on a phone, online and then offline', function () {
     const page = context.pages()[0];
     await context.setOffline(true);
     try {
+      // The Study page still knows who is signed in and lists the set opened online.
+      await page.goto(`${running.baseUrl}/study`);
+      await page.locator(`[data-shared-set="${setId}"]`).waitFor({ timeout: 15_000 });
+      await page.locator(`[data-shared-set="${setId}"]`).getByRole('link', { name: /Drills/ }).tap();
+      await page.waitForURL(`${running.baseUrl}/study/${setId}/drill`);
+      await page.locator('#question-heading').waitFor({ timeout: 15_000 });
+
       await page.goto(`${running.baseUrl}/study/${setId}/drill?seed=7`);
       await page.locator('#question-heading').waitFor({ timeout: 15_000 });
       expect(await page.locator('.problem').count(), 'no error shown').to.equal(0);
@@ -233,7 +240,8 @@ describe('e2e: studying on a phone, online and then offline', function () {
     // "maple" alone fits several equally well: Enter shows the list and adds nothing.
     await search.fill('maple');
     const options = page.getByRole('option');
-    await options.first().waitFor();
+    // fresh matches for these words: Boxelder was not among those for "sugr maple"
+    await page.getByRole('option', { name: /boxelder/i }).waitFor();
     expect(await options.count()).to.be.greaterThan(1);
     await search.press('Enter');
     await page.waitForTimeout(300);

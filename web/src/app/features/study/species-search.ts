@@ -6,7 +6,7 @@ import { MatFormField, MatHint, MatLabel, MatPrefix } from '@angular/material/fo
 import { MatInput } from '@angular/material/input';
 import { MatIcon } from '@angular/material/icon';
 import Fuse from 'fuse.js';
-import { catchError, debounceTime, distinctUntilChanged, map, of, startWith, switchMap } from 'rxjs';
+import { catchError, distinctUntilChanged, map, of, startWith, switchMap, timer } from 'rxjs';
 import { commonName } from '@shared/engine';
 import { StudyService, type TaxonMatch } from '../../core/api/study-service';
 import { readableError } from '../../core/http/api-problem';
@@ -134,12 +134,14 @@ export class SpeciesSearch {
   protected readonly searchState = toSignal(
     this.search.valueChanges.pipe(
       map((value) => (typeof value === 'string' ? value.trim() : '')),
-      debounceTime(200),
       distinctUntilChanged(),
+      // The last words' matches go at once (so Enter cannot pick one of them for the new words);
+      // the search itself waits for a pause in the typing.
       switchMap((words) =>
         words.length < 2
           ? of<SearchState>({ status: 'idle' })
-          : this.#study.searchSpecies(words).pipe(
+          : timer(200).pipe(
+              switchMap(() => this.#study.searchSpecies(words)),
               map((matches): SearchState => ({ status: 'done', ...rankMatches(words, matches) })),
               catchError((error: unknown) => of<SearchState>({ status: 'error', message: readableError(error) })),
               startWith<SearchState>({ status: 'searching' }),
