@@ -217,6 +217,8 @@ describe('e2e: studying on a phone, online and then offline', function () {
       expect(text).to.match(/You are offline/);
       expect(text).to.match(/needs a connection/);
       expect(text).to.not.match(/server ran into a problem/i);
+      // A sign-in that could not reach the server leaves the session already open.
+      expect(await page.evaluate(() => localStorage.getItem('sylvasift.session'))).to.not.equal(null);
     } finally {
       await context.setOffline(false);
     }

@@ -90,11 +90,14 @@ export class AuthService {
   }
 
   signIn(request: SignInRequest): Observable<Me> {
+    // Only a new session that cannot be read is forgotten: a sign-in that fails (offline, say) leaves
+    // the session already open as it was.
     return this.#http.post<unknown>('/api/v1/sessions', request).pipe(
       map(readToken),
-      tap((token) => this.#remember(token)),
-      switchMap(() => this.refreshMe()),
-      tap({ error: () => this.#forget() }),
+      switchMap((token) => {
+        this.#remember(token);
+        return this.refreshMe().pipe(tap({ error: () => this.#forget() }));
+      }),
     );
   }
 
