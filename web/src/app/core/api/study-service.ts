@@ -122,6 +122,22 @@ function savedOnDevice(id: number): StudySet | null {
   }
 }
 
+/** Every set this device keeps, most recently changed first. */
+function allOnDevice(): StudySet[] {
+  const sets: StudySet[] = [];
+  try {
+    for (let index = 0; index < localStorage.length; index += 1) {
+      const key = localStorage.key(index);
+      if (!key?.startsWith(SAVED_SET_PREFIX)) continue;
+      const set = savedOnDevice(Number(key.slice(SAVED_SET_PREFIX.length)));
+      if (set) sets.push(set);
+    }
+  } catch {
+    // storage not readable: nothing kept
+  }
+  return sets.sort((a, b) => b.updatedAt.localeCompare(a.updatedAt) || a.name.localeCompare(b.name));
+}
+
 function forgetOnDevice(id: number): void {
   try {
     localStorage.removeItem(SAVED_SET_PREFIX + id);
@@ -150,11 +166,19 @@ export class StudyService {
       tap(saveOnDevice),
       map((set) => ({ set, fromDevice: false })),
       catchError((error: unknown) => {
-        const saved = error instanceof ApiProblem && error.status === 0 ? savedOnDevice(id) : null;
+        const saved = error instanceof ApiProblem && error.offline ? savedOnDevice(id) : null;
         if (error instanceof ApiProblem && error.status === 404) forgetOnDevice(id);
         return saved ? of({ set: saved, fromDevice: true }) : throwError(() => error);
       }),
     );
+  }
+
+  /**
+   * Shared sets of other people that were opened on this device (a learner's sets from their
+   * coaches), as kept the last time each was opened.
+   */
+  sharedSetsOpenedHere(myId: number): StudySet[] {
+    return allOnDevice().filter((set) => set.shared && set.ownerId !== myId);
   }
 
   createSet(draft: StudySetDraft): Observable<StudySet> {

@@ -23,6 +23,8 @@ export interface SignInRequest {
 }
 
 const TOKEN_KEY = 'sylvasift.session';
+/** the account last read with the session, so the app knows who is signed in while offline */
+const ME_KEY = 'sylvasift.me';
 
 function isRecord(value: unknown): value is Record<string, unknown> {
   return typeof value === 'object' && value !== null;
@@ -48,6 +50,15 @@ function readToken(body: unknown): string {
   return body['token'];
 }
 
+function storedMe(): Me | null {
+  try {
+    const text = localStorage.getItem(ME_KEY);
+    return text && localStorage.getItem(TOKEN_KEY) ? readMe(JSON.parse(text)) : null;
+  } catch {
+    return null;
+  }
+}
+
 function storedToken(): string | null {
   try {
     return localStorage.getItem(TOKEN_KEY);
@@ -61,7 +72,7 @@ function storedToken(): string | null {
 export class AuthService {
   readonly #http = inject(HttpClient);
   readonly #token = signal<string | null>(storedToken());
-  readonly #me = signal<Me | null>(null);
+  readonly #me = signal<Me | null>(storedMe());
 
   readonly token = this.#token.asReadonly();
   readonly me = this.#me.asReadonly();
@@ -79,11 +90,14 @@ export class AuthService {
   }
 
   signIn(request: SignInRequest): Observable<Me> {
+    // Only a new session that cannot be read is forgotten: a sign-in that fails (offline, say) leaves
+    // the session already open as it was.
     return this.#http.post<unknown>('/api/v1/sessions', request).pipe(
       map(readToken),
-      tap((token) => this.#remember(token)),
-      switchMap(() => this.refreshMe()),
-      tap({ error: () => this.#forget() }),
+      switchMap((token) => {
+        this.#remember(token);
+        return this.refreshMe().pipe(tap({ error: () => this.#forget() }));
+      }),
     );
   }
 
@@ -108,12 +122,21 @@ export class AuthService {
   refreshMe(): Observable<Me> {
     return this.#http.get<unknown>('/api/v1/me').pipe(
       map(readMe),
-      tap({ next: (me) => this.#me.set(me), error: (error: unknown) => this.#forgetIfUnauthorised(error) }),
+      tap({ next: (me) => this.#rememberMe(me), error: (error: unknown) => this.#forgetIfUnauthorised(error) }),
     );
   }
 
   #forgetIfUnauthorised(error: unknown): void {
     if (isRecord(error) && error['status'] === 401) this.#forget();
+  }
+
+  #rememberMe(me: Me): void {
+    this.#me.set(me);
+    try {
+      localStorage.setItem(ME_KEY, JSON.stringify(me));
+    } catch {
+      // private browsing: known for as long as the page lasts
+    }
   }
 
   #remember(token: string): void {
@@ -130,6 +153,7 @@ export class AuthService {
     this.#me.set(null);
     try {
       localStorage.removeItem(TOKEN_KEY);
+      localStorage.removeItem(ME_KEY);
     } catch {
       // nothing stored
     }

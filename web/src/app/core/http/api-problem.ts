@@ -21,6 +21,11 @@ export class ApiProblem extends Error {
     this.name = 'ApiProblem';
   }
 
+  /** No answer from the server: the device is offline or the server cannot be reached. */
+  get offline(): boolean {
+    return this.status === 0;
+  }
+
   /** The sentence to show: the server's detail, followed by what was wrong with each field. */
   get readable(): string {
     const fields = this.invalidParams.map((param) => `${fieldName(param.name)}: ${param.reason}`);
@@ -49,12 +54,30 @@ function readInvalidParams(value: unknown): InvalidParam[] {
 
 const STANDARD_MEMBERS = new Set(['type', 'title', 'status', 'detail', 'instance', 'invalid-params']);
 
-/** Builds an ApiProblem from an HTTP status and whatever body came back. */
+function isProblemBody(body: unknown): body is Record<string, unknown> & { title: string } {
+  return isRecord(body) && typeof body['title'] === 'string';
+}
+
+function deviceOffline(): boolean {
+  return typeof navigator !== 'undefined' && navigator.onLine === false;
+}
+
+/** The problem for a request that got no answer from the server. */
+export function offlineProblem(): ApiProblem {
+  return deviceOffline()
+    ? new ApiProblem(0, 'You are offline', 'You are offline. This needs a connection to the server; try again once you are back online.')
+    : new ApiProblem(0, 'No connection', 'The server cannot be reached. This needs a connection to the server; check the connection and try again.');
+}
+
+/**
+ * Builds an ApiProblem from an HTTP status and whatever body came back. A network failure (status 0)
+ * and the service worker's own answer when its fetch failed (504 with no problem body) both mean the
+ * server was not reached, and read as such.
+ */
 export function problemFromResponse(status: number, body: unknown): ApiProblem {
-  if (status === 0) {
-    return new ApiProblem(0, 'No connection', 'The server cannot be reached. Check the connection and try again.');
-  }
-  if (isRecord(body) && typeof body['title'] === 'string') {
+  const problemBody = isProblemBody(body);
+  if (status === 0 || (status === 504 && !problemBody) || (status >= 500 && !problemBody && deviceOffline())) return offlineProblem();
+  if (isProblemBody(body)) {
     const extensions = Object.fromEntries(Object.entries(body).filter(([name]) => !STANDARD_MEMBERS.has(name)));
     return new ApiProblem(
       typeof body['status'] === 'number' ? body['status'] : status,

@@ -1,4 +1,4 @@
-import { ChangeDetectionStrategy, Component, type ElementRef, Injector, afterNextRender, computed, effect, inject, input, signal, untracked, viewChild } from '@angular/core';
+import { ChangeDetectionStrategy, Component, ElementRef, Injector, afterNextRender, computed, effect, inject, input, signal, untracked, viewChild } from '@angular/core';
 import { RouterLink } from '@angular/router';
 import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatFormField, MatLabel, MatHint } from '@angular/material/form-field';
@@ -105,9 +105,10 @@ export default class DrillPage {
   });
   protected readonly missed = computed(() => (this.round()?.answered ?? []).filter((answer) => !answer.correct));
 
-  private readonly questionHeading = viewChild<ElementRef<HTMLElement>>('questionHeading');
-  private readonly nextButton = viewChild<ElementRef<HTMLElement>>('nextButton');
-  private readonly summaryHeading = viewChild<ElementRef<HTMLElement>>('summaryHeading');
+  // `read: ElementRef`: on a Material button the template reference is the component, not its element.
+  private readonly questionHeading = viewChild('questionHeading', { read: ElementRef<HTMLElement> });
+  private readonly nextButton = viewChild('nextButton', { read: ElementRef<HTMLElement> });
+  private readonly summaryHeading = viewChild('summaryHeading', { read: ElementRef<HTMLElement> });
 
   constructor() {
     // The first round starts as soon as both the set and the edition are here.
@@ -149,7 +150,8 @@ export default class DrillPage {
     this.round.set({ ...round, answered: [...round.answered, answered] });
     this.feedback.set(answered);
     this.typedProblem.set(null);
-    this.#focus(this.nextButton);
+    // The button sits in a bar held at the foot of the screen: focusing it must not scroll the question away.
+    this.#focus(this.nextButton, { preventScroll: true });
   }
 
   protected answerTyped(event: Event): void {
@@ -195,7 +197,7 @@ export default class DrillPage {
     }
   }
 
-  #focus(element: () => ElementRef<HTMLElement> | undefined): void {
-    afterNextRender(() => element()?.nativeElement.focus(), { injector: this.#injector });
+  #focus(element: () => ElementRef<HTMLElement> | undefined, options?: FocusOptions): void {
+    afterNextRender(() => element()?.nativeElement.focus(options), { injector: this.#injector });
   }
 }

@@ -41,8 +41,12 @@ export function askableIds(compiled: CompiledMatrix, setIds: readonly string[]):
   return setIds.filter((id) => diagnoseInSet(compiled, id, setIds).traits.length > 0);
 }
 
-/** One question per target, in shuffled order, each with up to four choices from the set. */
+/**
+ * One question per target, in shuffled order, each with up to four choices from the set. The choices
+ * keep the set's order, so a species stays in the same place from one question to the next.
+ */
 export function drillQuestions(compiled: CompiledMatrix, setIds: readonly string[], targets: readonly string[], random: () => number): DrillQuestion[] {
+  const place = new Map(setIds.map((id, index) => [id, index]));
   return shuffled(targets, random).map((target) => {
     const others = shuffled(
       setIds.filter((id) => id !== target),
@@ -51,7 +55,7 @@ export function drillQuestions(compiled: CompiledMatrix, setIds: readonly string
     return {
       answer: choiceOf(compiled, target),
       clues: diagnoseInSet(compiled, target, setIds).traits,
-      choices: shuffled([target, ...others], random).map((id) => choiceOf(compiled, id)),
+      choices: [target, ...others].sort((a, b) => (place.get(a) ?? 0) - (place.get(b) ?? 0)).map((id) => choiceOf(compiled, id)),
     };
   });
 }

@@ -1,4 +1,5 @@
 import { ChangeDetectionStrategy, Component, computed, effect, inject, signal, untracked } from '@angular/core';
+import { NgTemplateOutlet } from '@angular/common';
 import { RouterLink } from '@angular/router';
 import { Clipboard } from '@angular/cdk/clipboard';
 import { MatDialog } from '@angular/material/dialog';
@@ -18,7 +19,7 @@ type ListState = { status: 'loading' } | { status: 'ready'; sets: StudySet[] } |
 /** A coach's study sets: make, open, drill, share and delete them. */
 @Component({
   selector: 'sv-study-list-page',
-  imports: [RouterLink, MatAnchor, MatButton, MatIcon, MatProgressBar],
+  imports: [NgTemplateOutlet, RouterLink, MatAnchor, MatButton, MatIcon, MatProgressBar],
   templateUrl: './study-list-page.html',
   styleUrl: './study.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -48,6 +49,11 @@ export default class StudyListPage {
     return state.status === 'error' ? state.message : '';
   });
   protected readonly ownId = computed(() => Number(this.auth.me()?.id));
+  /** other people's shared sets opened on this device, kept there for offline drills */
+  protected readonly sharedWithMe = computed(() => {
+    const me = this.auth.me();
+    return me ? this.#study.sharedSetsOpenedHere(Number(me.id)) : [];
+  });
   protected readonly exampleLink = shareLink({ id: 12 });
 
   protected readonly eventDay = eventDay;
