@@ -27,6 +27,7 @@ export function rankMatches(words: string, matches: readonly TaxonMatch[]): { ma
   const exact = new Set(names.filter((entry) => entry.name.toLowerCase() === typed).map((entry) => entry.index));
   const [first, next] = ranked;
   const clearBest =
-    exact.size > 0 ? exact.size === 1 && exact.has(first.index) : first.score <= CLEAR_BEST_SCORE && (next === undefined || next.score - first.score >= CLEAR_BEST_GAP);
+    first !== undefined &&
+    (exact.size > 0 ? exact.size === 1 && exact.has(first.index) : first.score <= CLEAR_BEST_SCORE && (next === undefined || next.score - first.score >= CLEAR_BEST_GAP));
   return { matches: ranked.map((entry) => entry.match), clearBest };
 }
