@@ -2,7 +2,7 @@ import { validateMatrix, type MatrixProblem } from '@shared/engine';
 import type { MatrixModels } from '../matrix/matrix-models';
 import type { EditionSummary, EditionModels } from '../editions/edition-models';
 import type { EditionCatalog } from '../editions/edition-catalog';
-import { summariseChanges } from '../editions/edition-snapshot';
+import { hasChanges, summariseChanges } from '../editions/edition-snapshot';
 import { readWorkingMatrix } from '../matrix/matrix-store';
 
 export interface DraftDeps {
@@ -27,9 +27,7 @@ async function summariseDraft({ models, editions }: DraftDeps): Promise<DraftSum
   const summary = summariseChanges(current?.document, draft);
   const found = validateMatrix(draft);
   const errors = found.filter((problem) => problem.severity === 'error');
-  const changed =
-    summary.cellsChanged + summary.taxaAdded.length + summary.taxaRemoved.length + summary.traitsAdded.length + summary.traitsRemoved.length > 0;
-  return { basedOn: current?.number ?? null, summary, publishable: errors.length === 0 && changed, errors: errors.slice(0, 100), warnings: found.length - errors.length };
+  return { basedOn: current?.number ?? null, summary, publishable: errors.length === 0 && hasChanges(summary), errors: errors.slice(0, 100), warnings: found.length - errors.length };
 }
 
 /** The draft: the working matrix compared with the current edition. */

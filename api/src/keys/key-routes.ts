@@ -1,6 +1,6 @@
 import { Router } from 'express';
 import { FIELD_LIMITS } from '@shared/engine';
-import { currentUser, requireUser } from '../auth/guards';
+import { currentKey, currentUser, requireKey, requireUser } from '../auth/guards';
 import { isScope, type Scope } from '../auth/principal';
 import { problems } from '../http/problem';
 import { idParam, stringField } from '../http/request-fields';
@@ -19,6 +19,8 @@ const keyView = (key: PartnerKey) => ({
   revokedAt: key.revokedAt ? key.revokedAt.toISOString() : null,
 });
 
+const quotaView = (quota: QuotaLeft) => ({ limit: quota.limit, remaining: quota.remaining, resetsAt: quota.resetsAt ? quota.resetsAt.toISOString() : null });
+
 const keyWithUsageView = (key: KeyWithUsage) => ({ ...keyView(key), usage: key.usage });
 
 function scopesField(body: unknown): Scope[] {
@@ -32,6 +34,13 @@ function scopesField(body: unknown): Scope[] {
 /** A signed-in user's partner keys (mounted at /api/v1/keys); `quotaLeft` reads the daily limiter. */
 export function keyRoutes(keys: KeyService, quotaLeft: (keyId: number) => Promise<QuotaLeft>): Router {
   const router = Router();
+  // the calling key itself, before the user guard below (and before /:id, which would read "current" as an id)
+  router.get('/current', requireKey(), async (req, res) => {
+    res.set('Cache-Control', 'no-store');
+    const key = await keys.current(currentKey(req.principal).keyId);
+    res.json({ ...keyWithUsageView(key), quota: quotaView(await quotaLeft(key.id)) });
+  });
+
   router.use(requireUser(), (_req, res, next) => {
     res.set('Cache-Control', 'no-store');
     next();
@@ -54,7 +63,7 @@ export function keyRoutes(keys: KeyService, quotaLeft: (keyId: number) => Promis
   router.get('/:id/usage', async (req, res) => {
     const { key, days, total } = await keys.usageOf(currentUser(req.principal).userId, idParam(req.params['id']));
     const quota = await quotaLeft(key.id);
-    res.json({ keyId: key.id, days, total, quota: { limit: quota.limit, remaining: quota.remaining, resetsAt: quota.resetsAt ? quota.resetsAt.toISOString() : null } });
+    res.json({ keyId: key.id, days, total, quota: quotaView(quota) });
   });
 
   router.delete('/:id', async (req, res) => {

@@ -65,6 +65,15 @@ export function keyService(models: KeyModels, logger?: Logger) {
       return withDays as KeyWithUsage;
     },
 
+    /** The calling key itself, with its usage (the key passed the gate, so it exists and is live). */
+    async current(keyId: number): Promise<KeyWithUsage> {
+      const key = await findKey(models, keyId);
+      if (!key) throw problems.notFound('This partner key is no longer there.');
+      const [withDays] = await withUsage([key]);
+      if (!withDays) throw problems.notFound('This partner key is no longer there.');
+      return withDays;
+    },
+
     /** One key's requests per UTC day over the last 30 days, every day present (0 without use); owners only. */
     async usageOf(ownerId: number, keyId: number, now = new Date()): Promise<{ key: PartnerKey; days: DailyUsage[]; total: number }> {
       const key = await findKey(models, keyId);
