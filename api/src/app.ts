@@ -43,6 +43,7 @@ import { photoRoutes } from './uploads/photo-routes';
 import { importRoutes } from './imports/import-routes';
 import { compareRoutes } from './compare/compare-routes';
 import { studyRoutes } from './study/study-routes';
+import { idempotentCreation } from './idempotency/idempotent-creation';
 
 /** The long-lived parts of one app, built once by createApp; each route module gets only what it needs. */
 export interface AppContext {
@@ -137,6 +138,8 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   app.use('/api/v1/editions/current/bundle', limiters.anonymousBundle);
   const contract = contractValidation(document, { validateResponses: config.contract.validateResponses, beforeBodyValidation: accessBeforeValidation });
   app.use(contract.middleware);
+  // the POSTs that create things answer a repeated Idempotency-Key with their first answer
+  app.post(['/api/v1/keys', '/api/v1/editions', '/api/v1/queries', '/api/v1/study-sets', '/api/v1/curation/imports'], idempotentCreation(models, logger));
 
   app.use('/api/health', healthRoutes(sequelize, config.version));
   app.use('/api', docsRoutes(document));
