@@ -240,6 +240,16 @@ describe('api: permission table (every route × every caller)', function () {
       expect: users(200),
     },
     {
+      operation: 'PATCH /api/v1/keys/{id}',
+      prepare: async (caller) => {
+        // users change a key of their own; the others aim at someone else's
+        const owner = ROLES.includes(caller as Role) ? people[caller as Role] : raiser;
+        const { id } = await createPartnerKey(created, owner.token, ['lookup']);
+        return { url: `/api/v1/keys/${id}`, body: { allowedOrigins: ['https://trail.example'] } };
+      },
+      expect: users(200),
+    },
+    {
       operation: 'DELETE /api/v1/keys/{id}',
       prepare: async (caller) => {
         // users revoke a key of their own; the others aim at someone else's

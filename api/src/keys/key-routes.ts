@@ -7,6 +7,7 @@ import { idParam, stringField } from '../http/request-fields';
 import type { KeyService, KeyWithUsage } from './key-service';
 import type { PartnerKey } from './key-store';
 import type { QuotaLeft } from './quota';
+import { allowedOriginsField } from './key-origins';
 
 const keyView = (key: PartnerKey) => ({
   id: key.id,
@@ -14,6 +15,7 @@ const keyView = (key: PartnerKey) => ({
   name: key.name,
   prefix: key.prefix,
   scopes: key.scopes,
+  allowedOrigins: key.allowedOrigins,
   createdAt: key.createdAt.toISOString(),
   lastUsedAt: key.lastUsedAt ? key.lastUsedAt.toISOString() : null,
   revokedAt: key.revokedAt ? key.revokedAt.toISOString() : null,
@@ -22,6 +24,8 @@ const keyView = (key: PartnerKey) => ({
 const quotaView = (quota: QuotaLeft) => ({ limit: quota.limit, remaining: quota.remaining, resetsAt: quota.resetsAt ? quota.resetsAt.toISOString() : null });
 
 const keyWithUsageView = (key: KeyWithUsage) => ({ ...keyView(key), usage: key.usage });
+
+const fieldOf = (body: unknown, name: string): unknown => (typeof body === 'object' && body !== null ? (body as Record<string, unknown>)[name] : undefined);
 
 function scopesField(body: unknown): Scope[] {
   const value = typeof body === 'object' && body !== null ? (body as Record<string, unknown>)['scopes'] : undefined;
@@ -47,7 +51,11 @@ export function keyRoutes(keys: KeyService, quotaLeft: (keyId: number) => Promis
   });
 
   router.post('/', async (req, res) => {
-    const { key, record } = await keys.create(currentUser(req.principal).userId, { name: stringField(req.body, 'name', { max: FIELD_LIMITS.keyName.max }), scopes: scopesField(req.body) });
+    const { key, record } = await keys.create(currentUser(req.principal).userId, {
+      name: stringField(req.body, 'name', { max: FIELD_LIMITS.keyName.max }),
+      scopes: scopesField(req.body),
+      allowedOrigins: fieldOf(req.body, 'allowedOrigins') === undefined ? [] : allowedOriginsField(fieldOf(req.body, 'allowedOrigins')),
+    });
     res.status(201).location(`/api/v1/keys/${record.id}`).json({ ...keyView(record), key });
   });
 
@@ -64,6 +72,15 @@ export function keyRoutes(keys: KeyService, quotaLeft: (keyId: number) => Promis
     const { key, days, total } = await keys.usageOf(currentUser(req.principal).userId, idParam(req.params['id']));
     const quota = await quotaLeft(key.id);
     res.json({ keyId: key.id, days, total, quota: quotaView(quota) });
+  });
+
+  router.patch('/:id', async (req, res) => {
+    const origins = fieldOf(req.body, 'allowedOrigins');
+    const change = {
+      name: fieldOf(req.body, 'name') === undefined ? undefined : stringField(req.body, 'name', { max: FIELD_LIMITS.keyName.max }),
+      allowedOrigins: origins === undefined ? undefined : allowedOriginsField(origins),
+    };
+    res.json(keyWithUsageView(await keys.update(currentUser(req.principal), idParam(req.params['id']), change)));
   });
 
   router.delete('/:id', async (req, res) => {
