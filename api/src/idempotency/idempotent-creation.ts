@@ -112,10 +112,16 @@ export function idempotentCreation(models: IdempotencyModels, logger?: Logger): 
       res.json = send;
       const status = res.statusCode;
       const location = res.get('Location') ?? null;
-      const settle = status >= 200 && status < 300 ? keepAnswer(models, caller, idempotencyKey, { status, location, body: seal(body, sealWith) }) : releaseKey(models, caller, idempotencyKey);
-      settle
-        .catch((error: unknown) => logger?.error({ err: error }, 'could not keep the answer to an Idempotency-Key'))
-        .finally(() => send(body));
+      const settleThenSend = async () => {
+        try {
+          if (status >= 200 && status < 300) await keepAnswer(models, caller, idempotencyKey, { status, location, body: seal(body, sealWith) });
+          else await releaseKey(models, caller, idempotencyKey);
+        } catch (error) {
+          logger?.error({ err: error }, 'could not keep the answer to an Idempotency-Key');
+        }
+        send(body);
+      };
+      settleThenSend().catch((error: unknown) => logger?.error({ err: error }, 'could not send the answer to an Idempotency-Key request'));
       return res;
     };
     res.on('close', () => {
