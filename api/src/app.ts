@@ -17,6 +17,8 @@ import { siteRoutes } from './site/site-routes';
 import { openToAnonymousButKeysNeed } from './auth/lookup-access';
 import { accessBeforeValidation } from './auth/contract-access';
 import { authenticate } from './gate/authenticate';
+import { partnerCors } from './gate/cors';
+import { KeyOriginsCache } from './gate/key-origins-cache';
 import { PrincipalCache } from './gate/principal-cache';
 import { createLimiterStores, createRateLimiters, type LimiterStores } from './gate/rate-limits';
 import { startMailer, type Mailer } from './mail/mailer';
@@ -43,6 +45,7 @@ import { photoRoutes } from './uploads/photo-routes';
 import { importRoutes } from './imports/import-routes';
 import { compareRoutes } from './compare/compare-routes';
 import { studyRoutes } from './study/study-routes';
+import { idempotentCreation } from './idempotency/idempotent-creation';
 
 /** The long-lived parts of one app, built once by createApp; each route module gets only what it needs. */
 export interface AppContext {
@@ -99,6 +102,7 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
     next();
   };
   const document = loadOpenApiDocument(config.contract.openApiFile);
+  const cors = partnerCors(document, new KeyOriginsCache(models));
 
   const app = express();
   app.disable('x-powered-by');
@@ -132,11 +136,14 @@ export async function createApp(config: AppConfig): Promise<CreatedApp> {
   );
   app.use(dynamicCompression());
   app.use(express.json({ limit: '256kb' }));
-  // The gate: who is calling, then the anonymous and per-key limits, then the key's usage count.
-  app.use('/api/v1', authenticate(models, principals), limiters.anonymous, ...limiters.partnerKey, countKeyUse);
+  // The gate: CORS preflights, who is calling (and whether their key allows the page's origin), then
+  // the anonymous and per-key limits, then the key's usage count.
+  app.use('/api/v1', cors.beforeAuth, authenticate(models, principals), cors.afterAuth, limiters.anonymous, ...limiters.partnerKey, countKeyUse);
   app.use('/api/v1/editions/current/bundle', limiters.anonymousBundle);
   const contract = contractValidation(document, { validateResponses: config.contract.validateResponses, beforeBodyValidation: accessBeforeValidation });
   app.use(contract.middleware);
+  // the POSTs that create things answer a repeated Idempotency-Key with their first answer
+  app.post(['/api/v1/keys', '/api/v1/editions', '/api/v1/queries', '/api/v1/study-sets', '/api/v1/curation/imports'], idempotentCreation(models, logger));
 
   app.use('/api/health', healthRoutes(sequelize, config.version));
   app.use('/api', docsRoutes(document));

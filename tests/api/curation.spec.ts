@@ -340,5 +340,19 @@ describe('api: curation (Matrix desk)', () => {
       const audit = await as(curator).get('/api/v1/curation/audit').query({ entity: 'edition' }).expect(200);
       expect(audit.body.entries[0]).to.deep.include({ entityKey: '2', action: 'publish', reason: 'needle lengths rechecked' });
     });
+
+    it('refuses to publish a draft that changes nothing (409 with the reason) and creates no edition', async () => {
+      const draft = await as(curator).get('/api/v1/curation/draft/summary').expect(200);
+      expect(draft.body).to.include({ basedOn: 2, publishable: false });
+      const res = await as(curator).post('/api/v1/editions', { title: 'Nothing new', reason: 'publishing twice' }).expect(409);
+      expect(res.headers['content-type']).to.match(/^application\/problem\+json/);
+      expect(res.body).to.include({ type: '/api/problems/conflict', reason: 'no-changes', basedOn: 2 });
+      expect(res.body.detail).to.include('edition 2');
+      expect(await created.context.models.Edition.count()).to.equal(2);
+      const list = await request(created.app).get('/api/v1/editions').expect(200);
+      expect(list.body.current).to.equal(2);
+      const audit = await as(curator).get('/api/v1/curation/audit').query({ entity: 'edition' }).expect(200);
+      expect(audit.body.entries.filter((e: { action: string }) => e.action === 'publish')).to.have.length(1);
+    });
   });
 });

@@ -80,7 +80,7 @@ describe('api: HTTP details a partner developer runs into', () => {
       const res = await request(created.app).put('/api/v1/traits').expect(405);
       expect(res.headers['allow']).to.equal('GET, HEAD');
       const keys = await request(created.app).put('/api/v1/keys/3').set('Authorization', `Bearer ${learner.token}`).expect(405);
-      expect(keys.headers['allow']).to.equal('GET, HEAD, DELETE');
+      expect(keys.headers['allow']).to.equal('GET, HEAD, DELETE, PATCH');
       const bundle = await request(created.app).post('/api/v1/editions/current/bundle').expect(405);
       expect(bundle.headers['allow']).to.equal('GET, HEAD');
     });

@@ -62,6 +62,49 @@ describe('api: partner keys', () => {
     await request(created.app).post('/api/v1/keys').set(bearer(developer.token)).send({ name: 'x', scopes: [] }).expect(400);
   });
 
+  describe('the calling key reads itself', () => {
+    it('answers the key’s own scopes, today’s and the last 7 days’ usage and the quota the limiter holds', async () => {
+      const { key, id } = await createPartnerKey(created, developer.token, ['lookup']);
+      const threeDaysAgo = new Date(Date.now() - 3 * 86_400_000).toISOString().slice(0, 10);
+      const eightDaysAgo = new Date(Date.now() - 8 * 86_400_000).toISOString().slice(0, 10);
+      await created.context.models.KeyUsage.create({ keyId: id, day: threeDaysAgo, count: 4 });
+      await created.context.models.KeyUsage.create({ keyId: id, day: eightDaysAgo, count: 50 });
+      for (let i = 0; i < 2; i++) await request(created.app).get('/api/v1/traits').set(bearer(key)).expect(200);
+
+      const res = await request(created.app).get('/api/v1/keys/current').set(bearer(key)).expect(200);
+      expect(res.headers['cache-control']).to.equal('no-store');
+      expect(res.body).to.include({ id, name: 'Test key', revokedAt: null });
+      expect(res.body.scopes).to.deep.equal(['lookup']);
+      expect(res.body).to.not.have.property('key');
+      // the gate counts this request before the route reads the usage: two lookups and this one
+      expect(res.body.usage.today).to.equal(3);
+      expect(res.body.usage.days).to.deep.equal([
+        { day: threeDaysAgo, count: 4 },
+        { day: new Date().toISOString().slice(0, 10), count: 3 },
+      ]);
+      // three requests went through the daily limiter: two lookups and this one
+      expect(res.body.quota.limit).to.equal(5000);
+      expect(res.body.quota.remaining).to.equal(4997);
+      const resetsIn = Date.parse(res.body.quota.resetsAt) - Date.now();
+      expect(resetsIn).to.be.greaterThan(23 * 3_600_000).and.at.most(24 * 3_600_000);
+    });
+
+    it('is not read as a key id, and a signed-in user is told to use a key (403); without credentials 401', async () => {
+      const user = await request(created.app).get('/api/v1/keys/current').set(bearer(developer.token)).expect(403);
+      expect(user.headers['content-type']).to.match(/^application\/problem\+json/);
+      expect(user.body.detail).to.include('partner key');
+      const anonymous = await request(created.app).get('/api/v1/keys/current').expect(401);
+      expect(anonymous.headers['www-authenticate']).to.match(/^Bearer/);
+    });
+
+    it('a revoked key is refused', async () => {
+      const { key, id } = await createPartnerKey(created, developer.token, ['identify']);
+      await request(created.app).get('/api/v1/keys/current').set(bearer(key)).expect(200);
+      await request(created.app).delete(`/api/v1/keys/${id}`).set(bearer(developer.token)).expect(204);
+      await request(created.app).get('/api/v1/keys/current').set(bearer(key)).expect(401);
+    });
+  });
+
   describe('one key’s usage over 30 days', () => {
     const today = () => new Date().toISOString().slice(0, 10);
 

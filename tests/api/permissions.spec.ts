@@ -91,6 +91,18 @@ describe('api: permission table (every route × every caller)', function () {
     return res.body.id as number;
   }
 
+  /** Recodes one cell of the working matrix to a value it has not had (a test edit, not a fact). */
+  async function recodeACell(): Promise<void> {
+    const url = '/api/v1/curation/cells/pinus-taeda/needle-length';
+    const auth = { Authorization: `Bearer ${people.curator.token}` };
+    const cell = await request(created.app).get(url).set(auth).expect(200);
+    await request(created.app)
+      .put(url)
+      .set(auth)
+      .send({ value: { min: 10, low: 15, high: 23, max: 30 + ++counter / 10 }, version: cell.body.version, reason: 'Permission table: something to publish' })
+      .expect(200);
+  }
+
   async function oneTimeToken(purpose: 'password-reset' | 'invitation'): Promise<string> {
     const token = `svl_${unique('permission-table-link')}-${'x'.repeat(32)}`;
     const user = purpose === 'password-reset' ? await freshUser() : undefined;
@@ -128,7 +140,11 @@ describe('api: permission table (every route × every caller)', function () {
     { operation: 'GET /api/v1/photos/{name}', scope: 'lookup', prepare: () => ({ url: `/api/v1/photos/${'0'.repeat(32)}.webp` }), expect: openButKeysNeedScope(404) },
     {
       operation: 'POST /api/v1/editions',
-      prepare: () => ({ url: '/api/v1/editions', body: { title: unique('Permission table edition'), reason: 'checking who may publish' } }),
+      // a draft that differs from the current edition, so whoever may publish has something to publish
+      prepare: async () => {
+        await recodeACell();
+        return { url: '/api/v1/editions', body: { title: unique('Permission table edition'), reason: 'checking who may publish' } };
+      },
       expect: users(201, ['curator']),
     },
     {
@@ -208,6 +224,12 @@ describe('api: permission table (every route × every caller)', function () {
     // partner keys
     { operation: 'GET /api/v1/keys', prepare: () => ({ url: '/api/v1/keys' }), expect: users(200) },
     { operation: 'POST /api/v1/keys', prepare: () => ({ url: '/api/v1/keys', body: { name: 'Permission table', scopes: ['lookup'] } }), expect: users(201) },
+    // the calling key itself, whatever its scopes; users are told to use a key
+    {
+      operation: 'GET /api/v1/keys/current',
+      prepare: () => ({ url: '/api/v1/keys/current' }),
+      expect: { ...users(403), anonymous: 401, keyWithScope: 200, keyWithoutScope: 200 },
+    },
     {
       operation: 'GET /api/v1/keys/{id}',
       prepare: async (caller) => {
@@ -215,6 +237,16 @@ describe('api: permission table (every route × every caller)', function () {
         const owner = ROLES.includes(caller as Role) ? people[caller as Role] : raiser;
         const { id } = await createPartnerKey(created, owner.token, ['lookup']);
         return { url: `/api/v1/keys/${id}` };
+      },
+      expect: users(200),
+    },
+    {
+      operation: 'PATCH /api/v1/keys/{id}',
+      prepare: async (caller) => {
+        // users change a key of their own; the others aim at someone else's
+        const owner = ROLES.includes(caller as Role) ? people[caller as Role] : raiser;
+        const { id } = await createPartnerKey(created, owner.token, ['lookup']);
+        return { url: `/api/v1/keys/${id}`, body: { allowedOrigins: ['https://trail.example'] } };
       },
       expect: users(200),
     },

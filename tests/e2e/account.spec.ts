@@ -137,6 +137,14 @@ describe('e2e: accounts and edition updates', function () {
     const session = await page.request.post(`${running.baseUrl}/api/v1/sessions`, { data: { email: curator.email, password: DEMO_PASSWORD } });
     expect(session.status()).to.equal(201);
     const { token } = (await session.json()) as { token: string };
+    // an edition needs a change: recode one cell of the working matrix (a test edit, not a fact)
+    const cellUrl = `${running.baseUrl}/api/v1/curation/cells/pinus-taeda/needle-length`;
+    const cell = (await (await page.request.get(cellUrl, { headers: { Authorization: `Bearer ${token}` } })).json()) as { version: number };
+    const recoded = await page.request.put(cellUrl, {
+      headers: { Authorization: `Bearer ${token}` },
+      data: { value: { min: 10, low: 15, high: 23, max: 41 }, version: cell.version, reason: 'Something for the new edition to carry' },
+    });
+    expect(recoded.status(), await recoded.text()).to.equal(200);
     const published = await page.request.post(`${running.baseUrl}/api/v1/editions`, {
       headers: { Authorization: `Bearer ${token}` },
       data: { title: 'Eastern trees, spring check', reason: 'A new edition for the field client to pick up' },

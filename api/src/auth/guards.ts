@@ -3,6 +3,7 @@ import { forbidden, unauthorized } from './challenge';
 import type { Principal, Role, Scope } from './principal';
 
 type UserPrincipal = Extract<Principal, { kind: 'user' }>;
+type KeyPrincipal = Extract<Principal, { kind: 'key' }>;
 
 /** A signed-in user; with roles given, one of them (admin passes every role check). */
 export function requireUser(...roles: Role[]): RequestHandler {
@@ -27,6 +28,22 @@ export function requireScopeOrUser(scope: Scope): RequestHandler {
     }
     next();
   };
+}
+
+/** A partner key, whatever its scopes (a key reading itself); signed-in users are told to use a key. */
+export function requireKey(): RequestHandler {
+  return (req, res, next) => {
+    const principal = req.principal;
+    if (!principal) throw unauthorized(res, 'Send the partner key: `Authorization: Bearer svk_…`.');
+    if (principal.kind !== 'key') throw forbidden(res, 'Only a partner key can read itself here; signed-in users see their keys at /api/v1/keys.');
+    next();
+  };
+}
+
+/** The partner key behind a request that passed requireKey; for routes, never below them. */
+export function currentKey(principal: Principal | undefined): KeyPrincipal {
+  if (!principal || principal.kind !== 'key') throw new Error('currentKey() used on a route without requireKey()');
+  return principal;
 }
 
 /** The signed-in user behind a request that passed requireUser; for routes, never below them. */

@@ -2,7 +2,7 @@ import type { Cell, MatrixProblem, Trait } from '@shared/engine';
 import type { MatrixModels } from '../matrix/matrix-models';
 import type { EditionSummary, EditionModels } from '../editions/edition-models';
 import type { EditionCatalog } from '../editions/edition-catalog';
-import { summariseChanges } from '../editions/edition-snapshot';
+import { hasChanges, summariseChanges } from '../editions/edition-snapshot';
 import { readWorkingMatrix } from '../matrix/matrix-store';
 import { curatedProblems, invalidCells } from '../matrix/matrix-problems';
 import { readCellVersions } from './working-matrix-store';
@@ -31,9 +31,7 @@ async function summariseDraft({ models, editions }: DraftDeps): Promise<DraftSum
   const summary = summariseChanges(current?.document, draft);
   const found = curatedProblems(draft);
   const errors = found.filter((problem) => problem.severity === 'error');
-  const changed =
-    summary.cellsChanged + summary.taxaAdded.length + summary.taxaRemoved.length + summary.traitsAdded.length + summary.traitsRemoved.length > 0;
-  return { basedOn: current?.number ?? null, summary, publishable: errors.length === 0 && changed, errors: errors.slice(0, 100), invalidCells: invalidCells(errors).slice(0, 100), warnings: found.length - errors.length };
+  return { basedOn: current?.number ?? null, summary, publishable: errors.length === 0 && hasChanges(summary), errors: errors.slice(0, 100), invalidCells: invalidCells(errors).slice(0, 100), warnings: found.length - errors.length };
 }
 
 /** The working matrix as the Matrix desk grid shows it: every live taxon and trait, every cell and its version. */

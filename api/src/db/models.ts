@@ -6,6 +6,7 @@ import { defineAccountModels } from '../accounts/account-models';
 import { defineKeyModels } from '../keys/key-models';
 import { defineQueryModels } from '../queries/query-models';
 import { defineStudyModels } from '../study/study-models';
+import { defineIdempotencyModels } from '../idempotency/idempotency-models';
 
 /**
  * Every model of one database. Model classes are defined per Sequelize instance (a factory, not
@@ -22,6 +23,7 @@ export function defineModels(sequelize: Sequelize) {
     ...defineKeyModels(sequelize),
     ...defineQueryModels(sequelize),
     ...defineStudyModels(sequelize),
+    ...defineIdempotencyModels(sequelize),
   };
 }
 

@@ -5,7 +5,7 @@ import { recordAudit, type Actor } from '../matrix/audit-store';
 import { assertPublishable } from '../matrix/matrix-problems';
 import type { EditionCatalog } from './edition-catalog';
 import { problems } from '../http/problem';
-import { snapshotWorkingMatrix } from './edition-snapshot';
+import { hasChanges, snapshotWorkingMatrix } from './edition-snapshot';
 import { findEditionHeader, listEditionHeaders } from './edition-store';
 import { editionView, type EditionView } from './edition-views';
 
@@ -28,7 +28,8 @@ async function get(deps: EditionDeps, number: number): Promise<EditionView> {
 }
 
 /**
- * Publishes the working matrix as the next edition: only a matrix without errors is published, the
+ * Publishes the working matrix as the next edition: only a matrix without errors that differs from
+ * the current edition is published (409 otherwise, the reason in `reason`), the
  * audit log records who did it, and from then on identify and the bundle serve the new edition.
  */
 async function publish(deps: EditionDeps, actor: Actor, request: { title: string; region?: string; reason: string }): Promise<EditionView> {
@@ -38,6 +39,11 @@ async function publish(deps: EditionDeps, actor: Actor, request: { title: string
     { title: request.title, region: request.region, publishedBy: actor.email ?? undefined },
     {
       check: (document) => assertPublishable(document, 'Nothing was published'),
+      checkChanges: (summary, latest) => {
+        if (latest !== null && !hasChanges(summary)) {
+          throw problems.conflict(`Nothing was published: the working matrix is the same as edition ${latest} (no taxon, trait or cell changed).`, { reason: 'no-changes', basedOn: latest });
+        }
+      },
       published: (edition, transaction) =>
         recordAudit(
           deps.models,

@@ -43,10 +43,17 @@ export function summariseChanges(previous: MatrixDocument | undefined, next: Mat
   };
 }
 
+/** Whether a change summary changes anything a sift sees: taxa or traits added or removed, or a cell recoded. */
+export function hasChanges(summary: EditionSummary): boolean {
+  return summary.cellsChanged + summary.taxaAdded.length + summary.taxaRemoved.length + summary.traitsAdded.length + summary.traitsRemoved.length > 0;
+}
+
 /** Steps a caller adds inside the snapshot's transaction. */
 export interface PublishHooks {
   /** sees the document about to be published; throw to stop publishing */
   check?(document: MatrixDocument): void;
+  /** sees what the edition would change against the latest one (null before the first); throw to stop publishing */
+  checkChanges?(summary: EditionSummary, latest: number | null): void;
   /** runs after the edition row is written, in the same transaction (e.g. the audit entry) */
   published?(edition: PublishedEdition, transaction: Transaction): Promise<void>;
 }
@@ -61,6 +68,7 @@ export async function snapshotWorkingMatrix(sequelize: Sequelize, models: Matrix
     hooks.check?.(document);
     const latest = await models.Edition.findOne({ order: [['number', 'DESC']], transaction });
     const summary = summariseChanges(latest?.document as MatrixDocument | undefined, document);
+    hooks.checkChanges?.(summary, latest?.number ?? null);
     const edition = await models.Edition.create(
       {
         number: (latest?.number ?? 0) + 1,

@@ -13,6 +13,8 @@ export function defineKeyModels(sequelize: Sequelize) {
     /** SHA-256 of the key, hex; the key itself is shown once and never stored */
     declare keyHash: string;
     declare scopes: string[];
+    /** browser origins (`https://app.example`) that may call with this key (CORS); null on older keys, read as none */
+    declare allowedOrigins: CreationOptional<string[] | null>;
     declare revokedAt: Date | null;
     declare revokedBy: number | null;
     declare lastUsedAt: Date | null;
@@ -27,6 +29,7 @@ export function defineKeyModels(sequelize: Sequelize) {
       prefix: { type: DataTypes.STRING(16), allowNull: false },
       keyHash: { type: DataTypes.STRING(64), allowNull: false, unique: true },
       scopes: { type: DataTypes.JSON, allowNull: false },
+      allowedOrigins: { type: DataTypes.JSON, allowNull: true },
       revokedAt: { type: DataTypes.DATE, allowNull: true },
       revokedBy: { type: DataTypes.INTEGER, allowNull: true },
       lastUsedAt: { type: DataTypes.DATE, allowNull: true },

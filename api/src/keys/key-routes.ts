@@ -1,12 +1,13 @@
 import { Router } from 'express';
 import { FIELD_LIMITS } from '@shared/engine';
-import { currentUser, requireUser } from '../auth/guards';
+import { currentKey, currentUser, requireKey, requireUser } from '../auth/guards';
 import { isScope, type Scope } from '../auth/principal';
 import { problems } from '../http/problem';
 import { idParam, stringField } from '../http/request-fields';
 import type { KeyService, KeyWithUsage } from './key-service';
 import type { PartnerKey } from './key-store';
 import type { QuotaLeft } from './quota';
+import { allowedOriginsField } from './key-origins';
 
 const keyView = (key: PartnerKey) => ({
   id: key.id,
@@ -14,12 +15,17 @@ const keyView = (key: PartnerKey) => ({
   name: key.name,
   prefix: key.prefix,
   scopes: key.scopes,
+  allowedOrigins: key.allowedOrigins,
   createdAt: key.createdAt.toISOString(),
   lastUsedAt: key.lastUsedAt ? key.lastUsedAt.toISOString() : null,
   revokedAt: key.revokedAt ? key.revokedAt.toISOString() : null,
 });
 
+const quotaView = (quota: QuotaLeft) => ({ limit: quota.limit, remaining: quota.remaining, resetsAt: quota.resetsAt ? quota.resetsAt.toISOString() : null });
+
 const keyWithUsageView = (key: KeyWithUsage) => ({ ...keyView(key), usage: key.usage });
+
+const fieldOf = (body: unknown, name: string): unknown => (typeof body === 'object' && body !== null ? (body as Record<string, unknown>)[name] : undefined);
 
 function scopesField(body: unknown): Scope[] {
   const value = typeof body === 'object' && body !== null ? (body as Record<string, unknown>)['scopes'] : undefined;
@@ -32,13 +38,24 @@ function scopesField(body: unknown): Scope[] {
 /** A signed-in user's partner keys (mounted at /api/v1/keys); `quotaLeft` reads the daily limiter. */
 export function keyRoutes(keys: KeyService, quotaLeft: (keyId: number) => Promise<QuotaLeft>): Router {
   const router = Router();
+  // the calling key itself, before the user guard below (and before /:id, which would read "current" as an id)
+  router.get('/current', requireKey(), async (req, res) => {
+    res.set('Cache-Control', 'no-store');
+    const key = await keys.current(currentKey(req.principal).keyId);
+    res.json({ ...keyWithUsageView(key), quota: quotaView(await quotaLeft(key.id)) });
+  });
+
   router.use(requireUser(), (_req, res, next) => {
     res.set('Cache-Control', 'no-store');
     next();
   });
 
   router.post('/', async (req, res) => {
-    const { key, record } = await keys.create(currentUser(req.principal).userId, { name: stringField(req.body, 'name', { max: FIELD_LIMITS.keyName.max }), scopes: scopesField(req.body) });
+    const { key, record } = await keys.create(currentUser(req.principal).userId, {
+      name: stringField(req.body, 'name', { max: FIELD_LIMITS.keyName.max }),
+      scopes: scopesField(req.body),
+      allowedOrigins: fieldOf(req.body, 'allowedOrigins') === undefined ? [] : allowedOriginsField(fieldOf(req.body, 'allowedOrigins')),
+    });
     res.status(201).location(`/api/v1/keys/${record.id}`).json({ ...keyView(record), key });
   });
 
@@ -54,7 +71,16 @@ export function keyRoutes(keys: KeyService, quotaLeft: (keyId: number) => Promis
   router.get('/:id/usage', async (req, res) => {
     const { key, days, total } = await keys.usageOf(currentUser(req.principal).userId, idParam(req.params['id']));
     const quota = await quotaLeft(key.id);
-    res.json({ keyId: key.id, days, total, quota: { limit: quota.limit, remaining: quota.remaining, resetsAt: quota.resetsAt ? quota.resetsAt.toISOString() : null } });
+    res.json({ keyId: key.id, days, total, quota: quotaView(quota) });
+  });
+
+  router.patch('/:id', async (req, res) => {
+    const origins = fieldOf(req.body, 'allowedOrigins');
+    const change = {
+      name: fieldOf(req.body, 'name') === undefined ? undefined : stringField(req.body, 'name', { max: FIELD_LIMITS.keyName.max }),
+      allowedOrigins: origins === undefined ? undefined : allowedOriginsField(origins),
+    };
+    res.json(keyWithUsageView(await keys.update(currentUser(req.principal), idParam(req.params['id']), change)));
   });
 
   router.delete('/:id', async (req, res) => {

@@ -4,7 +4,7 @@ import type { Principal, Scope } from '../auth/principal';
 import { hashToken, KEY_PREFIX, newPartnerKey } from '../auth/tokens';
 import { problems } from '../http/problem';
 import { UsageCounter } from './usage-counter';
-import { findKey, insertKey, listKeys, markRevoked, usageSince, type DailyUsage, type PartnerKey } from './key-store';
+import { findKey, insertKey, listKeys, markRevoked, updateKey, usageSince, type DailyUsage, type PartnerKey } from './key-store';
 
 /** How many days of usage a key listing shows, today included. */
 export const USAGE_DAYS = 7;
@@ -39,13 +39,13 @@ export function keyService(models: KeyModels, logger?: Logger) {
 
   return {
     /** Creates a key; the returned secret is shown this once and only its hash is kept. */
-    async create(ownerId: number, input: { name: string; scopes: Scope[] }): Promise<{ key: string; record: PartnerKey }> {
+    async create(ownerId: number, input: { name: string; scopes: Scope[]; allowedOrigins: string[] }): Promise<{ key: string; record: PartnerKey }> {
       const name = input.name.trim();
       if (name.length === 0) throw problems.invalidInput('Give the key a name.', [{ name: '/name', reason: 'must not be empty' }]);
       const scopes = [...new Set(input.scopes)].sort();
       if (scopes.length === 0) throw problems.invalidInput('Pick at least one scope.', [{ name: '/scopes', reason: 'must not be empty' }]);
       const key = newPartnerKey();
-      const record = await insertKey(models, { ownerId, name, prefix: key.slice(0, KEY_PREFIX.length + 6), keyHash: hashToken(key), scopes });
+      const record = await insertKey(models, { ownerId, name, prefix: key.slice(0, KEY_PREFIX.length + 6), keyHash: hashToken(key), scopes, allowedOrigins: input.allowedOrigins });
       return { key, record };
     },
 
@@ -65,6 +65,15 @@ export function keyService(models: KeyModels, logger?: Logger) {
       return withDays as KeyWithUsage;
     },
 
+    /** The calling key itself, with its usage (the key passed the gate, so it exists and is live). */
+    async current(keyId: number): Promise<KeyWithUsage> {
+      const key = await findKey(models, keyId);
+      if (!key) throw problems.notFound('This partner key is no longer there.');
+      const [withDays] = await withUsage([key]);
+      if (!withDays) throw problems.notFound('This partner key is no longer there.');
+      return withDays;
+    },
+
     /** One key's requests per UTC day over the last 30 days, every day present (0 without use); owners only. */
     async usageOf(ownerId: number, keyId: number, now = new Date()): Promise<{ key: PartnerKey; days: DailyUsage[]; total: number }> {
       const key = await findKey(models, keyId);
@@ -73,6 +82,19 @@ export function keyService(models: KeyModels, logger?: Logger) {
       const counted = new Map(((await usageSince(models, [key.id], window[0] ?? utcDay(now))).get(key.id) ?? []).map((d) => [d.day, d.count]));
       const days = window.map((day) => ({ day, count: counted.get(day) ?? 0 }));
       return { key, days, total: days.reduce((sum, d) => sum + d.count, 0) };
+    },
+
+    /** Owners (or admins) rename a key or set the browser origins allowed to use it. Someone else's key looks the same as no key. */
+    async update(actor: Extract<Principal, { kind: 'user' }>, keyId: number, change: { name?: string; allowedOrigins?: string[] }): Promise<KeyWithUsage> {
+      const key = await findKey(models, keyId);
+      if (!key || (key.ownerId !== actor.userId && actor.role !== 'admin')) throw problems.notFound(`There is no partner key ${keyId} of yours.`);
+      const name = change.name?.trim();
+      if (name !== undefined && name.length === 0) throw problems.invalidInput('Give the key a name.', [{ name: '/name', reason: 'must not be empty' }]);
+      const updated = await updateKey(models, key.id, { name, allowedOrigins: change.allowedOrigins });
+      if (!updated) throw problems.notFound(`There is no partner key ${keyId} of yours.`);
+      const [withDays] = await withUsage([updated]);
+      if (!withDays) throw problems.notFound(`There is no partner key ${keyId} of yours.`);
+      return withDays;
     },
 
     /** Owners revoke their own keys; admins revoke any. Someone else's key looks the same as no key. */

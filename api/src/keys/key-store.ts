@@ -8,6 +8,8 @@ export interface PartnerKey {
   name: string;
   prefix: string;
   scopes: Scope[];
+  /** browser origins that may call with this key (CORS) */
+  allowedOrigins: string[];
   createdAt: Date;
   lastUsedAt: Date | null;
   revokedAt: Date | null;
@@ -24,6 +26,7 @@ interface KeyRow {
   name: string;
   prefix: string;
   scopes: string[];
+  allowedOrigins: string[] | null;
   createdAt: Date;
   lastUsedAt: Date | null;
   revokedAt: Date | null;
@@ -35,12 +38,13 @@ const toKey = (row: KeyRow): PartnerKey => ({
   name: row.name,
   prefix: row.prefix,
   scopes: row.scopes.filter(isScope),
+  allowedOrigins: row.allowedOrigins ?? [],
   createdAt: row.createdAt,
   lastUsedAt: row.lastUsedAt,
   revokedAt: row.revokedAt,
 });
 
-export async function insertKey(models: KeyModels, key: { ownerId: number; name: string; prefix: string; keyHash: string; scopes: Scope[] }): Promise<PartnerKey> {
+export async function insertKey(models: KeyModels, key: { ownerId: number; name: string; prefix: string; keyHash: string; scopes: Scope[]; allowedOrigins: string[] }): Promise<PartnerKey> {
   const row = await models.PartnerKey.create({ ...key, revokedAt: null, revokedBy: null, lastUsedAt: null });
   return toKey(row);
 }
@@ -53,6 +57,22 @@ export async function findKey(models: KeyModels, id: number): Promise<PartnerKey
 export async function listKeys(models: KeyModels, filter: { ownerId?: number }): Promise<PartnerKey[]> {
   const rows = await models.PartnerKey.findAll({ where: filter.ownerId === undefined ? {} : { ownerId: filter.ownerId }, order: [['id', 'ASC']] });
   return rows.map(toKey);
+}
+
+/** Changes a key's name or allowed origins; the key as it is now. */
+export async function updateKey(models: KeyModels, id: number, change: { name?: string; allowedOrigins?: string[] }): Promise<PartnerKey | undefined> {
+  const row = await models.PartnerKey.findByPk(id);
+  if (!row) return undefined;
+  if (change.name !== undefined) row.name = change.name;
+  if (change.allowedOrigins !== undefined) row.allowedOrigins = change.allowedOrigins;
+  await row.save();
+  return toKey(row);
+}
+
+/** The allowed origins of every live key, by key id (for CORS). */
+export async function liveKeyOrigins(models: KeyModels): Promise<Map<number, string[]>> {
+  const rows = await models.PartnerKey.findAll({ attributes: ['id', 'allowedOrigins'], where: { revokedAt: null } });
+  return new Map(rows.map((row) => [row.id, row.allowedOrigins ?? []]));
 }
 
 export async function markRevoked(models: KeyModels, id: number, revokedBy: number, now: Date): Promise<void> {
