@@ -21,26 +21,26 @@ const API_LAYERS = JSON.parse(readFileSync(new URL('./api/layers.json', import.m
 const layerRules = Object.entries(API_LAYERS)
   .filter(([, allowed]) => !allowed.includes('*'))
   .map(([folder, allowed]) => ({
-  files: [`api/src/${folder}/**/*.ts`],
-  rules: {
-    'no-restricted-imports': [
-      'error',
-      {
-        patterns: [
-          {
-            // `../<folder>/…` is another api/src folder; `db/migrations` is allowed as the list itself only
-            regex: `^\\.\\./(?!(?:${allowed.map((a) => (a.includes('/') ? `${a}$` : `${a}/`)).join('|') || '(?!)'}))[^./][^/]*(/|$)`,
-            message: `api/src/${folder} may import only ${allowed.length ? allowed.join(', ') : 'no other api/src folder'} (see api/layers.json and DEVELOPERS.md).`,
-          },
-          {
-            regex: '-routes$',
-            message: 'Routers are mounted by the composition root (app.ts) only; import the service, not the routes.',
-          },
-        ],
-      },
-    ],
-  },
-}));
+    files: [`api/src/${folder}/**/*.ts`],
+    rules: {
+      'no-restricted-imports': [
+        'error',
+        {
+          patterns: [
+            {
+              // `../<folder>/…` is another api/src folder; `db/migrations` is allowed as the list itself only
+              regex: `^\\.\\./(?!(?:${allowed.map((a) => (a.includes('/') ? `${a}$` : `${a}/`)).join('|') || '(?!)'}))[^./][^/]*(/|$)`,
+              message: `api/src/${folder} may import only ${allowed.length ? allowed.join(', ') : 'no other api/src folder'} (see api/layers.json and DEVELOPERS.md).`,
+            },
+            {
+              regex: '-routes$',
+              message: 'Routers are mounted by the composition root (app.ts) only; import the service, not the routes.',
+            },
+          ],
+        },
+      ],
+    },
+  }));
 
 export default tseslint.config(
   { ignores: ['dist/**', 'node_modules/**', '.angular/**', 'data/**', 'test-results/**', 'coverage/**'] },

@@ -216,7 +216,14 @@ async function measureBoth(base: string, key: string, setup: string, profile: bo
 
 async function throughput(): Promise<boolean> {
   const created = await createApp(
-    loadConfig({ NODE_ENV: 'test', LOG_LEVEL: 'silent', VALIDATE_RESPONSES: 'false', KEY_PER_MINUTE: '1000000', KEY_DAILY_QUOTA: '100000000', IDENTIFY_WORKERS: String(WORKERS) }),
+    loadConfig({
+      NODE_ENV: 'test',
+      LOG_LEVEL: 'silent',
+      VALIDATE_RESPONSES: 'false',
+      KEY_PER_MINUTE: '1000000',
+      KEY_DAILY_QUOTA: '100000000',
+      IDENTIFY_WORKERS: String(WORKERS),
+    }),
   );
   const { server, base } = await listen(created);
   try {
@@ -231,17 +238,32 @@ async function throughput(): Promise<boolean> {
 /** Fires more requests than a key's per-minute limit allows, all at once, and counts the answers. */
 async function limiterHoldsUnderConcurrency(): Promise<boolean> {
   const created = await createApp(
-    loadConfig({ NODE_ENV: 'test', LOG_LEVEL: 'silent', VALIDATE_RESPONSES: 'false', KEY_PER_MINUTE: String(LIMITER_QUOTA), IDENTIFY_WORKERS: String(WORKERS) }),
+    loadConfig({
+      NODE_ENV: 'test',
+      LOG_LEVEL: 'silent',
+      VALIDATE_RESPONSES: 'false',
+      KEY_PER_MINUTE: String(LIMITER_QUOTA),
+      IDENTIFY_WORKERS: String(WORKERS),
+    }),
   );
   const { server, base } = await listen(created);
   try {
     const key = await partnerKey(base, 'limiter');
     const headers = { 'content-type': 'application/json', authorization: `Bearer ${key}` };
-    const result = await autocannon({ url: `${base}/api/v1/identify`, connections: CONNECTIONS, amount: LIMITER_REQUESTS, method: 'POST', headers, body: TYPICAL_SIFT });
+    const result = await autocannon({
+      url: `${base}/api/v1/identify`,
+      connections: CONNECTIONS,
+      amount: LIMITER_REQUESTS,
+      method: 'POST',
+      headers,
+      body: TYPICAL_SIFT,
+    });
     const stats = result.statusCodeStats ?? {};
     const ok = stats['200']?.count ?? 0;
     const limited = stats['429']?.count ?? 0;
-    console.log(`\nrate limiter: ${LIMITER_REQUESTS} identify calls on one key limited to ${LIMITER_QUOTA}/minute, ${CONNECTIONS} at a time → ${ok} × 200, ${limited} × 429`);
+    console.log(
+      `\nrate limiter: ${LIMITER_REQUESTS} identify calls on one key limited to ${LIMITER_QUOTA}/minute, ${CONNECTIONS} at a time → ${ok} × 200, ${limited} × 429`,
+    );
     const exact = ok === LIMITER_QUOTA && limited === LIMITER_REQUESTS - LIMITER_QUOTA;
     console.log(exact ? 'the limiter answers 429 exactly past the quota' : 'the limiter did NOT stop exactly at the quota');
     return exact;
@@ -317,5 +339,7 @@ const limited = await limiterHoldsUnderConcurrency();
 const separate = await throughputSeparate(WORKERS);
 // the same server answering identify on its request thread, to show what the workers bring (not part of the verdict)
 if (WORKERS > 0) await throughputSeparate(0, ' (for comparison only)');
-console.log(`\n${fast ? 'PASS' : 'FAIL'} throughput and latency with the load generator in the server's process; ${separate ? 'PASS' : 'FAIL'} with the server in its own; ${limited ? 'PASS' : 'FAIL'} rate limit`);
+console.log(
+  `\n${fast ? 'PASS' : 'FAIL'} throughput and latency with the load generator in the server's process; ${separate ? 'PASS' : 'FAIL'} with the server in its own; ${limited ? 'PASS' : 'FAIL'} rate limit`,
+);
 process.exit(fast && separate && limited ? 0 : 1);

@@ -35,7 +35,13 @@ function percentile(values: number[], p: number): number {
 }
 
 function summary(frames: number[]) {
-  return { frames: frames.length, p50: percentile(frames, 50), p95: percentile(frames, 95), max: Math.max(...frames), overBudget: frames.filter((ms) => ms > FRAME_BUDGET_MS * 1.5).length };
+  return {
+    frames: frames.length,
+    p50: percentile(frames, 50),
+    p95: percentile(frames, 95),
+    max: Math.max(...frames),
+    overBudget: frames.filter((ms) => ms > FRAME_BUDGET_MS * 1.5).length,
+  };
 }
 
 async function main(): Promise<void> {
@@ -120,14 +126,24 @@ async function main(): Promise<void> {
       return;
     }
     const ms = (value: number) => `${value.toFixed(1)} ms`;
-    console.log(`Matrix desk grid: ${TAXA.toLocaleString('en')} species × ${TRAITS} traits (${(TAXA * TRAITS).toLocaleString('en')} cells, ${result.matrix.jsonMB} MB of JSON)`);
-    console.log(`first render        ${ms(firstRender.sinceDataMs)} from the data's arrival to the first rows drawn (goal ≤ ${FIRST_RENDER_GOAL_MS} ms); ${firstRender.drawnRows} rows, ${firstRender.drawnCells} cells drawn`);
-    console.log(`                    ${ms(firstRender.sinceNavigationMs)} from navigation, which includes handing ${result.matrix.jsonMB} MB to the page through interception`);
+    console.log(
+      `Matrix desk grid: ${TAXA.toLocaleString('en')} species × ${TRAITS} traits (${(TAXA * TRAITS).toLocaleString('en')} cells, ${result.matrix.jsonMB} MB of JSON)`,
+    );
+    console.log(
+      `first render        ${ms(firstRender.sinceDataMs)} from the data's arrival to the first rows drawn (goal ≤ ${FIRST_RENDER_GOAL_MS} ms); ${firstRender.drawnRows} rows, ${firstRender.drawnCells} cells drawn`,
+    );
+    console.log(
+      `                    ${ms(firstRender.sinceNavigationMs)} from navigation, which includes handing ${result.matrix.jsonMB} MB to the page through interception`,
+    );
     for (const [name, figures] of Object.entries({ 'scroll down': down, 'scroll right': right, 'scroll diagonal': diagonal })) {
-      console.log(`${name.padEnd(20)}p50 ${ms(figures.p50)}, p95 ${ms(figures.p95)}, max ${ms(figures.max)} over ${figures.frames} frames; ${figures.overBudget} frames over 1.5 × budget (goal p95 ≤ ${ms(FRAME_BUDGET_MS)})`);
+      console.log(
+        `${name.padEnd(20)}p50 ${ms(figures.p50)}, p95 ${ms(figures.p95)}, max ${ms(figures.max)} over ${figures.frames} frames; ${figures.overBudget} frames over 1.5 × budget (goal p95 ≤ ${ms(FRAME_BUDGET_MS)})`,
+      );
     }
     console.log(`cells in the page after scrolling: ${stillDrawn} (rows and columns stay windowed)`);
-    console.log(`machine: ${result.machine.cores} cores, load average ${result.machine.loadAverage.join(' / ')} (1 / 5 / 15 min): figures from a busy machine run slow`);
+    console.log(
+      `machine: ${result.machine.cores} cores, load average ${result.machine.loadAverage.join(' / ')} (1 / 5 / 15 min): figures from a busy machine run slow`,
+    );
   } finally {
     await browser.close();
     await app.stop();

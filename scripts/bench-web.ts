@@ -228,7 +228,9 @@ async function main(): Promise<void> {
     ] as const) {
       const ok = visit.total <= goal;
       failed ||= !ok;
-      console.log(`  ${label.padEnd(13)} ${kB(visit.total).padStart(9)}   ${ok ? 'ok' : `MISSES ≤ ${kB(goal)}`}  (${visit.requests} requests, edition ${kB(visit.edition)})`);
+      console.log(
+        `  ${label.padEnd(13)} ${kB(visit.total).padStart(9)}   ${ok ? 'ok' : `MISSES ≤ ${kB(goal)}`}  (${visit.requests} requests, edition ${kB(visit.edition)})`,
+      );
       for (const entry of visit.largest) console.log(`      ${kB(entry.bytes).padStart(9)}  ${entry.url.replace(server.base, '')}`);
     }
   } finally {

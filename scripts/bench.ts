@@ -11,7 +11,18 @@
  */
 import { setFlagsFromString } from 'node:v8';
 import { runInNewContext } from 'node:vm';
-import { compileMatrix, decodeBundle, encodeBundle, generateSyntheticMatrix, prepareObservations, rank, seededRandom, suggest, type CompiledMatrix, type Observation } from '@shared/engine';
+import {
+  compileMatrix,
+  decodeBundle,
+  encodeBundle,
+  generateSyntheticMatrix,
+  prepareObservations,
+  rank,
+  seededRandom,
+  suggest,
+  type CompiledMatrix,
+  type Observation,
+} from '@shared/engine';
 import { drawAnswer } from './lib/engine-sim';
 import { all, buildSqliteBaseline, rankingQuery, type SqlRow } from './lib/engine-sqlite';
 
@@ -125,14 +136,25 @@ function bareScan(compiled: CompiledMatrix, observations: readonly Observation[]
       for (let t = 0; t < n; t++) checksum += patterns[base + t];
     } else {
       const block = observation.trait.numericIndex * 4 * n;
-      for (let t = 0; t < n; t++) checksum += patterns[base + t] + ranges[block + t] + ranges[block + n + t] + ranges[block + 2 * n + t] + ranges[block + 3 * n + t];
+      for (let t = 0; t < n; t++)
+        checksum += patterns[base + t] + ranges[block + t] + ranges[block + n + t] + ranges[block + 2 * n + t] + ranges[block + 3 * n + t];
     }
   }
   return checksum;
 }
 
 function compiledBytes(compiled: CompiledMatrix): number {
-  return [compiled.priorWeight, compiled.cellPattern, compiled.masks, compiled.likelihood, compiled.logLikelihood, compiled.valueStatus, compiled.ranges, compiled.overrideKeys, compiled.overrideCoded].reduce((sum, array) => sum + array.byteLength, 0);
+  return [
+    compiled.priorWeight,
+    compiled.cellPattern,
+    compiled.masks,
+    compiled.likelihood,
+    compiled.logLikelihood,
+    compiled.valueStatus,
+    compiled.ranges,
+    compiled.overrideKeys,
+    compiled.overrideCoded,
+  ].reduce((sum, array) => sum + array.byteLength, 0);
 }
 
 /** A garbage collection on demand, so retained memory can be measured (the flag must be set before use). */
@@ -148,7 +170,9 @@ async function main(): Promise<void> {
   const taxa = 10_000;
   const traitCount = 200;
   const reps = quick ? 30 : 300;
-  const results: Record<string, unknown> = { machine: { cpus: (await import('node:os')).cpus().length, node: process.version, loadAverage: (await import('node:os')).loadavg() } };
+  const results: Record<string, unknown> = {
+    machine: { cpus: (await import('node:os')).cpus().length, node: process.version, loadAverage: (await import('node:os')).loadavg() },
+  };
 
   log(`Generating a synthetic matrix of ${taxa.toLocaleString()} taxa × ${traitCount} traits …`);
   let start = performance.now();
@@ -193,7 +217,11 @@ async function main(): Promise<void> {
 
   // rank, 10 observations, against the floor and SQLite
   const sets = observationSets(compiled, 20, 10, 7);
-  const [rankTiming, floorTiming] = timeInTurn(reps, (i) => rank(compiled, sets[i % sets.length]), (i) => bareScan(compiled, sets[i % sets.length]));
+  const [rankTiming, floorTiming] = timeInTurn(
+    reps,
+    (i) => rank(compiled, sets[i % sets.length]),
+    (i) => bareScan(compiled, sets[i % sets.length]),
+  );
   log('Building the SQLite baseline (indexed (taxon, trait, value) table) …');
   start = performance.now();
   const db = await buildSqliteBaseline(compiled);
@@ -228,7 +256,13 @@ async function main(): Promise<void> {
   const suggestColdMs = performance.now() - coldStart;
   const candidatesLeft = rank(compiled, twoObservations[0], { limit: 0 }).totalCandidates;
   const suggestTiming = time(quick ? 5 : 25, (i) => suggest(compiled, twoObservations[i % twoObservations.length]), 3);
-  results['suggest'] = { candidates: candidatesLeft, traitsConsidered: traitCount - 2, coldFirstCallMs: suggestColdMs, ...suggestTiming, top: firstSuggestions[0]?.trait };
+  results['suggest'] = {
+    candidates: candidatesLeft,
+    traitsConsidered: traitCount - 2,
+    coldFirstCallMs: suggestColdMs,
+    ...suggestTiming,
+    top: firstSuggestions[0]?.trait,
+  };
 
   // growth: rank at 1,000, 10,000 and 100,000 taxa (50 traits, so the largest fits comfortably)
   const growth: Array<{ taxa: number; medianMs: number; cpuMs: number }> = [];
@@ -238,18 +272,44 @@ async function main(): Promise<void> {
     const timing = time(size >= 100_000 ? 60 : reps, (i) => rank(grown, growthSets[i % growthSets.length]));
     growth.push({ taxa: size, medianMs: timing.medianMs, cpuMs: timing.cpuMs });
   }
-  const growthRatios = growth.slice(1).map((row, i) => ({ from: growth[i].taxa, to: row.taxa, ratio: row.medianMs / growth[i].medianMs, cpuRatio: row.cpuMs / Math.max(growth[i].cpuMs, 1e-3) }));
+  const growthRatios = growth
+    .slice(1)
+    .map((row, i) => ({ from: growth[i].taxa, to: row.taxa, ratio: row.medianMs / growth[i].medianMs, cpuRatio: row.cpuMs / Math.max(growth[i].cpuMs, 1e-3) }));
   results['growth'] = { rows: growth, ratios: growthRatios };
 
   const targets = [
-    { what: 'rank median ≤ 2 ms (10k × 200, 10 obs)', ok: rankTiming.medianMs <= 2, value: `${rankTiming.medianMs.toFixed(3)} ms (CPU ${rankTiming.cpuMs.toFixed(3)} ms)` },
-    { what: 'rank ≥ 20× faster than SQLite', ok: sqliteTiming.medianMs / rankTiming.medianMs >= 20, value: `${(sqliteTiming.medianMs / rankTiming.medianMs).toFixed(0)}×` },
-    { what: 'rank within 4× of the bare scan', ok: rankTiming.medianMs / floorTiming.medianMs <= 4, value: `${(rankTiming.medianMs / floorTiming.medianMs).toFixed(2)}× wall, ${(rankTiming.cpuMs / Math.max(floorTiming.cpuMs, 1e-3)).toFixed(2)}× CPU` },
-    { what: 'suggest median ≤ 30 ms (10k candidates)', ok: suggestTiming.medianMs <= 30, value: `${suggestTiming.medianMs.toFixed(1)} ms (CPU ${suggestTiming.cpuMs.toFixed(1)} ms)` },
+    {
+      what: 'rank median ≤ 2 ms (10k × 200, 10 obs)',
+      ok: rankTiming.medianMs <= 2,
+      value: `${rankTiming.medianMs.toFixed(3)} ms (CPU ${rankTiming.cpuMs.toFixed(3)} ms)`,
+    },
+    {
+      what: 'rank ≥ 20× faster than SQLite',
+      ok: sqliteTiming.medianMs / rankTiming.medianMs >= 20,
+      value: `${(sqliteTiming.medianMs / rankTiming.medianMs).toFixed(0)}×`,
+    },
+    {
+      what: 'rank within 4× of the bare scan',
+      ok: rankTiming.medianMs / floorTiming.medianMs <= 4,
+      value: `${(rankTiming.medianMs / floorTiming.medianMs).toFixed(2)}× wall, ${(rankTiming.cpuMs / Math.max(floorTiming.cpuMs, 1e-3)).toFixed(2)}× CPU`,
+    },
+    {
+      what: 'suggest median ≤ 30 ms (10k candidates)',
+      ok: suggestTiming.medianMs <= 30,
+      value: `${suggestTiming.medianMs.toFixed(1)} ms (CPU ${suggestTiming.cpuMs.toFixed(1)} ms)`,
+    },
     { what: 'compileMatrix ≤ 2 s (10k × 200)', ok: median(compileTimes) <= 2000, value: `${median(compileTimes).toFixed(0)} ms` },
-    { what: 'compiled size ≤ 40 MB', ok: arraysBytes / 1e6 <= 40 && bundle.length / 1e6 <= 40, value: `${(arraysBytes / 1e6).toFixed(1)} MB arrays, ${(bundle.length / 1e6).toFixed(1)} MB bundle, ${(heapAfter - heapBefore).toFixed(1)} MB retained` },
+    {
+      what: 'compiled size ≤ 40 MB',
+      ok: arraysBytes / 1e6 <= 40 && bundle.length / 1e6 <= 40,
+      value: `${(arraysBytes / 1e6).toFixed(1)} MB arrays, ${(bundle.length / 1e6).toFixed(1)} MB bundle, ${(heapAfter - heapBefore).toFixed(1)} MB retained`,
+    },
     { what: 'bundle decode ≤ 200 ms', ok: decode.medianMs <= 200, value: `${decode.medianMs.toFixed(1)} ms` },
-    ...growthRatios.map((ratio) => ({ what: `rank growth ${ratio.from.toLocaleString()} → ${ratio.to.toLocaleString()} taxa ≤ 12×`, ok: ratio.ratio <= 12, value: `${ratio.ratio.toFixed(2)}× wall, ${ratio.cpuRatio.toFixed(2)}× CPU` })),
+    ...growthRatios.map((ratio) => ({
+      what: `rank growth ${ratio.from.toLocaleString()} → ${ratio.to.toLocaleString()} taxa ≤ 12×`,
+      ok: ratio.ratio <= 12,
+      value: `${ratio.ratio.toFixed(2)}× wall, ${ratio.cpuRatio.toFixed(2)}× CPU`,
+    })),
   ];
   results['targets'] = targets;
 
@@ -260,9 +320,15 @@ async function main(): Promise<void> {
   const rankResult = results['rank'] as { sqliteBuildMs: number; sqliteAgreesOnTop20: string };
   log('');
   log(`machine: ${JSON.stringify(results['machine'])}`);
-  log(`generate 10k × 200: ${generateMs.toFixed(0)} ms; compile: ${median(compileTimes).toFixed(0)} ms (median of ${compileTimes.length}); encode ${encodeMs.toFixed(0)} ms; decode ${decode.medianMs.toFixed(1)} ms`);
-  log(`rank 10 obs: engine ${rankTiming.medianMs.toFixed(3)} ms (CPU ${rankTiming.cpuMs.toFixed(3)}), bare scan ${floorTiming.medianMs.toFixed(3)} ms (CPU ${floorTiming.cpuMs.toFixed(3)}), SQLite ${sqliteTiming.medianMs.toFixed(1)} ms (CPU ${sqliteTiming.cpuMs.toFixed(1)}); SQLite build ${rankResult.sqliteBuildMs.toFixed(0)} ms; SQLite top-20 equals the engine's in ${rankResult.sqliteAgreesOnTop20}`);
-  log(`suggest: ${candidatesLeft} candidates, first call ${suggestColdMs.toFixed(0)} ms (builds band tables), then median ${suggestTiming.medianMs.toFixed(1)} ms`);
+  log(
+    `generate 10k × 200: ${generateMs.toFixed(0)} ms; compile: ${median(compileTimes).toFixed(0)} ms (median of ${compileTimes.length}); encode ${encodeMs.toFixed(0)} ms; decode ${decode.medianMs.toFixed(1)} ms`,
+  );
+  log(
+    `rank 10 obs: engine ${rankTiming.medianMs.toFixed(3)} ms (CPU ${rankTiming.cpuMs.toFixed(3)}), bare scan ${floorTiming.medianMs.toFixed(3)} ms (CPU ${floorTiming.cpuMs.toFixed(3)}), SQLite ${sqliteTiming.medianMs.toFixed(1)} ms (CPU ${sqliteTiming.cpuMs.toFixed(1)}); SQLite build ${rankResult.sqliteBuildMs.toFixed(0)} ms; SQLite top-20 equals the engine's in ${rankResult.sqliteAgreesOnTop20}`,
+  );
+  log(
+    `suggest: ${candidatesLeft} candidates, first call ${suggestColdMs.toFixed(0)} ms (builds band tables), then median ${suggestTiming.medianMs.toFixed(1)} ms`,
+  );
   log(`growth: ${growth.map((row) => `${row.taxa.toLocaleString()} taxa ${row.medianMs.toFixed(3)} ms`).join(', ')}`);
   log('');
   log('target                                              result  figure');

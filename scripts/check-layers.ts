@@ -43,7 +43,10 @@ function importsOf(file: string): string[] {
 
 const edges = new Map<string, Map<string, string[]>>();
 const problems: string[] = [];
-const folders = fs.readdirSync(SOURCE, { withFileTypes: true }).filter((entry) => entry.isDirectory()).map((entry) => entry.name);
+const folders = fs
+  .readdirSync(SOURCE, { withFileTypes: true })
+  .filter((entry) => entry.isDirectory())
+  .map((entry) => entry.name);
 for (const folder of folders) if (!(folder in LAYERS)) problems.push(`api/src/${folder} is not in api/layers.json: say which folders it may import`);
 for (const folder of Object.keys(LAYERS)) if (!folders.includes(folder)) problems.push(`api/layers.json lists ${folder}, which is not a folder of api/src`);
 for (const file of sourceFiles(SOURCE)) {
@@ -58,7 +61,10 @@ for (const file of sourceFiles(SOURCE)) {
       continue;
     }
     const allowed = LAYERS[from];
-    const target = path.relative(SOURCE, path.resolve(path.dirname(file), specifier)).split(path.sep).join('/');
+    const target = path
+      .relative(SOURCE, path.resolve(path.dirname(file), specifier))
+      .split(path.sep)
+      .join('/');
     if (allowed && !allowed.includes('*') && !allowed.includes(to) && !allowed.includes(target)) {
       problems.push(`${where}: api/src/${from} may import only ${allowed.join(', ') || 'no other api/src folder'} (api/layers.json)`);
     }
@@ -123,4 +129,8 @@ if (problems.length > 0) {
   console.error(`\n${problems.length} layer problem(s):\n  - ${problems.join('\n  - ')}`);
   process.exit(1);
 }
-console.log(quiet ? 'api/src: no folder-level import cycles; every import keeps api/layers.json' : '\nno folder-level import cycles in api/src; every import keeps api/layers.json');
+console.log(
+  quiet
+    ? 'api/src: no folder-level import cycles; every import keeps api/layers.json'
+    : '\nno folder-level import cycles in api/src; every import keeps api/layers.json',
+);

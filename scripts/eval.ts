@@ -88,7 +88,15 @@ function policyFor(name: PolicyName, compiled: CompiledMatrix, order: number[], 
   }
 }
 
-function evaluateMatrix(label: string, doc: MatrixDocument, errorRate: number, repeats: number, matchErrorRate: boolean, policies: readonly PolicyName[] = POLICIES, partsMissing = false): Row[] {
+function evaluateMatrix(
+  label: string,
+  doc: MatrixDocument,
+  errorRate: number,
+  repeats: number,
+  matchErrorRate: boolean,
+  policies: readonly PolicyName[] = POLICIES,
+  partsMissing = false,
+): Row[] {
   const compiled = compileMatrix(matchErrorRate ? withErrorRate(doc, errorRate) : doc);
   const order = fixedOrder(compiled);
   const rows: Row[] = [];
@@ -112,7 +120,9 @@ function evaluateMatrix(label: string, doc: MatrixDocument, errorRate: number, r
       maxQuestions: Math.max(...questions),
       top1: outcomes.filter((outcome) => outcome.leader === outcome.truth).length / outcomes.length,
       top3: outcomes.filter((outcome) => outcome.top3.includes(outcome.truth)).length / outcomes.length,
-      calibrationError: expectedCalibrationError(outcomes.map((outcome) => ({ confidence: outcome.leaderProbability, correct: outcome.leader === outcome.truth }))),
+      calibrationError: expectedCalibrationError(
+        outcomes.map((outcome) => ({ confidence: outcome.leaderProbability, correct: outcome.leader === outcome.truth })),
+      ),
     });
   }
   return rows;
@@ -139,8 +149,15 @@ interface OptimumSummary {
 function meanQuestions(compiled: CompiledMatrix, lookahead: boolean): number {
   let total = 0;
   for (let t = 0; t < compiled.taxonCount; t++) {
-    const outcome = simulateSift(compiled, t, seededRandom(t + 1), { kind: 'engine', assumeSeen: true, ...(lookahead ? {} : { lookaheadMaxCandidates: 0 }) }, { confidentAt: CONFIDENT_AT, errorRate: 0 });
-    if (outcome.leader !== compiled.taxa[t].id && outcome.leaderProbability >= CONFIDENT_AT) throw new Error(`error-free sift for ${compiled.taxa[t].id} ended on ${outcome.leader}`);
+    const outcome = simulateSift(
+      compiled,
+      t,
+      seededRandom(t + 1),
+      { kind: 'engine', assumeSeen: true, ...(lookahead ? {} : { lookaheadMaxCandidates: 0 }) },
+      { confidentAt: CONFIDENT_AT, errorRate: 0 },
+    );
+    if (outcome.leader !== compiled.taxa[t].id && outcome.leaderProbability >= CONFIDENT_AT)
+      throw new Error(`error-free sift for ${compiled.taxa[t].id} ended on ${outcome.leader}`);
     total += outcome.questions;
   }
   return total / compiled.taxonCount;
@@ -248,17 +265,19 @@ async function main(): Promise<void> {
   }
   const syntheticPooled = pooled(syntheticRows, `synthetic 50×25 ×${syntheticSeeds.length}`);
   if (syntheticRows.length > 0) {
-    log('\nSynthetic matrices (the engine is told the observers\' error rate p):');
+    log("\nSynthetic matrices (the engine is told the observers' error rate p):");
     printRows(syntheticPooled);
     log(`lower bound on mean questions (H(prior) / log2 of the widest trait): ${(bounds.reduce((a, b) => a + b, 0) / bounds.length).toFixed(2)}`);
   }
 
   let referenceRows: Row[] = [];
   let referenceBound: number | undefined;
-  const reference = !runs('reference') ? null : await loadReference().catch((error: unknown) => {
-    log(`\nReference matrix: could not be loaded (${error instanceof Error ? error.message : String(error)}); skipped.`);
-    return undefined;
-  });
+  const reference = !runs('reference')
+    ? null
+    : await loadReference().catch((error: unknown) => {
+        log(`\nReference matrix: could not be loaded (${error instanceof Error ? error.message : String(error)}); skipped.`);
+        return undefined;
+      });
   if (reference) {
     const compiled = compileMatrix(reference);
     referenceBound = lowerBound(compiled);
@@ -268,7 +287,9 @@ async function main(): Promise<void> {
     printRows(referenceRows);
     log(`lower bound on mean questions: ${referenceBound.toFixed(2)}`);
     const missingRows = evaluateMatrix('reference, parts missing', reference, 0.05, repeats, false, MISSING_PARTS_POLICIES, true);
-    log('\nReference matrix on standing trees whose flowers, fruit and cones are sometimes missing (a question about a missing part is asked and goes unanswered):');
+    log(
+      '\nReference matrix on standing trees whose flowers, fruit and cones are sometimes missing (a question about a missing part is asked and goes unanswered):',
+    );
     printRows(missingRows);
     referenceRows.push(...missingRows);
   } else if (reference === undefined) {
@@ -279,13 +300,22 @@ async function main(): Promise<void> {
   const optimumCount = quick ? 30 : 200;
   const optimum = runs('optimum') ? compareWithOptimum(optimumCount) : undefined;
   if (optimum) {
-  log(`\nExact optimum (DP over candidate subsets) on ${optimum.matrices} random error-free matrices of 10 taxa, ease 1:`);
-  log(`  mean expected questions: optimum ${optimum.meanOptimum.toFixed(3)}, engine with lookahead ${optimum.meanEngine.toFixed(3)}, greedy entropy only ${optimum.meanGreedy.toFixed(3)}`);
-  log(`  engine above optimum: mean ${percent(optimum.engineExcessMean)}, worst matrix ${percent(optimum.engineExcessWorst)}`);
-  log(`  greedy above optimum: mean ${percent(optimum.greedyExcessMean)}, worst matrix ${percent(optimum.greedyExcessWorst)}`);
+    log(`\nExact optimum (DP over candidate subsets) on ${optimum.matrices} random error-free matrices of 10 taxa, ease 1:`);
+    log(
+      `  mean expected questions: optimum ${optimum.meanOptimum.toFixed(3)}, engine with lookahead ${optimum.meanEngine.toFixed(3)}, greedy entropy only ${optimum.meanGreedy.toFixed(3)}`,
+    );
+    log(`  engine above optimum: mean ${percent(optimum.engineExcessMean)}, worst matrix ${percent(optimum.engineExcessWorst)}`);
+    log(`  greedy above optimum: mean ${percent(optimum.greedyExcessMean)}, worst matrix ${percent(optimum.greedyExcessWorst)}`);
   }
   log(`\n(${((performance.now() - started) / 1000).toFixed(0)} s)`);
-  if (asJson) console.log(JSON.stringify({ synthetic: syntheticPooled, syntheticLowerBound: bounds, reference: referenceRows, referenceLowerBound: referenceBound, optimum }, null, 2));
+  if (asJson)
+    console.log(
+      JSON.stringify(
+        { synthetic: syntheticPooled, syntheticLowerBound: bounds, reference: referenceRows, referenceLowerBound: referenceBound, optimum },
+        null,
+        2,
+      ),
+    );
 }
 
 await main();

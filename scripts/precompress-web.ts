@@ -48,4 +48,6 @@ for await (const file of files(webRoot)) {
   asBrotli += Math.min(br.byteLength, bytes.byteLength);
   count++;
 }
-console.log(`precompressed ${count} files in ${path.relative(root, webRoot) || '.'}: ${(original / 1000).toFixed(0)} kB → ${(asBrotli / 1000).toFixed(0)} kB with brotli`);
+console.log(
+  `precompressed ${count} files in ${path.relative(root, webRoot) || '.'}: ${(original / 1000).toFixed(0)} kB → ${(asBrotli / 1000).toFixed(0)} kB with brotli`,
+);

@@ -88,5 +88,7 @@ if (unused && check.glyphs(unused).length === 1) throw new Error(`the subset sti
 
 await mkdir(path.dirname(ICON_SUBSET), { recursive: true });
 await writeFile(ICON_SUBSET, subset);
-console.log(`${path.relative(root, ICON_SUBSET)}: ${icons.size} icons, ${(subset.byteLength / 1000).toFixed(1)} kB (the full font is ${((await readFile(FULL_FONT)).byteLength / 1000).toFixed(0)} kB)`);
+console.log(
+  `${path.relative(root, ICON_SUBSET)}: ${icons.size} icons, ${(subset.byteLength / 1000).toFixed(1)} kB (the full font is ${((await readFile(FULL_FONT)).byteLength / 1000).toFixed(0)} kB)`,
+);
 console.log(`  ${[...icons.keys()].sort().join(' ')}`);

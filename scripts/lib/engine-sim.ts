@@ -5,7 +5,18 @@
  * engine's own frequency weights), then replaced by a wrong value with probability `errorRate`;
  * traits that do not apply to the taxon get no answer.
  */
-import { INAPPLICABLE_PATTERN, MODEL, RangeField, rank, seeingChance, suggest, UNKNOWN_PATTERN, ValueStatus, type CompiledMatrix, type Observation } from '@shared/engine';
+import {
+  INAPPLICABLE_PATTERN,
+  MODEL,
+  RangeField,
+  rank,
+  seeingChance,
+  suggest,
+  UNKNOWN_PATTERN,
+  ValueStatus,
+  type CompiledMatrix,
+  type Observation,
+} from '@shared/engine';
 
 export type Random = () => number;
 
@@ -76,9 +87,7 @@ export function drawAnswer(compiled: CompiledMatrix, traitIndex: number, t: numb
 
 /** How the next trait is chosen in a simulated sift. */
 export type Policy =
-  | { kind: 'engine'; lookaheadMaxCandidates?: number; assumeSeen?: boolean }
-  | { kind: 'fixed'; order: number[] }
-  | { kind: 'random'; random: Random };
+  { kind: 'engine'; lookaheadMaxCandidates?: number; assumeSeen?: boolean } | { kind: 'fixed'; order: number[] } | { kind: 'random'; random: Random };
 
 export interface SiftOutcome {
   questions: number;

@@ -40,7 +40,10 @@ export async function buildSqliteBaseline(compiled: CompiledMatrix): Promise<sql
   await run(db, 'PRAGMA synchronous = OFF');
   await run(db, 'CREATE TABLE taxa (taxon INTEGER PRIMARY KEY, logprior REAL NOT NULL)');
   await run(db, 'CREATE TABLE cells (taxon INTEGER NOT NULL, trait INTEGER NOT NULL, value INTEGER NOT NULL, weight REAL NOT NULL)');
-  await run(db, 'CREATE TABLE cellinfo (taxon INTEGER NOT NULL, trait INTEGER NOT NULL, status INTEGER NOT NULL, total REAL, min REAL, low REAL, high REAL, max REAL)');
+  await run(
+    db,
+    'CREATE TABLE cellinfo (taxon INTEGER NOT NULL, trait INTEGER NOT NULL, status INTEGER NOT NULL, total REAL, min REAL, low REAL, high REAL, max REAL)',
+  );
   await run(db, 'BEGIN');
   const n = compiled.taxonCount;
   let total = 0;
@@ -74,7 +77,11 @@ export async function buildSqliteBaseline(compiled: CompiledMatrix): Promise<sql
     if (cellRows.length > 0) {
       await run(db, 'INSERT INTO cells SELECT value ->> 0, ?, value ->> 1, value ->> 2 FROM json_each(?)', [trait.index, JSON.stringify(cellRows)]);
     }
-    await run(db, 'INSERT INTO cellinfo SELECT value ->> 0, ?, value ->> 1, value ->> 2, value ->> 3, value ->> 4, value ->> 5, value ->> 6 FROM json_each(?)', [trait.index, JSON.stringify(infoRows)]);
+    await run(
+      db,
+      'INSERT INTO cellinfo SELECT value ->> 0, ?, value ->> 1, value ->> 2, value ->> 3, value ->> 4, value ->> 5, value ->> 6 FROM json_each(?)',
+      [trait.index, JSON.stringify(infoRows)],
+    );
   }
   await run(db, 'COMMIT');
   await run(db, 'CREATE INDEX cells_by_trait_value ON cells (trait, value, taxon)');

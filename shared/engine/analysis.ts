@@ -73,7 +73,14 @@ export function compare(compiled: CompiledMatrix, ids: readonly string[]): Compa
   for (const trait of compiled.traits) {
     const { verdict, strength } = verdictFor(compiled, trait, taxa);
     const cells = Object.fromEntries(taxa.map((t) => [compiled.taxa[t].id, effectiveCellOf(compiled, trait, t)]));
-    const entry: TraitComparison = { trait: trait.code, label: trait.label, verdict, ...(strength && { strength }), cells, text: comparisonText(trait, verdict, strength) };
+    const entry: TraitComparison = {
+      trait: trait.code,
+      label: trait.label,
+      verdict,
+      ...(strength && { strength }),
+      cells,
+      text: comparisonText(trait, verdict, strength),
+    };
     if (verdict === 'separates') (strength === 'reliable' ? result.separating : usually).push(entry);
     else if (verdict === 'overlaps') result.overlapping.push(entry);
     else if (verdict === 'same') result.same.push(entry);

@@ -130,7 +130,16 @@ function bandRow(compiled: CompiledMatrix, trait: CompiledTrait, t: number, cuts
   if (pattern === INAPPLICABLE_PATTERN) return out.fill(trait.errorRate / bands);
   const block = trait.numericIndex * 4 * n;
   const r = compiled.ranges;
-  return bandProbabilities(r[block + RangeField.Min * n + t], r[block + RangeField.Low * n + t], r[block + RangeField.High * n + t], r[block + RangeField.Max * n + t], cuts, MODEL.typicalShare, trait.errorRate, out);
+  return bandProbabilities(
+    r[block + RangeField.Min * n + t],
+    r[block + RangeField.Low * n + t],
+    r[block + RangeField.High * n + t],
+    r[block + RangeField.Max * n + t],
+    cuts,
+    MODEL.typicalShare,
+    trait.errorRate,
+    out,
+  );
 }
 
 function editionBandTable(compiled: CompiledMatrix, trait: CompiledTrait): BandTable {

@@ -36,7 +36,16 @@ function overlap(from: number, to: number, bandFrom: number, bandTo: number): nu
  * spread evenly over low–high, the rest over the extremes, and with probability `errorRate` a band
  * picked at random (a misreading). Writes into `out` (length cuts.length + 1).
  */
-export function bandProbabilities(min: number, low: number, high: number, max: number, cuts: readonly number[], typicalShare: number, errorRate: number, out: Float64Array): Float64Array {
+export function bandProbabilities(
+  min: number,
+  low: number,
+  high: number,
+  max: number,
+  cuts: readonly number[],
+  typicalShare: number,
+  errorRate: number,
+  out: Float64Array,
+): Float64Array {
   const bands = cuts.length + 1;
   const tailWidth = low - min + (max - high);
   const typicalWidth = high - low;

@@ -132,7 +132,9 @@ function discretePattern(build: PatternBuild, cell: DiscreteCell): number {
   if (id === undefined) {
     id = build.keys.size + 2;
     if (id > MAX_PATTERNS) {
-      throw new MatrixValidationError([{ severity: 'error', code: 'too-many-patterns', path: `traits.${trait.code}`, trait: trait.code, message: matrixMessages.tooManyPatterns(trait.code) }]);
+      throw new MatrixValidationError([
+        { severity: 'error', code: 'too-many-patterns', path: `traits.${trait.code}`, trait: trait.code, message: matrixMessages.tooManyPatterns(trait.code) },
+      ]);
     }
     build.keys.set(key, id);
     for (const word of scratch) build.masks.push(word);

@@ -59,7 +59,8 @@ function checkTraitValues(values: unknown, raw: Record_, code: string, path: str
       return;
     }
     const valueCode = value['code'];
-    const wellFormed = kind === 'count' ? typeof valueCode === 'string' && parseCount(valueCode) !== undefined : isNonEmptyString(valueCode) && KEBAB.test(valueCode);
+    const wellFormed =
+      kind === 'count' ? typeof valueCode === 'string' && parseCount(valueCode) !== undefined : isNonEmptyString(valueCode) && KEBAB.test(valueCode);
     if (!wellFormed) {
       problems.error(valuePath, 'bad-value-code', kind === 'count' ? m.badCountValue(code, valueCode) : m.badCode('Value', valueCode), undefined, code);
       ok = false;
@@ -112,7 +113,12 @@ const TRAIT_RULES: ReadonlyArray<FieldRule | ListRule> = [
     accepts: (range, raw) => range === undefined || (raw['kind'] === 'count' && isCountRange(range)),
     message: (trait) => m.badCountRange(trait),
   },
-  { field: 'appliesWhen', problem: 'bad-applies-when', accepts: (conditions) => conditions === undefined || isObject(conditions), message: (_trait, _value, path) => m.notAnObject(path) },
+  {
+    field: 'appliesWhen',
+    problem: 'bad-applies-when',
+    accepts: (conditions) => conditions === undefined || isObject(conditions),
+    message: (_trait, _value, path) => m.notAnObject(path),
+  },
 ];
 
 export function checkTrait(raw: unknown, index: number, problems: ProblemList, seen: Set<string>): Trait | undefined {
@@ -149,15 +155,30 @@ export function checkTrait(raw: unknown, index: number, problems: ProblemList, s
 const TAXON_RULES: readonly FieldRule[] = [
   { field: 'scientificName', problem: 'missing-field', accepts: isNonEmptyString, message: (taxon) => m.missingField(taxon, undefined, 'scientificName') },
   { field: 'family', problem: 'missing-field', accepts: isNonEmptyString, message: (taxon) => m.missingField(taxon, undefined, 'family') },
-  { field: 'authority', problem: 'missing-field', accepts: (authority) => typeof authority === 'string', message: (taxon) => m.missingField(taxon, undefined, 'authority') },
+  {
+    field: 'authority',
+    problem: 'missing-field',
+    accepts: (authority) => typeof authority === 'string',
+    message: (taxon) => m.missingField(taxon, undefined, 'authority'),
+  },
   {
     field: 'commonNames',
     problem: 'not-a-list',
     accepts: (names) => Array.isArray(names) && names.every((name) => typeof name === 'string'),
     message: (_taxon, _names, path) => m.notAList(path),
   },
-  { field: 'status', problem: 'bad-status', accepts: (status) => status === undefined || oneOf(STATUSES)(status), message: (taxon, status) => m.badEnum(taxon, 'status', status, STATUSES) },
-  { field: 'prior', problem: 'bad-prior', accepts: (prior) => prior === undefined || (isFiniteNumber(prior) && prior > 0), message: (taxon, prior) => m.badPrior(taxon, prior) },
+  {
+    field: 'status',
+    problem: 'bad-status',
+    accepts: (status) => status === undefined || oneOf(STATUSES)(status),
+    message: (taxon, status) => m.badEnum(taxon, 'status', status, STATUSES),
+  },
+  {
+    field: 'prior',
+    problem: 'bad-prior',
+    accepts: (prior) => prior === undefined || (isFiniteNumber(prior) && prior > 0),
+    message: (taxon, prior) => m.badPrior(taxon, prior),
+  },
 ];
 
 /** Reports every failing field of a taxon's descriptive fields. */

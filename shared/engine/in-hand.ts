@@ -114,7 +114,8 @@ export function seeingChance(
   partsSeen: ReadonlySet<PlantPart> = new Set(),
 ): SeeingChance {
   if (!IN_HAND_PARTS[inHand].includes(trait.part)) return { chance: 0, reason: `not on ${IN_HAND_LABELS[inHand]}` };
-  const availability = AVAILABILITY_BY_TRAIT[trait.code] ?? (inHand === 'standing-tree' && !partsSeen.has(trait.part) ? AVAILABILITY_BY_PART[trait.part] : undefined);
+  const availability =
+    AVAILABILITY_BY_TRAIT[trait.code] ?? (inHand === 'standing-tree' && !partsSeen.has(trait.part) ? AVAILABILITY_BY_PART[trait.part] : undefined);
   if (!availability) return { chance: 1, reason: '' };
   const present = AVAILABILITY_BY_TRAIT[trait.code] && (inHand !== 'standing-tree' || partsSeen.has(trait.part)) ? 1 : availability.present;
   let seasonal: number;

@@ -24,9 +24,11 @@ export function addTen(columns: readonly ScoreColumn[], o: number, from: Float64
   const n = score.length;
   // two copies of one loop, so neither branches on the scale per taxon
   if (linear) {
-    for (let t = 0; t < n; t++) score[t] = from[t] * (v0[c0[t]] * v1[c1[t]] * v2[c2[t]] * v3[c3[t]] * v4[c4[t]] * v5[c5[t]] * v6[c6[t]] * v7[c7[t]] * v8[c8[t]] * v9[c9[t]]);
+    for (let t = 0; t < n; t++)
+      score[t] = from[t] * (v0[c0[t]] * v1[c1[t]] * v2[c2[t]] * v3[c3[t]] * v4[c4[t]] * v5[c5[t]] * v6[c6[t]] * v7[c7[t]] * v8[c8[t]] * v9[c9[t]]);
   } else {
-    for (let t = 0; t < n; t++) score[t] = from[t] + (v0[c0[t]] + v1[c1[t]] + v2[c2[t]] + v3[c3[t]] + v4[c4[t]] + v5[c5[t]] + v6[c6[t]] + v7[c7[t]] + v8[c8[t]] + v9[c9[t]]);
+    for (let t = 0; t < n; t++)
+      score[t] = from[t] + (v0[c0[t]] + v1[c1[t]] + v2[c2[t]] + v3[c3[t]] + v4[c4[t]] + v5[c5[t]] + v6[c6[t]] + v7[c7[t]] + v8[c8[t]] + v9[c9[t]]);
   }
 }
 
@@ -51,8 +53,30 @@ export function addTenByPairs(columns: readonly ScoreColumn[], o: number, from: 
     const a8 = c8[i];
     const a9 = c9[i];
     const t = i << 1;
-    score[t] = from[t] * (v0[a0 & 0xffff] * v1[a1 & 0xffff] * v2[a2 & 0xffff] * v3[a3 & 0xffff] * v4[a4 & 0xffff] * v5[a5 & 0xffff] * v6[a6 & 0xffff] * v7[a7 & 0xffff] * v8[a8 & 0xffff] * v9[a9 & 0xffff]);
-    score[t + 1] = from[t + 1] * (v0[a0 >>> 16] * v1[a1 >>> 16] * v2[a2 >>> 16] * v3[a3 >>> 16] * v4[a4 >>> 16] * v5[a5 >>> 16] * v6[a6 >>> 16] * v7[a7 >>> 16] * v8[a8 >>> 16] * v9[a9 >>> 16]);
+    score[t] =
+      from[t] *
+      (v0[a0 & 0xffff] *
+        v1[a1 & 0xffff] *
+        v2[a2 & 0xffff] *
+        v3[a3 & 0xffff] *
+        v4[a4 & 0xffff] *
+        v5[a5 & 0xffff] *
+        v6[a6 & 0xffff] *
+        v7[a7 & 0xffff] *
+        v8[a8 & 0xffff] *
+        v9[a9 & 0xffff]);
+    score[t + 1] =
+      from[t + 1] *
+      (v0[a0 >>> 16] *
+        v1[a1 >>> 16] *
+        v2[a2 >>> 16] *
+        v3[a3 >>> 16] *
+        v4[a4 >>> 16] *
+        v5[a5 >>> 16] *
+        v6[a6 >>> 16] *
+        v7[a7 >>> 16] *
+        v8[a8 >>> 16] *
+        v9[a9 >>> 16]);
   }
 }
 

@@ -59,7 +59,7 @@ function scoreSides(sides: readonly Side[], trait: CompiledTrait): number {
   }
   if (left === 0 || right === 0) return -Infinity;
   const balance = binaryEntropy(left / (left + right));
-  return (balance - (BOTH_SIDES_PENALTY * both) / sides.length) * (1 - trait.errorRate) / Math.sqrt(trait.ease);
+  return ((balance - (BOTH_SIDES_PENALTY * both) / sides.length) * (1 - trait.errorRate)) / Math.sqrt(trait.ease);
 }
 
 function groupings(present: number[]): number[][] {

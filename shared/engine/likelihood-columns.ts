@@ -105,7 +105,13 @@ export const LITTLE_ENDIAN = new Uint8Array(Uint16Array.of(1).buffer)[0] === 1;
  * made but their region is scored like the others of its row. A numeric trait's patterns are only
  * UNKNOWN_PATTERN (0), INAPPLICABLE_PATTERN (1) and CODED_RANGE_PATTERN (2).
  */
-export function measureColumn(compiled: CompiledMatrix, observation: PreparedMeasure, linear: boolean, codes: Uint16Array, conflicts: Uint8Array | Uint16Array): ScoreColumn {
+export function measureColumn(
+  compiled: CompiledMatrix,
+  observation: PreparedMeasure,
+  linear: boolean,
+  codes: Uint16Array,
+  conflicts: Uint8Array | Uint16Array,
+): ScoreColumn {
   const n = compiled.taxonCount;
   const columnBase = observation.trait.index * n;
   const block = observation.trait.numericIndex * 4 * n;
@@ -119,7 +125,15 @@ export function measureColumn(compiled: CompiledMatrix, observation: PreparedMea
   // compiled ranges are ordered (min ≤ low ≤ high ≤ max), so the four comparisons that hold are
   // 4 inside the typical range, 3 inside the recorded one only, 2 outside: region = 4 − held
   const patternOffset = patterns.byteOffset + columnBase * 2;
-  if (LITTLE_ENDIAN && n % 2 === 0 && n >= 64 && conflicts instanceof Uint8Array && patternOffset % 4 === 0 && codes.byteOffset % 4 === 0 && conflicts.byteOffset % 2 === 0) {
+  if (
+    LITTLE_ENDIAN &&
+    n % 2 === 0 &&
+    n >= 64 &&
+    conflicts instanceof Uint8Array &&
+    patternOffset % 4 === 0 &&
+    codes.byteOffset % 4 === 0 &&
+    conflicts.byteOffset % 2 === 0
+  ) {
     // two taxa per step: their patterns and codes as one 32-bit word, their conflicts as one 16-bit
     // addition (counts stay below 256, so no byte carries into the next)
     const pairs = n >>> 1;

@@ -155,7 +155,14 @@ function check(compiled: CompiledMatrix, observations: unknown): Checked {
     if (trait.kind === 'numeric') {
       const measure = checkMeasure(raw, index, trait, problems);
       if (measure && problems.length === before) {
-        prepared.push({ kind: 'measure', index, trait, centimetres: toCentimetres(measure.value, measure.unit), shownValue: measure.value, shownUnit: measure.unit });
+        prepared.push({
+          kind: 'measure',
+          index,
+          trait,
+          centimetres: toCentimetres(measure.value, measure.unit),
+          shownValue: measure.value,
+          shownUnit: measure.unit,
+        });
       }
     } else {
       const answers = checkDiscrete(raw, index, trait, problems);

@@ -60,7 +60,13 @@ export function coreSize(set: WorkingSet, order: Int32Array): number {
  * The preview of one evaluated trait. `shortlist` is the set of taxon indices a trait must split
  * (those within a share of the leader); `order` the working set heaviest first.
  */
-export function previewOf(compiled: CompiledMatrix, evaluated: Evaluated, set: WorkingSet, order: Int32Array, shortlist: ReadonlySet<number>): SuggestionPreview[] {
+export function previewOf(
+  compiled: CompiledMatrix,
+  evaluated: Evaluated,
+  set: WorkingSet,
+  order: Int32Array,
+  shortlist: ReadonlySet<number>,
+): SuggestionPreview[] {
   const trait = evaluated.trait;
   const isNumeric = trait.kind === 'numeric';
   const answers = evaluated.sums.mass.length;
@@ -86,7 +92,11 @@ export function previewOf(compiled: CompiledMatrix, evaluated: Evaluated, set: W
     if (listed.length === 0) continue;
     const label = isNumeric ? bandLabel(evaluated.cuts ?? [], a) : answerLabelAt(trait, a);
     const mass = evaluated.sums.mass[a] ?? 0;
-    lines.push({ a, mass, line: { answer: isNumeric ? label : (trait.answerCodes[a] ?? label), label, probability: mass, leaders: listed, remaining: remaining[a] ?? 0 } });
+    lines.push({
+      a,
+      mass,
+      line: { answer: isNumeric ? label : (trait.answerCodes[a] ?? label), label, probability: mass, leaders: listed, remaining: remaining[a] ?? 0 },
+    });
   }
   lines.sort((x, y) => y.mass - x.mass || x.a - y.a);
   return lines.map(({ line }) => line);

@@ -17,7 +17,8 @@ import type { Candidate, Observation, RankResult, Reason, ReasonStatus } from '.
 export function resolveCount(name: string, value: number | undefined, fallback: number): number {
   if (value === undefined) return fallback;
   if (value === Infinity) return value;
-  if (typeof value !== 'number' || !Number.isInteger(value) || value < 0) throw new EngineUsageError(usageMessages.badOption(name, value, 'a whole number ≥ 0'));
+  if (typeof value !== 'number' || !Number.isInteger(value) || value < 0)
+    throw new EngineUsageError(usageMessages.badOption(name, value, 'a whole number ≥ 0'));
   return value;
 }
 
@@ -102,7 +103,12 @@ export class ReasonCache {
   }
 
   skippedReason(compiled: CompiledMatrix, observation: PreparedObservation, cause: SkipCause): Reason {
-    return (this.setAside[observation.index] ??= { trait: observation.trait.code, status: 'not-applicable', likelihood: 1, text: reasonTexts.skipped(compiled, observation.trait, cause) });
+    return (this.setAside[observation.index] ??= {
+      trait: observation.trait.code,
+      status: 'not-applicable',
+      likelihood: 1,
+      text: reasonTexts.skipped(compiled, observation.trait, cause),
+    });
   }
 
   patternReasons(observation: PreparedObservation): Array<Reason | undefined> {
@@ -111,7 +117,13 @@ export class ReasonCache {
 }
 
 /** Per-observation reasons for one taxon, in the order the observations were given. */
-export function reasonsFor(compiled: CompiledMatrix, prepared: readonly PreparedObservation[], skipped: ReadonlyMap<number, SkipCause>, t: number, cache = new ReasonCache()): Reason[] {
+export function reasonsFor(
+  compiled: CompiledMatrix,
+  prepared: readonly PreparedObservation[],
+  skipped: ReadonlyMap<number, SkipCause>,
+  t: number,
+  cache = new ReasonCache(),
+): Reason[] {
   const reasons: Reason[] = [];
   const n = compiled.taxonCount;
   for (const observation of prepared) {

@@ -174,7 +174,12 @@ export interface ScoringOptions {
  * otherwise they are log sums. With a `scratch`, the returned arrays are the scratch's and only
  * valid until the next scoring with it (see ScoringScratch); without, they are fresh.
  */
-export function scoreObservations(compiled: CompiledMatrix, prepared: readonly PreparedObservation[], priors?: Readonly<Record<string, number>>, options: ScoringOptions = {}): Scored {
+export function scoreObservations(
+  compiled: CompiledMatrix,
+  prepared: readonly PreparedObservation[],
+  priors?: Readonly<Record<string, number>>,
+  options: ScoringOptions = {},
+): Scored {
   const { withProbabilities = true, scratch, forceLogs = false, totalByCaller = false } = options;
   if (totalByCaller && withProbabilities) throw new EngineUsageError(usageMessages.badOption('totalByCaller', true, 'used only without probabilities'));
   const n = compiled.taxonCount;

@@ -57,7 +57,12 @@ export function rangeOf(compiled: CompiledMatrix, trait: CompiledTrait, t: numbe
   const n = compiled.taxonCount;
   const block = trait.numericIndex * 4 * n;
   const r = compiled.ranges;
-  return { min: r[block + RangeField.Min * n + t], low: r[block + RangeField.Low * n + t], high: r[block + RangeField.High * n + t], max: r[block + RangeField.Max * n + t] };
+  return {
+    min: r[block + RangeField.Min * n + t],
+    low: r[block + RangeField.Low * n + t],
+    high: r[block + RangeField.High * n + t],
+    max: r[block + RangeField.Max * n + t],
+  };
 }
 
 /** Whether the closed intervals [a0, a1] and [b0, b1] share a point (touching counts). */

@@ -64,7 +64,10 @@ function splitsShortlist(compiled: CompiledMatrix, trait: CompiledTrait, shortli
 
 function resolveInHand(value: unknown): InHand {
   if (value === undefined) return SUGGEST_DEFAULTS.inHand;
-  if (!isInHand(value)) throw new EngineUsageError(usageMessages.badOption('inHand', value, 'one of standing-tree, leafy-twig, winter-twig, bark-only, cone-or-fruit, fallen-leaf'));
+  if (!isInHand(value))
+    throw new EngineUsageError(
+      usageMessages.badOption('inHand', value, 'one of standing-tree, leafy-twig, winter-twig, bark-only, cone-or-fruit, fallen-leaf'),
+    );
   return value;
 }
 
@@ -88,7 +91,8 @@ function reasonFor(item: Evaluated, opening: boolean, seeing: string): string {
   const parts = [`expected to narrow the shortlist by ${item.gain.toFixed(2)} bits at ease ${item.trait.ease}`];
   if (seeing) parts.push(`weighed down because ${seeing}`);
   else parts.push('always at hand');
-  if (opening) parts.push(`misread about ${percent(Math.min(Math.max(item.trait.codedErrorRate, 0), 0.49))} of the time, which counts most for a first question`);
+  if (opening)
+    parts.push(`misread about ${percent(Math.min(Math.max(item.trait.codedErrorRate, 0), 0.49))} of the time, which counts most for a first question`);
   const sentence = parts.join('; ');
   return `${sentence.charAt(0).toUpperCase()}${sentence.slice(1)}.`;
 }
@@ -126,7 +130,8 @@ export function suggest(compiled: CompiledMatrix, observations: readonly Observa
   const seeingReasons = new Map<Evaluated, string>();
   for (const trait of compiled.traits) {
     if (observed.has(trait.index) || excluded.has(trait.code) || !visibleInSeason(trait, season)) continue;
-    const seeing = options.assumeSeen === true ? { chance: traitInHand(trait, inHand).inHand ? 1 : 0, reason: '' } : seeingChance(trait, inHand, month, partsSeen);
+    const seeing =
+      options.assumeSeen === true ? { chance: traitInHand(trait, inHand).inHand ? 1 : 0, reason: '' } : seeingChance(trait, inHand, month, partsSeen);
     if (seeing.chance <= 0) continue;
     if (conditionContradicted(trait, scored.active) || !splitsShortlist(compiled, trait, shortlist)) continue;
     let sums: AnswerSums;

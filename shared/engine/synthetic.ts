@@ -130,7 +130,10 @@ export function generateSyntheticMatrix(options: SyntheticOptions): MatrixDocume
         cells[trait.code] = 'unknown';
         return;
       }
-      cells[trait.code] = trait.kind === 'numeric' ? numericCell(values[j], random, round) : discreteCell(trait, values[j], answerCount(trait), settings.singleValued ? 0 : settings.multiValueRate, random);
+      cells[trait.code] =
+        trait.kind === 'numeric'
+          ? numericCell(values[j], random, round)
+          : discreteCell(trait, values[j], answerCount(trait), settings.singleValued ? 0 : settings.multiValueRate, random);
     });
     const number = pad(t + 1, taxonCountWidth);
     taxa.push({

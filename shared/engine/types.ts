@@ -121,9 +121,7 @@ export interface MatrixDocument {
  * What an observer reports. Several values mean "one of these" (the observer is unsure).
  * Numeric observations carry a single value and its unit (default: the trait's unit).
  */
-export type Observation =
-  | { trait: string; values: Array<string | number> }
-  | { trait: string; value: number; unit?: LengthUnit };
+export type Observation = { trait: string; values: Array<string | number> } | { trait: string; value: number; unit?: LengthUnit };
 
 /** How one observed trait bears on one candidate. */
 export type ReasonStatus = 'matched' | 'partial' | 'conflict' | 'not-coded' | 'not-applicable';

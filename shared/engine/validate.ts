@@ -181,7 +181,14 @@ function isOutsideCondition(cell: unknown, allowed: readonly string[], kind: Tra
   return !listed.some((value) => wanted.has(normalise(value)));
 }
 
-function checkTaxon(raw: unknown, index: number, facts: Map<string, TraitFacts>, conditional: readonly TraitFacts[], problems: ProblemList, seen: Set<string>): string | undefined {
+function checkTaxon(
+  raw: unknown,
+  index: number,
+  facts: Map<string, TraitFacts>,
+  conditional: readonly TraitFacts[],
+  problems: ProblemList,
+  seen: Set<string>,
+): string | undefined {
   const path = `taxa[${index}]`;
   if (!isObject(raw)) {
     problems.error(path, 'not-an-object', m.notAnObject(path));
@@ -223,7 +230,13 @@ function checkTaxon(raw: unknown, index: number, facts: Map<string, TraitFacts>,
       if (!otherFacts || !Array.isArray(allowed)) continue;
       if (isOutsideCondition(cells[other], allowed, otherFacts.trait.kind)) {
         const condition = describeCondition(other, allowed);
-        problems.warning(cellPath(index, traitFacts.trait.code), 'applies-when-violation', m.appliesWhenViolation(id, traitFacts.trait.code, condition), id, traitFacts.trait.code);
+        problems.warning(
+          cellPath(index, traitFacts.trait.code),
+          'applies-when-violation',
+          m.appliesWhenViolation(id, traitFacts.trait.code, condition),
+          id,
+          traitFacts.trait.code,
+        );
       }
     }
   }

@@ -49,7 +49,9 @@ describe('api: the demo scenario', () => {
     expect(demoSignInLines(loadConfig({ NODE_ENV: 'test' }))).to.deep.equal([]);
     expect(demoSignInLines(loadConfig(PRODUCTION))).to.deep.equal([]);
     const lines = demoSignInLines(loadConfig({ NODE_ENV: 'development' }));
-    expect(lines.join('\n')).to.include(DEMO_PASSWORD).and.to.include(DEMO_ACCOUNTS[0]?.email ?? 'missing');
+    expect(lines.join('\n'))
+      .to.include(DEMO_PASSWORD)
+      .and.to.include(DEMO_ACCOUNTS[0]?.email ?? 'missing');
   });
 
   it('is skipped in production unless SEED_DEMO=true, and then without the known demo password', async () => {

@@ -62,7 +62,9 @@ describe('api: cached principals and batched key usage', () => {
       const { key, id } = await createPartnerKey(created, owner.token, ['lookup']);
       await request(created.app).get('/api/v1/traits').set(bearer(key)).expect(200);
       // as another API process would: straight to the table, past this process's hooks
-      await created.context.sequelize.query('UPDATE partner_keys SET revoked_at = :now WHERE id = :id', { replacements: { now: new Date().toISOString(), id } });
+      await created.context.sequelize.query('UPDATE partner_keys SET revoked_at = :now WHERE id = :id', {
+        replacements: { now: new Date().toISOString(), id },
+      });
       await request(created.app).get('/api/v1/traits').set(bearer(key)).expect(200);
     });
 

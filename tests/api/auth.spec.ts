@@ -55,7 +55,9 @@ describe('api: accounts and sessions', () => {
     await request(created.app).delete('/api/v1/sessions/current').set('Authorization', `Bearer ${token}`).expect(204);
     const after = await request(created.app).get('/api/v1/me').set('Authorization', `Bearer ${token}`).expect(401);
     // RFC 6750 §3.1: a token that is no longer valid gets error="invalid_token" in the challenge.
-    expect(after.headers['www-authenticate']).to.match(/^Bearer /).and.to.include('error="invalid_token"');
+    expect(after.headers['www-authenticate'])
+      .to.match(/^Bearer /)
+      .and.to.include('error="invalid_token"');
     expect(after.headers['content-type']).to.match(/^application\/problem\+json/);
   });
 
@@ -95,7 +97,10 @@ describe('api: accounts and sessions', () => {
 
   it('refuses a taken e-mail address (any case) and a short password', async () => {
     const user = await signUpAndSignIn(created, 'learner');
-    await request(created.app).post('/api/v1/accounts').send({ email: user.email.toUpperCase(), password: 'another long one', displayName: 'Again' }).expect(409);
+    await request(created.app)
+      .post('/api/v1/accounts')
+      .send({ email: user.email.toUpperCase(), password: 'another long one', displayName: 'Again' })
+      .expect(409);
     await request(created.app).post('/api/v1/accounts').send({ email: uniqueEmail(), password: 'short', displayName: 'Short' }).expect(400);
   });
 
@@ -126,7 +131,10 @@ describe('api: accounts and sessions', () => {
       const timings: number[] = [];
       for (let i = 0; i < signInMaxFailures; i++) {
         const start = Date.now();
-        await request(created.app).post('/api/v1/sessions').send({ email: user.email, password: `wrong password ${i}` }).expect(401);
+        await request(created.app)
+          .post('/api/v1/sessions')
+          .send({ email: user.email, password: `wrong password ${i}` })
+          .expect(401);
         timings.push(Date.now() - start);
       }
       // failures 3, 4 and 5 wait base, 2×base, 4×base before answering
@@ -135,7 +143,9 @@ describe('api: accounts and sessions', () => {
 
       const locked = await request(created.app).post('/api/v1/sessions').send({ email: user.email, password: user.password }).expect(429);
       const retryAfter = Number(locked.headers['retry-after']);
-      expect(retryAfter).to.be.greaterThan(signInLockMinutes * 60 - 5).and.at.most(signInLockMinutes * 60);
+      expect(retryAfter)
+        .to.be.greaterThan(signInLockMinutes * 60 - 5)
+        .and.at.most(signInLockMinutes * 60);
 
       await created.context.models.SignInThrottle.update({ lockedUntil: new Date(Date.now() - 1000) }, { where: { email: user.email } });
       await request(created.app).post('/api/v1/sessions').send({ email: user.email, password: user.password }).expect(201);
@@ -157,7 +167,10 @@ describe('api: accounts and sessions', () => {
         // successful sign-ins are not counted against the IP
         await request(limited.app).post('/api/v1/sessions').send({ email: user.email, password: user.password }).expect(201);
         for (let i = 0; i < 3; i++) {
-          await request(limited.app).post('/api/v1/sessions').send({ email: uniqueEmail('ip'), password: 'not this one' }).expect(401);
+          await request(limited.app)
+            .post('/api/v1/sessions')
+            .send({ email: uniqueEmail('ip'), password: 'not this one' })
+            .expect(401);
         }
         const res = await request(limited.app).post('/api/v1/sessions').send({ email: user.email, password: user.password }).expect(429);
         // draft-ietf-httpapi-ratelimit-headers-08 §3, §4: RateLimit-Policy q (quota) and w (window), RateLimit r (remaining)
@@ -186,7 +199,10 @@ describe('api: accounts and sessions', () => {
       // used once, gone
       await request(created.app).post(`/api/v1/password-resets/${token}`).send({ password: 'yet another password' }).expect(400);
 
-      const unknown = await request(created.app).post('/api/v1/password-resets').send({ email: uniqueEmail('nobody') }).expect(202);
+      const unknown = await request(created.app)
+        .post('/api/v1/password-resets')
+        .send({ email: uniqueEmail('nobody') })
+        .expect(202);
       expect(unknown.body).to.deep.equal(res.body);
     });
 
@@ -206,7 +222,10 @@ describe('api: accounts and sessions', () => {
       await request(created.app).post('/api/v1/admin/invitations').set('Authorization', `Bearer ${admin.token}`).send({ email, role: 'reviewer' }).expect(201);
       const mail = await mailTo(created, email, 'invited');
       const token = linkToken(mail.text, 'invitation');
-      const accepted = await request(created.app).post(`/api/v1/invitations/${token}`).send({ displayName: 'Wren Hollis', password: 'invited and accepted' }).expect(201);
+      const accepted = await request(created.app)
+        .post(`/api/v1/invitations/${token}`)
+        .send({ displayName: 'Wren Hollis', password: 'invited and accepted' })
+        .expect(201);
       expect(accepted.body.account).to.include({ email, role: 'reviewer' });
       await request(created.app).get('/api/v1/me').set('Authorization', `Bearer ${accepted.body.token}`).expect(200);
       await request(created.app).post(`/api/v1/invitations/${token}`).send({ displayName: 'Again', password: 'invited and accepted' }).expect(400);
@@ -214,7 +233,11 @@ describe('api: accounts and sessions', () => {
 
     it('only admins invite', async () => {
       const coach = await signUpAndSignIn(created, 'coach');
-      await request(created.app).post('/api/v1/admin/invitations').set('Authorization', `Bearer ${coach.token}`).send({ email: uniqueEmail(), role: 'admin' }).expect(403);
+      await request(created.app)
+        .post('/api/v1/admin/invitations')
+        .set('Authorization', `Bearer ${coach.token}`)
+        .send({ email: uniqueEmail(), role: 'admin' })
+        .expect(403);
     });
   });
 });

@@ -60,7 +60,9 @@ describe('api: Side by side and the species-page diagnosis', () => {
       // both are needle-leaved evergreens: Flora of North America vol. 2 (from memory)
       const same = (res.body.same as ComparedTrait[]).map((entry) => entry.trait);
       expect(same).to.include.members(['foliage', 'leaf-persistence']);
-      const numeric = [...(res.body.separating as ComparedTrait[]), ...(res.body.overlapping as ComparedTrait[])].find((entry) => entry.trait === 'needle-length');
+      const numeric = [...(res.body.separating as ComparedTrait[]), ...(res.body.overlapping as ComparedTrait[])].find(
+        (entry) => entry.trait === 'needle-length',
+      );
       expect(numeric!.taxa[0]!.coded).to.match(/cm/);
     });
 
@@ -86,11 +88,23 @@ describe('api: Side by side and the species-page diagnosis', () => {
     });
 
     it('is open to anyone and signed-in users; a partner key needs the lookup scope', async () => {
-      await request(created.app).post(COMPARE).set('Authorization', `Bearer ${learner.token}`).send({ taxa: ['pinus-taeda', 'pinus-echinata'] }).expect(200);
+      await request(created.app)
+        .post(COMPARE)
+        .set('Authorization', `Bearer ${learner.token}`)
+        .send({ taxa: ['pinus-taeda', 'pinus-echinata'] })
+        .expect(200);
       const lookupKey = await createPartnerKey(created, learner.token, ['lookup']);
       const identifyKey = await createPartnerKey(created, learner.token, ['identify']);
-      await request(created.app).post(COMPARE).set('Authorization', `Bearer ${lookupKey.key}`).send({ taxa: ['pinus-taeda', 'pinus-echinata'] }).expect(200);
-      const refused = await request(created.app).post(COMPARE).set('Authorization', `Bearer ${identifyKey.key}`).send({ taxa: ['pinus-taeda', 'pinus-echinata'] }).expect(403);
+      await request(created.app)
+        .post(COMPARE)
+        .set('Authorization', `Bearer ${lookupKey.key}`)
+        .send({ taxa: ['pinus-taeda', 'pinus-echinata'] })
+        .expect(200);
+      const refused = await request(created.app)
+        .post(COMPARE)
+        .set('Authorization', `Bearer ${identifyKey.key}`)
+        .send({ taxa: ['pinus-taeda', 'pinus-echinata'] })
+        .expect(403);
       expect(refused.body.type).to.match(/\/problems\/forbidden$/);
     });
   });

@@ -19,16 +19,26 @@ describe('api: CORS for partner browser apps', () => {
   const STRANGER = 'https://stranger.example';
   const bearer = (token: string) => ({ Authorization: `Bearer ${token}` });
   const preflight = (path: string, origin: string, method = 'GET') =>
-    request(created.app).options(path).set({ Origin: origin, 'Access-Control-Request-Method': method, 'Access-Control-Request-Headers': 'authorization, content-type, idempotency-key' });
+    request(created.app)
+      .options(path)
+      .set({ Origin: origin, 'Access-Control-Request-Method': method, 'Access-Control-Request-Headers': 'authorization, content-type, idempotency-key' });
 
   before(async () => {
     created = await startTestApp();
     developer = await signUpAndSignIn(created, 'learner');
-    const trail = await request(created.app).post('/api/v1/keys').set(bearer(developer.token)).send({ name: 'Trail web app', scopes: ['lookup', 'identify'], allowedOrigins: [TRAIL] }).expect(201);
+    const trail = await request(created.app)
+      .post('/api/v1/keys')
+      .set(bearer(developer.token))
+      .send({ name: 'Trail web app', scopes: ['lookup', 'identify'], allowedOrigins: [TRAIL] })
+      .expect(201);
     expect(trail.body.allowedOrigins).to.deep.equal([TRAIL]);
     trailKey = trail.body.key as string;
     trailKeyId = trail.body.id as number;
-    const server = await request(created.app).post('/api/v1/keys').set(bearer(developer.token)).send({ name: 'Server job', scopes: ['lookup', 'identify'] }).expect(201);
+    const server = await request(created.app)
+      .post('/api/v1/keys')
+      .set(bearer(developer.token))
+      .send({ name: 'Server job', scopes: ['lookup', 'identify'] })
+      .expect(201);
     expect(server.body.allowedOrigins).to.deep.equal([]);
     serverKey = server.body.key as string;
   });
@@ -71,11 +81,19 @@ describe('api: CORS for partner browser apps', () => {
     });
 
     it('follows the key: once revoked, or once the origin is taken off its list, the origin is refused', async () => {
-      const other = await request(created.app).post('/api/v1/keys').set(bearer(developer.token)).send({ name: 'Short-lived', scopes: ['lookup'], allowedOrigins: ['http://localhost:4300'] }).expect(201);
+      const other = await request(created.app)
+        .post('/api/v1/keys')
+        .set(bearer(developer.token))
+        .send({ name: 'Short-lived', scopes: ['lookup'], allowedOrigins: ['http://localhost:4300'] })
+        .expect(201);
       await preflight('/api/v1/keys/current', 'http://localhost:4300').expect(204);
       await request(created.app).patch(`/api/v1/keys/${other.body.id}`).set(bearer(developer.token)).send({ allowedOrigins: [] }).expect(200);
       await preflight('/api/v1/keys/current', 'http://localhost:4300').expect(403);
-      await request(created.app).patch(`/api/v1/keys/${other.body.id}`).set(bearer(developer.token)).send({ allowedOrigins: ['http://localhost:4300'] }).expect(200);
+      await request(created.app)
+        .patch(`/api/v1/keys/${other.body.id}`)
+        .set(bearer(developer.token))
+        .send({ allowedOrigins: ['http://localhost:4300'] })
+        .expect(200);
       await preflight('/api/v1/keys/current', 'http://localhost:4300').expect(204);
       await request(created.app).delete(`/api/v1/keys/${other.body.id}`).set(bearer(developer.token)).expect(204);
       await preflight('/api/v1/keys/current', 'http://localhost:4300').expect(403);
@@ -96,17 +114,26 @@ describe('api: CORS for partner browser apps', () => {
     });
 
     it('a key that does not list the page’s origin is refused with 403, even where anonymous callers are welcome', async () => {
-      const keyed = await request(created.app).get('/api/v1/keys/current').set({ ...bearer(serverKey), Origin: TRAIL }).expect(403);
+      const keyed = await request(created.app)
+        .get('/api/v1/keys/current')
+        .set({ ...bearer(serverKey), Origin: TRAIL })
+        .expect(403);
       expect(keyed.headers['content-type']).to.match(/^application\/problem\+json/);
       expect(keyed.headers).to.not.have.property('access-control-allow-origin');
       expect(keyed.body.detail).to.include(TRAIL);
-      const open = await request(created.app).get('/api/v1/traits').set({ ...bearer(trailKey), Origin: STRANGER }).expect(403);
+      const open = await request(created.app)
+        .get('/api/v1/traits')
+        .set({ ...bearer(trailKey), Origin: STRANGER })
+        .expect(403);
       expect(open.headers).to.not.have.property('access-control-allow-origin');
     });
 
     it('the refused request is not counted as the key’s use', async () => {
       const before = await request(created.app).get('/api/v1/keys/current').set(bearer(trailKey)).expect(200);
-      await request(created.app).get('/api/v1/traits').set({ ...bearer(trailKey), Origin: STRANGER }).expect(403);
+      await request(created.app)
+        .get('/api/v1/traits')
+        .set({ ...bearer(trailKey), Origin: STRANGER })
+        .expect(403);
       const after = await request(created.app).get('/api/v1/keys/current').set(bearer(trailKey)).expect(200);
       // only the two /keys/current calls themselves were counted
       expect(after.body.usage.today - before.body.usage.today).to.equal(1);
@@ -134,18 +161,29 @@ describe('api: CORS for partner browser apps', () => {
         .send({ name: 'Two origins', scopes: ['lookup'], allowedOrigins: ['https://b.example', 'http://localhost:4200', 'https://b.example'] })
         .expect(201);
       expect(made.body.allowedOrigins).to.deep.equal(['http://localhost:4200', 'https://b.example']);
-      const changed = await request(created.app).patch(`/api/v1/keys/${made.body.id}`).set(bearer(developer.token)).send({ allowedOrigins: ['https://c.example:8443'], name: 'Renamed' }).expect(200);
+      const changed = await request(created.app)
+        .patch(`/api/v1/keys/${made.body.id}`)
+        .set(bearer(developer.token))
+        .send({ allowedOrigins: ['https://c.example:8443'], name: 'Renamed' })
+        .expect(200);
       expect(changed.body).to.include({ name: 'Renamed' });
       expect(changed.body.allowedOrigins).to.deep.equal(['https://c.example:8443']);
       const read = await request(created.app).get(`/api/v1/keys/${made.body.id}`).set(bearer(developer.token)).expect(200);
       expect(read.body.allowedOrigins).to.deep.equal(['https://c.example:8443']);
       const stranger = await signUpAndSignIn(created, 'coach');
-      await request(created.app).patch(`/api/v1/keys/${made.body.id}`).set(bearer(stranger.token)).send({ allowedOrigins: [STRANGER] }).expect(404);
+      await request(created.app)
+        .patch(`/api/v1/keys/${made.body.id}`)
+        .set(bearer(stranger.token))
+        .send({ allowedOrigins: [STRANGER] })
+        .expect(404);
     });
 
     it('refuses what is not an origin: a path, a trailing slash, a wildcard, another scheme', async () => {
       for (const bad of ['https://trail.example/app', 'https://trail.example/', '*', 'ftp://trail.example', 'trail.example']) {
-        const res = await request(created.app).post('/api/v1/keys').set(bearer(developer.token)).send({ name: 'Bad origin', scopes: ['lookup'], allowedOrigins: [bad] });
+        const res = await request(created.app)
+          .post('/api/v1/keys')
+          .set(bearer(developer.token))
+          .send({ name: 'Bad origin', scopes: ['lookup'], allowedOrigins: [bad] });
         expect(res.status, bad).to.equal(400);
       }
       await request(created.app).patch(`/api/v1/keys/${trailKeyId}`).set(bearer(developer.token)).send({}).expect(400);

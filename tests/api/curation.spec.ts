@@ -67,7 +67,9 @@ describe('api: curation (Matrix desk)', () => {
     it('refuses a stale version with 409 carrying the current value and version, and writes nothing', async () => {
       const now = (await as(curator).get(CELL).expect(200)).body;
       const auditBefore = await auditCount();
-      const res = await as(curator).put(CELL, { value: 'unknown', version: now.version - 1, reason: 'stale edit' }).expect(409);
+      const res = await as(curator)
+        .put(CELL, { value: 'unknown', version: now.version - 1, reason: 'stale edit' })
+        .expect(409);
       expect(res.headers['content-type']).to.match(/^application\/problem\+json/);
       expect(res.body.current).to.deep.equal({ value: now.value, version: now.version });
       expect(await storedCell('pinus-taeda', 'needle-length')).to.deep.equal({ value: now.value, version: now.version });
@@ -90,8 +92,12 @@ describe('api: curation (Matrix desk)', () => {
       await created.context.models.Cell.destroy({ where: { taxonId: 'pinus-strobus', traitCode: 'bark-color' } });
       const url = '/api/v1/curation/cells/pinus-strobus/bark-color';
       expect((await as(curator).get(url).expect(200)).body).to.deep.include({ value: 'unknown', version: 0 });
-      await as(curator).put(url, { value: { usual: ['gray'] }, version: 0, reason: 'coded from the plate' }).expect(200);
-      await as(curator).put(url, { value: { usual: ['brown'] }, version: 0, reason: 'a second create' }).expect(409);
+      await as(curator)
+        .put(url, { value: { usual: ['gray'] }, version: 0, reason: 'coded from the plate' })
+        .expect(200);
+      await as(curator)
+        .put(url, { value: { usual: ['brown'] }, version: 0, reason: 'a second create' })
+        .expect(409);
       expect((await storedCell('pinus-strobus', 'bark-color'))?.value).to.deep.equal({ usual: ['gray'] });
     });
 
@@ -99,13 +105,21 @@ describe('api: curation (Matrix desk)', () => {
       const url = '/api/v1/curation/cells/pinus-taeda/leaf-arrangement';
       const now = (await as(curator).get(url).expect(200)).body;
       const auditBefore = await auditCount();
-      const unknownCode = await as(curator).put(url, { value: { usual: ['spiral-ish'] }, version: now.version, reason: 'bad code' }).expect(422);
+      const unknownCode = await as(curator)
+        .put(url, { value: { usual: ['spiral-ish'] }, version: now.version, reason: 'bad code' })
+        .expect(422);
       expect(unknownCode.body.type).to.match(/\/problems\/matrix-invalid$/);
       expect(unknownCode.body.detail).to.contain('spiral-ish');
-      await as(curator).put(url, { value: { min: 1, low: 2, high: 3, max: 4 }, version: now.version, reason: 'range on a state trait' }).expect(422);
-      const half = await as(curator).put('/api/v1/curation/cells/pinus-taeda/needles-per-fascicle', { value: { usual: [2.5] }, version: 1, reason: 'half a needle' }).expect(400);
+      await as(curator)
+        .put(url, { value: { min: 1, low: 2, high: 3, max: 4 }, version: now.version, reason: 'range on a state trait' })
+        .expect(422);
+      const half = await as(curator)
+        .put('/api/v1/curation/cells/pinus-taeda/needles-per-fascicle', { value: { usual: [2.5] }, version: 1, reason: 'half a needle' })
+        .expect(400);
       expect(half.body['invalid-params'].map((p: { name: string }) => p.name)).to.include('/body/value/usual/0');
-      const outOfRange = await as(curator).put('/api/v1/curation/cells/pinus-taeda/needles-per-fascicle', { value: { usual: [9] }, version: 1, reason: 'nine needles' }).expect(422);
+      const outOfRange = await as(curator)
+        .put('/api/v1/curation/cells/pinus-taeda/needles-per-fascicle', { value: { usual: [9] }, version: 1, reason: 'nine needles' })
+        .expect(422);
       expect(outOfRange.body.detail).to.contain('9');
       expect(await storedCell('pinus-taeda', 'leaf-arrangement')).to.deep.equal({ value: now.value, version: now.version });
       expect(await auditCount()).to.equal(auditBefore);
@@ -131,7 +145,14 @@ describe('api: curation (Matrix desk)', () => {
 
   describe('taxa, traits and values', () => {
     it('adds a taxon, refuses a duplicate, and retires it so the draft drops it', async () => {
-      const body = { id: 'pinus-clausa', scientificName: 'Pinus clausa', authority: '(Chapm. ex Engelm.) Vasey ex Sarg.', family: 'Pinaceae', commonNames: ['sand pine'], reason: 'Florida study set' };
+      const body = {
+        id: 'pinus-clausa',
+        scientificName: 'Pinus clausa',
+        authority: '(Chapm. ex Engelm.) Vasey ex Sarg.',
+        family: 'Pinaceae',
+        commonNames: ['sand pine'],
+        reason: 'Florida study set',
+      };
       const res = await as(curator).post('/api/v1/curation/taxa', body).expect(201);
       expect(res.body).to.deep.include({ id: 'pinus-clausa', retired: false });
       await as(curator).post('/api/v1/curation/taxa', body).expect(409);
@@ -148,14 +169,33 @@ describe('api: curation (Matrix desk)', () => {
     it('adds a state trait with values and a value to an existing trait; refuses an empty state trait', async () => {
       await as(curator)
         .post('/api/v1/curation/traits', {
-          code: 'bark-lenticels', label: 'Lenticels on bark', part: 'bark', kind: 'state', season: 'any', ease: 1, errorRate: 0.1,
-          values: [{ code: 'conspicuous', label: 'Conspicuous' }, { code: 'inconspicuous', label: 'Inconspicuous' }], reason: 'young cherries and birches',
+          code: 'bark-lenticels',
+          label: 'Lenticels on bark',
+          part: 'bark',
+          kind: 'state',
+          season: 'any',
+          ease: 1,
+          errorRate: 0.1,
+          values: [
+            { code: 'conspicuous', label: 'Conspicuous' },
+            { code: 'inconspicuous', label: 'Inconspicuous' },
+          ],
+          reason: 'young cherries and birches',
         })
         .expect(201);
       await as(curator).post('/api/v1/curation/traits/bark-texture/values', { code: 'lenticelled', label: 'Lenticelled', reason: 'cherry bark' }).expect(201);
       await as(curator).post('/api/v1/curation/traits/bark-texture/values', { code: 'lenticelled', label: 'Lenticelled again', reason: 'twice' }).expect(409);
       const empty = await as(curator)
-        .post('/api/v1/curation/traits', { code: 'bark-empty', label: 'Nothing', part: 'bark', kind: 'state', season: 'any', ease: 1, errorRate: 0.1, reason: 'no values' })
+        .post('/api/v1/curation/traits', {
+          code: 'bark-empty',
+          label: 'Nothing',
+          part: 'bark',
+          kind: 'state',
+          season: 'any',
+          ease: 1,
+          errorRate: 0.1,
+          reason: 'no values',
+        })
         .expect(422);
       expect(empty.body.type).to.match(/\/problems\/matrix-invalid$/);
       expect(await created.context.models.Trait.findByPk('bark-empty')).to.equal(null);
@@ -171,7 +211,10 @@ describe('api: curation (Matrix desk)', () => {
       const mine = await as(curator).get('/api/v1/curation/audit').query({ user: curator.userId }).expect(200);
       expect(mine.body.entries.length).to.be.greaterThan(0);
       for (const entry of mine.body.entries) expect(entry.actor.userId).to.equal(curator.userId);
-      const future = await as(curator).get('/api/v1/curation/audit').query({ since: new Date(Date.now() + 60_000).toISOString() }).expect(200);
+      const future = await as(curator)
+        .get('/api/v1/curation/audit')
+        .query({ since: new Date(Date.now() + 60_000).toISOString() })
+        .expect(200);
       expect(future.body.entries).to.deep.equal([]);
       await as(curator).get('/api/v1/curation/audit').query({ since: 'yesterday' }).expect(400);
     });
@@ -219,13 +262,13 @@ describe('api: curation (Matrix desk)', () => {
       expect(namesOf(await refused(CELL, { usual: ['furrowed'] }, 422))).to.deep.equal(['/body/value']);
     });
 
-    it('refuses a state value that is not one of the trait\'s codes, naming its frequency list', async () => {
+    it("refuses a state value that is not one of the trait's codes, naming its frequency list", async () => {
       const body = await refused(BARK, { usual: ['furrowed'], occasional: ['corky'] }, 422);
       expect(namesOf(body)).to.deep.equal(['/body/value/occasional']);
       expect(body.detail).to.contain('corky');
     });
 
-    it('refuses a frequency other than usual, occasional or rare (the contract\'s schema)', async () => {
+    it("refuses a frequency other than usual, occasional or rare (the contract's schema)", async () => {
       const body = await refused(BARK, { usual: ['furrowed'], often: ['scaly'] }, 400);
       expect(namesOf(body).some((name) => name.startsWith('/body/value'))).to.equal(true);
     });
@@ -236,7 +279,7 @@ describe('api: curation (Matrix desk)', () => {
 
     // needles per bundle runs 1–5 (countRange in seeds/matrix/traits.json; pines have 1–5 needles per
     // fascicle, Flora of North America vol. 2, Pinus)
-    it('refuses a count outside the trait\'s range and a count that is not a whole number', async () => {
+    it("refuses a count outside the trait's range and a count that is not a whole number", async () => {
       expect(namesOf(await refused(COUNT, { usual: [3], rare: [6] }, 422))).to.deep.equal(['/body/value/rare']);
       expect(namesOf(await refused(COUNT, { usual: ['three'] }, 422))).to.deep.equal(['/body/value/usual']);
     });
@@ -251,16 +294,23 @@ describe('api: curation (Matrix desk)', () => {
     it('accepts unknown and inapplicable on any trait', async () => {
       for (const value of ['inapplicable', 'unknown'] as const) {
         const now = (await as(curator).get(BARK).expect(200)).body;
-        await as(curator).put(BARK, { value, version: now.version, reason: `mark it ${value}` }).expect(200);
+        await as(curator)
+          .put(BARK, { value, version: now.version, reason: `mark it ${value}` })
+          .expect(200);
       }
       const now = (await as(curator).get(BARK).expect(200)).body;
-      await as(curator).put(BARK, { value: { usual: ['furrowed'], occasional: ['scaly'] }, version: now.version, reason: 'furrowed, flaking into scales' }).expect(200);
+      await as(curator)
+        .put(BARK, { value: { usual: ['furrowed'], occasional: ['scaly'] }, version: now.version, reason: 'furrowed, flaking into scales' })
+        .expect(200);
     });
 
     it('refuses to publish while a cell breaks a rule (409 naming it); the draft says so, and fixing it lets it publish', async () => {
       // a cell saved before the rule was enforced: written straight into the database
       const now = (await as(curator).get(CELL).expect(200)).body;
-      await created.context.models.Cell.update({ value: { min: 10, low: 24, high: 23, max: 25 } }, { where: { taxonId: 'pinus-taeda', traitCode: 'needle-length' } });
+      await created.context.models.Cell.update(
+        { value: { min: 10, low: 24, high: 23, max: 25 } },
+        { where: { taxonId: 'pinus-taeda', traitCode: 'needle-length' } },
+      );
       const draft = (await as(curator).get('/api/v1/curation/draft/summary').expect(200)).body;
       expect(draft.publishable).to.equal(false);
       expect(draft.invalidCells).to.deep.equal([{ taxonId: 'pinus-taeda', traitCode: 'needle-length', problems: [draft.errors[0].message] }]);
@@ -268,7 +318,9 @@ describe('api: curation (Matrix desk)', () => {
       const editionsBefore = await created.context.models.Edition.count();
       const res = await as(curator).post('/api/v1/editions', { title: 'With a bad cell', reason: 'should not publish' }).expect(409);
       expect(res.body.type).to.match(/\/problems\/invalid-cells$/);
-      expect(res.body.cells.map((cell: { taxonId: string; traitCode: string }) => `${cell.taxonId}/${cell.traitCode}`)).to.deep.equal(['pinus-taeda/needle-length']);
+      expect(res.body.cells.map((cell: { taxonId: string; traitCode: string }) => `${cell.taxonId}/${cell.traitCode}`)).to.deep.equal([
+        'pinus-taeda/needle-length',
+      ]);
       expect(namesOf(res.body)).to.deep.equal(['pinus-taeda/needle-length']);
       expect(await created.context.models.Edition.count()).to.equal(editionsBefore);
       await as(curator).put(CELL, { value: now.value, version: now.version, reason: 'range back in order' }).expect(200);
@@ -294,7 +346,7 @@ describe('api: curation (Matrix desk)', () => {
       await request(created.app).get('/api/v1/curation/matrix').set('Authorization', `Bearer ${learner.token}`).expect(403);
     });
 
-    it('packs each taxon\'s cells into one JSON text in the order of the traits, with the versions in that order', async () => {
+    it("packs each taxon's cells into one JSON text in the order of the traits, with the versions in that order", async () => {
       const full = (await as(curator).get('/api/v1/curation/matrix').expect(200)).body;
       const packed = (await as(curator).get('/api/v1/curation/matrix').query({ format: 'packed' }).expect(200)).body;
       const codes: string[] = packed.traits.map((trait: { code: string }) => trait.code);

@@ -35,11 +35,7 @@ describe('api: health, errors and headers', () => {
   });
 
   it('answers malformed JSON with a 400 problem instead of a crash', async () => {
-    const res = await request(created.app)
-      .post('/api/v0/anything')
-      .set('Content-Type', 'application/json')
-      .send('{"observations": [')
-      .expect(400);
+    const res = await request(created.app).post('/api/v0/anything').set('Content-Type', 'application/json').send('{"observations": [').expect(400);
     expect(res.headers['content-type']).to.match(/^application\/problem\+json/);
     expect(res.body.type).to.match(/\/problems\/malformed-json$/);
   });

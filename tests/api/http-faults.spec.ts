@@ -10,7 +10,12 @@ import { createPartnerKey, signUpAndSignIn, type SignedInUser } from './support/
 import { assertContractKept, startTestApp } from './support/test-app';
 
 /** A raw request, for what supertest would tidy up (a body without any Content-Type). */
-async function rawPost(created: CreatedApp, path: string, headers: Record<string, string>, body: string): Promise<{ status: number; body: { detail: string } }> {
+async function rawPost(
+  created: CreatedApp,
+  path: string,
+  headers: Record<string, string>,
+  body: string,
+): Promise<{ status: number; body: { detail: string } }> {
   const server = http.createServer(created.app).listen(0);
   try {
     const { port } = server.address() as AddressInfo;
@@ -64,7 +69,11 @@ describe('api: HTTP details a partner developer runs into', () => {
 
   describe('partner keys', () => {
     it("answers a new key's Location with that key, to its owner only", async () => {
-      const created201 = await request(created.app).post('/api/v1/keys').set('Authorization', `Bearer ${learner.token}`).send({ name: 'Trail app', scopes: ['lookup'] }).expect(201);
+      const created201 = await request(created.app)
+        .post('/api/v1/keys')
+        .set('Authorization', `Bearer ${learner.token}`)
+        .send({ name: 'Trail app', scopes: ['lookup'] })
+        .expect(201);
       const location = created201.headers['location'] as string;
       const read = await request(created.app).get(location).set('Authorization', `Bearer ${learner.token}`).expect(200);
       expect(read.body).to.include({ id: created201.body.id, name: 'Trail app', prefix: created201.body.prefix });
@@ -103,7 +112,10 @@ describe('api: HTTP details a partner developer runs into', () => {
       const res = await request(created.app).get('/api/v1/taxa').set('Authorization', key).expect(401);
       expect(res.body.detail).to.include('no scheme').and.include('Authorization: Bearer <token>');
       expect(res.headers['www-authenticate']).to.match(/^Bearer realm=/);
-      const basic = await request(created.app).get('/api/v1/taxa').set('Authorization', `Basic ${Buffer.from('a:b').toString('base64')}`).expect(401);
+      const basic = await request(created.app)
+        .get('/api/v1/taxa')
+        .set('Authorization', `Basic ${Buffer.from('a:b').toString('base64')}`)
+        .expect(401);
       expect(basic.body.detail).to.include('"Basic"').and.include('Authorization: Bearer <token>');
       await request(created.app).get('/api/v1/taxa').set('Authorization', `Bearer ${key}`).expect(200);
     });
@@ -111,7 +123,11 @@ describe('api: HTTP details a partner developer runs into', () => {
     it('refuses an anonymous caller of a protected route with 401 before it looks at the body', async () => {
       const res = await request(created.app).post('/api/v1/curation/taxa').send({ id: 'Not An Id', scientificName: 1 }).expect(401);
       expect(res.body).to.not.have.property('invalid-params');
-      const learnerTries = await request(created.app).post('/api/v1/curation/taxa').set('Authorization', `Bearer ${learner.token}`).send({ id: 'Not An Id' }).expect(403);
+      const learnerTries = await request(created.app)
+        .post('/api/v1/curation/taxa')
+        .set('Authorization', `Bearer ${learner.token}`)
+        .send({ id: 'Not An Id' })
+        .expect(403);
       expect(learnerTries.body.detail).to.include('curator');
     });
   });
@@ -121,7 +137,12 @@ describe('api: HTTP details a partner developer runs into', () => {
       const res = await rawPost(created, '/api/v1/identify', { Authorization: `Bearer ${learner.token}` }, JSON.stringify({ observations: [] }));
       expect(res.status).to.equal(415);
       expect(res.body.detail).to.equal('The request has a body but no Content-Type header; send it as application/json.');
-      const wrong = await request(created.app).post('/api/v1/identify').set('Authorization', `Bearer ${learner.token}`).set('Content-Type', 'text/plain').send('{}').expect(415);
+      const wrong = await request(created.app)
+        .post('/api/v1/identify')
+        .set('Authorization', `Bearer ${learner.token}`)
+        .set('Content-Type', 'text/plain')
+        .send('{}')
+        .expect(415);
       expect(wrong.body.detail).to.equal('This endpoint takes application/json, not text/plain.');
     });
 
@@ -139,13 +160,26 @@ describe('api: HTTP details a partner developer runs into', () => {
       const res = await request(created.app)
         .post('/api/v1/identify')
         .set('Authorization', `Bearer ${learner.token}`)
-        .send({ observations: [{ trait: 'foliage', values: ['needle'] }, { trait: 'needles-per-fascicle', values: ['3'] }] })
+        .send({
+          observations: [
+            { trait: 'foliage', values: ['needle'] },
+            { trait: 'needles-per-fascicle', values: ['3'] },
+          ],
+        })
         .expect(400);
-      expect(res.body['invalid-params']).to.deep.include({ name: '/body/observations/1/values', reason: 'needles-per-fascicle is a count: send whole numbers, not text ("3" → 3).' });
+      expect(res.body['invalid-params']).to.deep.include({
+        name: '/body/observations/1/values',
+        reason: 'needles-per-fascicle is a count: send whole numbers, not text ("3" → 3).',
+      });
       await request(created.app)
         .post('/api/v1/identify')
         .set('Authorization', `Bearer ${learner.token}`)
-        .send({ observations: [{ trait: 'foliage', values: ['needle'] }, { trait: 'needles-per-fascicle', values: [3] }] })
+        .send({
+          observations: [
+            { trait: 'foliage', values: ['needle'] },
+            { trait: 'needles-per-fascicle', values: [3] },
+          ],
+        })
         .expect(200);
     });
 
@@ -167,7 +201,10 @@ describe('api: HTTP details a partner developer runs into', () => {
     });
 
     it('suggests close taxa for a mistyped id in Side by side, on the offending item', async () => {
-      const res = await request(created.app).post('/api/v1/compare').send({ taxa: ['pinus-echinata', 'acer-sacharum'] }).expect(400);
+      const res = await request(created.app)
+        .post('/api/v1/compare')
+        .send({ taxa: ['pinus-echinata', 'acer-sacharum'] })
+        .expect(400);
       const item = res.body['invalid-params'].find((param: { name: string }) => param.name === '/body/taxa/1');
       expect(item.suggestions[0].id).to.equal('acer-saccharum');
       expect(item.reason).to.include('Did you mean acer-saccharum (Acer saccharum, sugar maple)');
@@ -205,7 +242,9 @@ describe('api: HTTP details a partner developer runs into', () => {
         await request(created.app).get('/api/v1/taxa/no-such-taxon'),
         await request(created.app).put('/api/v1/traits'),
         await request(created.app).post('/api/v1/curation/taxa').send({}),
-        await request(created.app).post('/api/v1/compare').send({ taxa: ['pinus-taeda'] }),
+        await request(created.app)
+          .post('/api/v1/compare')
+          .send({ taxa: ['pinus-taeda'] }),
       ];
       for (const answer of answers) {
         expect(answer.body.type).to.match(/^\/api\/problems\/[a-z-]+$/);

@@ -61,8 +61,18 @@ describe('api: Idempotency-Key on creating POSTs', function () {
 
     it('the same key with another body is refused with 422 and creates nothing', async () => {
       const key = randomUUID();
-      await request(created.app).post('/api/v1/keys').set(bearer(learner)).set('Idempotency-Key', key).send({ name: 'First body', scopes: ['lookup'] }).expect(201);
-      const res = await request(created.app).post('/api/v1/keys').set(bearer(learner)).set('Idempotency-Key', key).send({ name: 'Second body', scopes: ['lookup'] }).expect(422);
+      await request(created.app)
+        .post('/api/v1/keys')
+        .set(bearer(learner))
+        .set('Idempotency-Key', key)
+        .send({ name: 'First body', scopes: ['lookup'] })
+        .expect(201);
+      const res = await request(created.app)
+        .post('/api/v1/keys')
+        .set(bearer(learner))
+        .set('Idempotency-Key', key)
+        .send({ name: 'Second body', scopes: ['lookup'] })
+        .expect(422);
       expect(res.headers['content-type']).to.match(/^application\/problem\+json/);
       expect(res.body.type).to.equal('/api/problems/idempotency-key-reused');
       expect(await created.context.models.PartnerKey.count({ where: { name: 'Second body' } })).to.equal(0);
@@ -96,7 +106,10 @@ describe('api: Idempotency-Key on creating POSTs', function () {
       const body = { name: 'Slow app', scopes: ['lookup'] };
       const first = await request(created.app).post('/api/v1/keys').set(bearer(learner)).set('Idempotency-Key', key).send(body).expect(201);
       // put the record back to "being handled", as it is between the claim and the answer
-      await created.context.models.IdempotencyRecord.update({ status: null, body: null, location: null }, { where: { idempotencyKey: createHash('sha256').update(key).digest('hex') } });
+      await created.context.models.IdempotencyRecord.update(
+        { status: null, body: null, location: null },
+        { where: { idempotencyKey: createHash('sha256').update(key).digest('hex') } },
+      );
       const res = await request(created.app).post('/api/v1/keys').set(bearer(learner)).set('Idempotency-Key', key).send(body).expect(409);
       expect(res.body.detail).to.include('still being handled');
       expect(await created.context.models.PartnerKey.count({ where: { name: 'Slow app' } })).to.equal(1);
@@ -104,11 +117,31 @@ describe('api: Idempotency-Key on creating POSTs', function () {
     });
 
     it('refuses a key that is not 1–255 visible characters; a quoted key is the same key unquoted', async () => {
-      await request(created.app).post('/api/v1/keys').set(bearer(learner)).set('Idempotency-Key', 'has spaces in it').send({ name: 'x', scopes: ['lookup'] }).expect(400);
-      await request(created.app).post('/api/v1/keys').set(bearer(learner)).set('Idempotency-Key', 'k'.repeat(256)).send({ name: 'x', scopes: ['lookup'] }).expect(400);
+      await request(created.app)
+        .post('/api/v1/keys')
+        .set(bearer(learner))
+        .set('Idempotency-Key', 'has spaces in it')
+        .send({ name: 'x', scopes: ['lookup'] })
+        .expect(400);
+      await request(created.app)
+        .post('/api/v1/keys')
+        .set(bearer(learner))
+        .set('Idempotency-Key', 'k'.repeat(256))
+        .send({ name: 'x', scopes: ['lookup'] })
+        .expect(400);
       const key = randomUUID();
-      const first = await request(created.app).post('/api/v1/keys').set(bearer(learner)).set('Idempotency-Key', `"${key}"`).send({ name: 'Quoted', scopes: ['lookup'] }).expect(201);
-      const again = await request(created.app).post('/api/v1/keys').set(bearer(learner)).set('Idempotency-Key', key).send({ name: 'Quoted', scopes: ['lookup'] }).expect(201);
+      const first = await request(created.app)
+        .post('/api/v1/keys')
+        .set(bearer(learner))
+        .set('Idempotency-Key', `"${key}"`)
+        .send({ name: 'Quoted', scopes: ['lookup'] })
+        .expect(201);
+      const again = await request(created.app)
+        .post('/api/v1/keys')
+        .set(bearer(learner))
+        .set('Idempotency-Key', key)
+        .send({ name: 'Quoted', scopes: ['lookup'] })
+        .expect(201);
       expect(again.body.id).to.equal(first.body.id);
     });
 
@@ -172,7 +205,12 @@ describe('api: Idempotency-Key on creating POSTs', function () {
       const csv = 'taxon,trait,usual,occasional,rare,min,low,high,max,state\r\npinus-taeda,needle-length,,,,8,9,13,14,\r\n';
       const key = randomUUID();
       const send = (content: string) =>
-        request(created.app).post('/api/v1/curation/imports').query({ mode: 'apply' }).set(bearer(curator)).set('Idempotency-Key', key).attach('file', Buffer.from(content, 'utf8'), 'retry.csv');
+        request(created.app)
+          .post('/api/v1/curation/imports')
+          .query({ mode: 'apply' })
+          .set(bearer(curator))
+          .set('Idempotency-Key', key)
+          .attach('file', Buffer.from(content, 'utf8'), 'retry.csv');
       const imports = await auditCount('import');
       const first = await send(csv).expect(200);
       expect(first.body.changes).to.have.length(1);

@@ -27,7 +27,13 @@ const LOBLOLLY: IdentifyRequest = {
 /** Sifts of different shapes: broadleaf, winter, millimetres, no leeway, a short list, nothing seen. */
 const SIFTS: IdentifyRequest[] = [
   LOBLOLLY,
-  { observations: [{ trait: 'foliage', values: ['broad'] }, { trait: 'leaf-arrangement', values: ['opposite'] }, { trait: 'leaf-type', values: ['pinnately-compound'] }] },
+  {
+    observations: [
+      { trait: 'foliage', values: ['broad'] },
+      { trait: 'leaf-arrangement', values: ['opposite'] },
+      { trait: 'leaf-type', values: ['pinnately-compound'] },
+    ],
+  },
   { observations: [{ trait: 'leaf-arrangement', values: ['opposite'] }], season: 'leaf-off', limit: 3 },
   { observations: [{ trait: 'needle-length', value: 25, unit: 'mm' }], leeway: 0 },
   { observations: [], limit: 5 },
@@ -59,7 +65,11 @@ describe('api: identify on worker threads', function () {
     await pooled.close();
   });
 
-  const post = (created: CreatedApp, key: string, body: unknown) => request(created.app).post('/api/v1/identify').set('Authorization', `Bearer ${key}`).send(body as object);
+  const post = (created: CreatedApp, key: string, body: unknown) =>
+    request(created.app)
+      .post('/api/v1/identify')
+      .set('Authorization', `Bearer ${key}`)
+      .send(body as object);
 
   it('answers every sift exactly as the request thread does, edition stamp aside', async () => {
     for (const sift of SIFTS) {
@@ -103,7 +113,12 @@ describe('api: identify on worker threads', function () {
   });
 
   it('answers invalid observations with the same 400 problem, pointing at the observation', async () => {
-    const bad = { observations: [{ trait: 'foliage', values: ['needle'] }, { trait: 'needle-length', value: 6, unit: 'furlong' }] };
+    const bad = {
+      observations: [
+        { trait: 'foliage', values: ['needle'] },
+        { trait: 'needle-length', value: 6, unit: 'furlong' },
+      ],
+    };
     const [a, b] = await Promise.all([post(inline, inlineKey, bad).expect(400), post(pooled, pooledKey, bad).expect(400)]);
     expect(b.headers['content-type']).to.match(/^application\/problem\+json/);
     expect(b.body['invalid-params']).to.deep.equal(a.body['invalid-params']);
@@ -127,11 +142,18 @@ describe('api: identify on worker threads', function () {
       .set('Authorization', `Bearer ${curator.token}`)
       .send({ value: { min: 4, low: 5, high: 9, max: 10 }, version: current.body.version, reason: 'worker test edition' })
       .expect(200);
-    await request(pooled.app).post('/api/v1/editions').set('Authorization', `Bearer ${curator.token}`).send({ title: 'Worker test', reason: 'worker test edition' }).expect(201);
+    await request(pooled.app)
+      .post('/api/v1/editions')
+      .set('Authorization', `Bearer ${curator.token}`)
+      .send({ title: 'Worker test', reason: 'worker test edition' })
+      .expect(201);
 
     const after = await post(pooled, pooledKey, LOBLOLLY).expect(200);
     expect(after.body.edition.id).to.equal(2);
-    const everyone = [...(after.body.candidates as unknown[]), ...(after.body.ruledOut as unknown[])] as Array<{ taxon: { id: string }; reasons: Array<{ trait: string; status: string }> }>;
+    const everyone = [...(after.body.candidates as unknown[]), ...(after.body.ruledOut as unknown[])] as Array<{
+      taxon: { id: string };
+      reasons: Array<{ trait: string; status: string }>;
+    }>;
     const reasonAfter = everyone.find((c) => c.taxon.id === 'pinus-taeda')?.reasons.find((r) => r.trait === 'needle-length');
     expect(reasonAfter?.status).to.not.equal('matched');
   });

@@ -82,7 +82,7 @@ describe('api: POST /api/v1/identify', () => {
     // Longleaf pine: needles 20–45 cm (Flora of North America vol. 2, from memory), far beyond 15 cm.
     it('suggests what to Look at next, leaving out traits already seen and leaf traits in leaf-off', async () => {
       const res = await post(LOBLOLLY_SIGHTING).expect(200);
-      const suggested = (res.body.suggestions as Array<{ trait: string; expectedGain: number; preview: unknown[] }>);
+      const suggested = res.body.suggestions as Array<{ trait: string; expectedGain: number; preview: unknown[] }>;
       expect(suggested.length).to.be.greaterThan(0);
       for (const s of suggested) {
         expect(['foliage', 'needles-per-fascicle', 'needle-length']).to.not.include(s.trait);
@@ -96,7 +96,10 @@ describe('api: POST /api/v1/identify', () => {
       const broadleaf = { observations: [{ trait: 'foliage', values: ['broad'] }] };
       // In leaf the same sighting is told to look at leaves, so the leaf-off check below has something to leave out.
       const summer = await post({ ...broadleaf, season: 'leaf-on' }).expect(200);
-      expect((summer.body.suggestions as Array<{ trait: string }>).some((s) => leafOn.has(s.trait)), 'a leaf-on suggestion in leaf').to.be.true;
+      expect(
+        (summer.body.suggestions as Array<{ trait: string }>).some((s) => leafOn.has(s.trait)),
+        'a leaf-on suggestion in leaf',
+      ).to.be.true;
       const winter = await post({ ...broadleaf, season: 'leaf-off' }).expect(200);
       const winterTraits = (winter.body.suggestions as Array<{ trait: string }>).map((s) => s.trait);
       expect(winterTraits, 'suggestions in leaf-off').to.not.be.empty;
@@ -154,7 +157,13 @@ describe('api: POST /api/v1/identify', () => {
     });
 
     it('moves taxa with more conflicts than the leeway under Ruled out', async () => {
-      const res = await post({ observations: [{ trait: 'foliage', values: ['needle'] }, { trait: 'needles-per-fascicle', values: [5] }], leeway: 0 }).expect(200);
+      const res = await post({
+        observations: [
+          { trait: 'foliage', values: ['needle'] },
+          { trait: 'needles-per-fascicle', values: [5] },
+        ],
+        leeway: 0,
+      }).expect(200);
       expect(res.body.candidates.map((c: CandidateBody) => c.taxon.id)).to.include('pinus-strobus');
       const ruledOut = res.body.ruledOut as CandidateBody[];
       expect(ruledOut.length).to.be.greaterThan(0);
@@ -179,7 +188,10 @@ describe('api: POST /api/v1/identify', () => {
       expect(res.body.type).to.match(/\/problems\/invalid-input$/);
       expect(res.body.detail).to.be.a('string').and.not.equal('');
       const names = (res.body['invalid-params'] as Array<{ name: string }>).map((p) => p.name);
-      expect(names.some((name) => pointer.test(name)), names.join(', ')).to.be.true;
+      expect(
+        names.some((name) => pointer.test(name)),
+        names.join(', '),
+      ).to.be.true;
       return res;
     };
 
@@ -189,7 +201,15 @@ describe('api: POST /api/v1/identify', () => {
     });
 
     it('an unknown value code', async () => {
-      await expectInvalid({ observations: [{ trait: 'foliage', values: ['needle'] }, { trait: 'foliage-x', values: ['x'] }] }, /^\/body\/observations\/1\/trait$/);
+      await expectInvalid(
+        {
+          observations: [
+            { trait: 'foliage', values: ['needle'] },
+            { trait: 'foliage-x', values: ['x'] },
+          ],
+        },
+        /^\/body\/observations\/1\/trait$/,
+      );
       await expectInvalid({ observations: [{ trait: 'leaf-arrangement', values: ['spiral-ish'] }] }, /^\/body\/observations\/0\/values$/);
     });
 

@@ -48,7 +48,12 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
   };
   /** Every cell of the working matrix with its version, and the audit log's length. */
   const snapshot = async () => ({
-    cells: (await created.context.models.Cell.findAll({ order: [['id', 'ASC']] })).map((row) => ({ taxonId: row.taxonId, traitCode: row.traitCode, value: row.value, version: row.version })),
+    cells: (await created.context.models.Cell.findAll({ order: [['id', 'ASC']] })).map((row) => ({
+      taxonId: row.taxonId,
+      traitCode: row.traitCode,
+      value: row.value,
+      version: row.version,
+    })),
     audit: await created.context.models.AuditEntry.count(),
   });
   const storedCell = async (taxonId: string, traitCode: string) => {
@@ -78,7 +83,13 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
         file: 'loblolly.csv',
         rows: 6,
         changes: [
-          { row: 3, taxon: 'pinus-taeda', trait: 'needle-length', before: { min: 10, low: 15, high: 23, max: 23 }, after: { min: 10, low: 12, high: 23, max: 25 } },
+          {
+            row: 3,
+            taxon: 'pinus-taeda',
+            trait: 'needle-length',
+            before: { min: 10, low: 15, high: 23, max: 23 },
+            after: { min: 10, low: 12, high: 23, max: 25 },
+          },
           { row: 7, taxon: 'pinus-strobus', trait: 'pith', before: { usual: ['continuous'] }, after: 'unknown' },
         ],
         unchanged: 4,
@@ -89,7 +100,11 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
 
     it('is the default mode', async () => {
       const before = await snapshot();
-      const res = await request(created.app).post(IMPORTS).set('Authorization', `Bearer ${curator.token}`).attach('file', Buffer.from(GOOD_SHEET), 'loblolly.csv').expect(200);
+      const res = await request(created.app)
+        .post(IMPORTS)
+        .set('Authorization', `Bearer ${curator.token}`)
+        .attach('file', Buffer.from(GOOD_SHEET), 'loblolly.csv')
+        .expect(200);
       expect(res.body.mode).to.equal('dry-run');
       expect(res.body.changes).to.have.length(2);
       expect(await snapshot()).to.deep.equal(before);
@@ -169,9 +184,15 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
       const pith = await storedCell('pinus-strobus', 'pith');
       const res = await upload(curator, 'apply', GOOD_SHEET).expect(200);
       expect(res.body.mode).to.equal('apply');
-      expect(res.body.changes.map((c: { taxon: string; trait: string }) => `${c.taxon}/${c.trait}`)).to.deep.equal(['pinus-taeda/needle-length', 'pinus-strobus/pith']);
+      expect(res.body.changes.map((c: { taxon: string; trait: string }) => `${c.taxon}/${c.trait}`)).to.deep.equal([
+        'pinus-taeda/needle-length',
+        'pinus-strobus/pith',
+      ]);
 
-      expect(await storedCell('pinus-taeda', 'needle-length')).to.deep.equal({ value: { min: 10, low: 12, high: 23, max: 25 }, version: needleLength!.version + 1 });
+      expect(await storedCell('pinus-taeda', 'needle-length')).to.deep.equal({
+        value: { min: 10, low: 12, high: 23, max: 25 },
+        version: needleLength!.version + 1,
+      });
       expect(await storedCell('pinus-strobus', 'pith')).to.deep.equal({ value: 'unknown', version: (pith?.version ?? 0) + 1 });
       expect(await storedCell('pinus-taeda', 'needles-per-fascicle')).to.deep.equal(bundles);
 
@@ -185,11 +206,28 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
       expect(changedKeys.sort()).to.deep.equal(['pinus-strobus/pith', 'pinus-taeda/needle-length']);
       expect(after.audit).to.equal(before.audit + 3);
 
-      const audit = await request(created.app).get('/api/v1/curation/audit').set('Authorization', `Bearer ${curator.token}`).query({ entity: 'cell', key: 'pinus-taeda/needle-length' }).expect(200);
-      expect(audit.body.entries[0]).to.deep.include({ action: 'set', reason: 'import loblolly.csv', before: { min: 10, low: 15, high: 23, max: 23 }, after: { min: 10, low: 12, high: 23, max: 25 } });
+      const audit = await request(created.app)
+        .get('/api/v1/curation/audit')
+        .set('Authorization', `Bearer ${curator.token}`)
+        .query({ entity: 'cell', key: 'pinus-taeda/needle-length' })
+        .expect(200);
+      expect(audit.body.entries[0]).to.deep.include({
+        action: 'set',
+        reason: 'import loblolly.csv',
+        before: { min: 10, low: 15, high: 23, max: 23 },
+        after: { min: 10, low: 12, high: 23, max: 25 },
+      });
       expect(audit.body.entries[0].actor).to.deep.equal({ userId: curator.userId, email: curator.email });
-      const summary = await request(created.app).get('/api/v1/curation/audit').set('Authorization', `Bearer ${curator.token}`).query({ entity: 'import' }).expect(200);
-      expect(summary.body.entries[0]).to.deep.include({ entityKey: 'loblolly.csv', reason: 'import loblolly.csv', after: { rows: 6, changed: 2, unchanged: 4 } });
+      const summary = await request(created.app)
+        .get('/api/v1/curation/audit')
+        .set('Authorization', `Bearer ${curator.token}`)
+        .query({ entity: 'import' })
+        .expect(200);
+      expect(summary.body.entries[0]).to.deep.include({
+        entityKey: 'loblolly.csv',
+        reason: 'import loblolly.csv',
+        after: { rows: 6, changed: 2, unchanged: 4 },
+      });
 
       const again = await upload(curator, 'dry-run', GOOD_SHEET).expect(200);
       expect(again.body.changes).to.deep.equal([]);
@@ -198,7 +236,15 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
 
     it('refuses a sheet with one bad row with 422 listing it, and writes nothing at all', async () => {
       const before = await snapshot();
-      const res = await upload(curator, 'apply', sheet('pinus-echinata,pith,continuous,,,,,,,', 'pinus-echinata,leaf-arrangement,alternate;spiral-ish,,,,,,,', 'pinus-echinata,needle-length,,,,7,7,12.5,14,')).expect(422);
+      const res = await upload(
+        curator,
+        'apply',
+        sheet(
+          'pinus-echinata,pith,continuous,,,,,,,',
+          'pinus-echinata,leaf-arrangement,alternate;spiral-ish,,,,,,,',
+          'pinus-echinata,needle-length,,,,7,7,12.5,14,',
+        ),
+      ).expect(422);
       expect(res.headers['content-type']).to.match(/^application\/problem\+json/);
       expect(res.body.type).to.match(/\/problems\/import-invalid$/);
       expect(res.body.problems).to.have.length(1);
@@ -209,7 +255,11 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
 
     it('refuses a malformed CSV (an unterminated quote) naming the row, and writes nothing', async () => {
       const before = await snapshot();
-      const broken = sheet('pinus-echinata,pith,continuous,,,,,,,', 'pinus-echinata,"needle-length,,,,7,7,12.5,14,', 'pinus-echinata,fall-color,,,,,,,,unknown');
+      const broken = sheet(
+        'pinus-echinata,pith,continuous,,,,,,,',
+        'pinus-echinata,"needle-length,,,,7,7,12.5,14,',
+        'pinus-echinata,fall-color,,,,,,,,unknown',
+      );
       const dryRun = await upload(curator, 'dry-run', broken).expect(200);
       expect(dryRun.body.problems).to.have.length(1);
       expect(dryRun.body.problems[0]).to.deep.include({ row: 3, column: null });
@@ -232,7 +282,9 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
 
       const dryRun = await upload(curator, 'dry-run', xlsx, 'shortleaf.csv').expect(200);
       expect(dryRun.body).to.deep.include({ rows: 3, unchanged: 2, problems: [] });
-      expect(dryRun.body.changes).to.deep.equal([{ row: 4, taxon: 'pinus-echinata', trait: 'cone-length', before: { min: 4, low: 4, high: 6, max: 7 }, after: { min: 4, low: 4, high: 6, max: 7.5 } }]);
+      expect(dryRun.body.changes).to.deep.equal([
+        { row: 4, taxon: 'pinus-echinata', trait: 'cone-length', before: { min: 4, low: 4, high: 6, max: 7 }, after: { min: 4, low: 4, high: 6, max: 7.5 } },
+      ]);
       await upload(curator, 'apply', xlsx, 'shortleaf.xlsx').expect(200);
       expect((await storedCell('pinus-echinata', 'cone-length'))?.value).to.deep.equal({ min: 4, low: 4, high: 6, max: 7.5 });
     });
@@ -255,7 +307,12 @@ describe('api: matrix import (CSV / XLSX, dry run then apply)', () => {
     });
 
     it('answers 400 when no file is sent', async () => {
-      const res = await request(created.app).post(IMPORTS).query({ mode: 'apply' }).set('Authorization', `Bearer ${curator.token}`).field('note', 'no file').expect(400);
+      const res = await request(created.app)
+        .post(IMPORTS)
+        .query({ mode: 'apply' })
+        .set('Authorization', `Bearer ${curator.token}`)
+        .field('note', 'no file')
+        .expect(400);
       expect(res.body.type).to.match(/\/problems\/invalid-input$/);
     });
   });

@@ -22,7 +22,11 @@ describe('api: partner keys', () => {
   after(() => created.close());
 
   it('shows the key once, stores only its SHA-256, and lists it with today’s usage', async () => {
-    const res = await request(created.app).post('/api/v1/keys').set(bearer(developer.token)).send({ name: 'Trail app', scopes: ['identify', 'lookup'] }).expect(201);
+    const res = await request(created.app)
+      .post('/api/v1/keys')
+      .set(bearer(developer.token))
+      .send({ name: 'Trail app', scopes: ['identify', 'lookup'] })
+      .expect(201);
     const key = res.body.key as string;
     expect(key).to.match(/^svk_[A-Za-z0-9_-]{43}$/);
     expect(res.body.scopes).to.deep.equal(['identify', 'lookup']);
@@ -41,7 +45,11 @@ describe('api: partner keys', () => {
 
   it('a key without the scope is refused with insufficient_scope (RFC 6750 §3.1)', async () => {
     const { key } = await createPartnerKey(created, developer.token, ['lookup']);
-    const res = await request(created.app).post('/api/v1/identify').set(bearer(key)).send({ observations: [{ trait: 'needles-per-fascicle', values: [3] }] }).expect(403);
+    const res = await request(created.app)
+      .post('/api/v1/identify')
+      .set(bearer(key))
+      .send({ observations: [{ trait: 'needles-per-fascicle', values: [3] }] })
+      .expect(403);
     expect(res.headers['www-authenticate']).to.include('error="insufficient_scope"').and.to.include('scope="identify"');
   });
 
@@ -58,7 +66,11 @@ describe('api: partner keys', () => {
   });
 
   it('refuses unknown scopes and an empty scope list', async () => {
-    await request(created.app).post('/api/v1/keys').set(bearer(developer.token)).send({ name: 'x', scopes: ['admin'] }).expect(400);
+    await request(created.app)
+      .post('/api/v1/keys')
+      .set(bearer(developer.token))
+      .send({ name: 'x', scopes: ['admin'] })
+      .expect(400);
     await request(created.app).post('/api/v1/keys').set(bearer(developer.token)).send({ name: 'x', scopes: [] }).expect(400);
   });
 
@@ -86,7 +98,9 @@ describe('api: partner keys', () => {
       expect(res.body.quota.limit).to.equal(5000);
       expect(res.body.quota.remaining).to.equal(4997);
       const resetsIn = Date.parse(res.body.quota.resetsAt) - Date.now();
-      expect(resetsIn).to.be.greaterThan(23 * 3_600_000).and.at.most(24 * 3_600_000);
+      expect(resetsIn)
+        .to.be.greaterThan(23 * 3_600_000)
+        .and.at.most(24 * 3_600_000);
     });
 
     it('is not read as a key id, and a signed-in user is told to use a key (403); without credentials 401', async () => {
@@ -135,7 +149,9 @@ describe('api: partner keys', () => {
       expect(res.body.quota.limit).to.equal(5000);
       expect(res.body.quota.remaining).to.equal(4998);
       const resetsIn = Date.parse(res.body.quota.resetsAt) - Date.now();
-      expect(resetsIn).to.be.greaterThan(23 * 3_600_000).and.at.most(24 * 3_600_000);
+      expect(resetsIn)
+        .to.be.greaterThan(23 * 3_600_000)
+        .and.at.most(24 * 3_600_000);
     });
 
     it('counts refused requests against the quota but not in the usage', async () => {
@@ -209,7 +225,14 @@ describe('api: partner keys', () => {
       try {
         const owner = await signUpAndSignIn(limited, 'learner');
         const { key, id } = await createPartnerKey(limited, owner.token, ['lookup']);
-        const statuses = await Promise.all(Array.from({ length: quota + 10 }, () => request(limited.app).get('/api/v1/traits').set(bearer(key)).then((r) => r.status)));
+        const statuses = await Promise.all(
+          Array.from({ length: quota + 10 }, () =>
+            request(limited.app)
+              .get('/api/v1/traits')
+              .set(bearer(key))
+              .then((r) => r.status),
+          ),
+        );
         expect(statuses.filter((s) => s === 200)).to.have.length(quota);
         expect(statuses.filter((s) => s === 429)).to.have.length(10);
         const usage = await limited.context.models.KeyUsage.findOne({ where: { keyId: id } });
@@ -284,9 +307,26 @@ describe('api: partner keys', () => {
         const { key } = await createPartnerKey(a, owner.token, ['lookup']);
         const ownerB = await signUpAndSignIn(b, 'learner');
         const row = await a.context.models.PartnerKey.findOne({ where: { keyHash: hashToken(key) } });
-        await b.context.models.PartnerKey.create({ ownerId: ownerB.userId, name: 'copy', prefix: row?.prefix ?? '', keyHash: hashToken(key), scopes: ['lookup'], revokedAt: null, revokedBy: null, lastUsedAt: null, id: row?.id });
+        await b.context.models.PartnerKey.create({
+          ownerId: ownerB.userId,
+          name: 'copy',
+          prefix: row?.prefix ?? '',
+          keyHash: hashToken(key),
+          scopes: ['lookup'],
+          revokedAt: null,
+          revokedBy: null,
+          lastUsedAt: null,
+          id: row?.id,
+        });
         const statuses: number[] = [];
-        for (let i = 0; i < 6; i++) statuses.push((await request(i % 2 === 0 ? a.app : b.app).get('/api/v1/traits').set(bearer(key))).status);
+        for (let i = 0; i < 6; i++)
+          statuses.push(
+            (
+              await request(i % 2 === 0 ? a.app : b.app)
+                .get('/api/v1/traits')
+                .set(bearer(key))
+            ).status,
+          );
         expect(statuses).to.deep.equal([200, 200, 200, 200, 200, 429]);
       } finally {
         await a.close();

@@ -129,7 +129,9 @@ describe('api: published lookups (taxa, traits, editions, bundle)', () => {
       const first = await request(created.app).get('/api/v1/traits').expect(200);
       const etag = first.headers['etag'];
       expect(etag).to.match(/^"[^"]+"$/);
-      expect(first.headers['cache-control']).to.match(/public/).and.match(/max-age=\d+/);
+      expect(first.headers['cache-control'])
+        .to.match(/public/)
+        .and.match(/max-age=\d+/);
       expect(first.headers['vary']).to.match(/Authorization/i);
       const again = await request(created.app).get('/api/v1/traits').set('If-None-Match', etag).expect(304);
       expect(again.text ?? '').to.equal('');
@@ -169,7 +171,9 @@ describe('api: published lookups (taxa, traits, editions, bundle)', () => {
         })
         .expect(200);
       expect(res.headers['content-type']).to.match(/^application\/octet-stream/);
-      expect(res.headers['cache-control']).to.match(/^public/).and.match(/max-age=\d+/);
+      expect(res.headers['cache-control'])
+        .to.match(/^public/)
+        .and.match(/max-age=\d+/);
       expect(res.headers['etag']).to.match(/^"edition-1-[^"]+"$/);
       expect(res.headers['x-sylvasift-edition']).to.equal('1');
       const compiled = decodeBundle(new Uint8Array(res.body as Buffer));

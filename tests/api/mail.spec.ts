@@ -25,7 +25,10 @@ describe('api: mail', () => {
   it('lists caught mail on /api/dev/mail as JSON or a page, outside production', async () => {
     const created = await startTestApp();
     try {
-      await request(created.app).post('/api/v1/accounts').send({ email: 'page@example.invalid', password: 'long enough words', displayName: 'Page' }).expect(201);
+      await request(created.app)
+        .post('/api/v1/accounts')
+        .send({ email: 'page@example.invalid', password: 'long enough words', displayName: 'Page' })
+        .expect(201);
       await request(created.app).post('/api/v1/password-resets').send({ email: 'page@example.invalid' }).expect(202);
       let messages: Array<{ subject: string; envelope: { from: string } }> = [];
       for (let i = 0; i < 50 && messages.length === 0; i++) {
@@ -43,7 +46,13 @@ describe('api: mail', () => {
   });
 
   it('has no mail page in production, where SMTP_URL is required', async () => {
-    const created = await startTestApp({ NODE_ENV: 'production', SMTP_URL: 'smtp://127.0.0.1:2525', DATABASE_URL: 'sqlite::memory:', LOG_LEVEL: 'silent', SCRYPT_N: '1024' });
+    const created = await startTestApp({
+      NODE_ENV: 'production',
+      SMTP_URL: 'smtp://127.0.0.1:2525',
+      DATABASE_URL: 'sqlite::memory:',
+      LOG_LEVEL: 'silent',
+      SCRYPT_N: '1024',
+    });
     try {
       expect(created.context.mailer.captured).to.equal(undefined);
       await request(created.app).get('/api/dev/mail').set('Accept', 'application/json').expect(404);

@@ -41,7 +41,8 @@ function openObjects(): string[] {
       const parts = (schema['allOf'] as Schema[]).map((part) => (typeof part['$ref'] === 'string' ? resolve(part['$ref']) : part));
       if (!parts.some((part) => part['additionalProperties'] === false)) open.add(`${where} (allOf)`);
     }
-    for (const [name, property] of Object.entries((schema['properties'] as Record<string, Schema> | undefined) ?? {})) walk(property, `${where}.${name}`, false);
+    for (const [name, property] of Object.entries((schema['properties'] as Record<string, Schema> | undefined) ?? {}))
+      walk(property, `${where}.${name}`, false);
     if (schema['items']) walk(schema['items'] as Schema, `${where}[]`, false);
     for (const key of ['oneOf', 'anyOf'] as const) (schema[key] as Schema[] | undefined)?.forEach((part, i) => walk(part, `${where}|${i}`, false));
     (schema['allOf'] as Schema[] | undefined)?.forEach((part, i) => walk(part, `${where}&${i}`, true));
@@ -51,7 +52,8 @@ function openObjects(): string[] {
     for (const [method, operation] of Object.entries(item as Record<string, OpenAPIV3_1.OperationObject>)) {
       for (const [status, response] of Object.entries(operation.responses ?? {})) {
         const resolved = ('$ref' in response ? resolve(response.$ref) : response) as OpenAPIV3_1.ResponseObject;
-        for (const [mediaType, content] of Object.entries(resolved.content ?? {})) walk(content.schema as Schema, `${method} ${path} ${status} ${mediaType}`, false);
+        for (const [mediaType, content] of Object.entries(resolved.content ?? {}))
+          walk(content.schema as Schema, `${method} ${path} ${status} ${mediaType}`, false);
       }
     }
   }

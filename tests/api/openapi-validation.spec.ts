@@ -71,7 +71,10 @@ describe('api: request validation against openapi.yaml', () => {
     expect(sensitive.regexp.exec('/API/V1/TAXA/quercus-alba/photos')).to.equal(null);
     // an option that is a function is never compared, so this compiles afresh: the remembered pattern must be the same
     const identity = (text: string) => text;
-    for (const [path, options] of [['/api/v1/taxa/:id/photos', { sensitive: false, strict: false }], ['/api/v1/keys/:id', { sensitive: true, strict: false }]] as const) {
+    for (const [path, options] of [
+      ['/api/v1/taxa/:id/photos', { sensitive: false, strict: false }],
+      ['/api/v1/keys/:id', { sensitive: true, strict: false }],
+    ] as const) {
       const remembered = pathToRegexp(path, options);
       const compiled = pathToRegexp(path, { ...options, encodePath: identity });
       expect(compiled).to.not.equal(remembered);

@@ -133,11 +133,26 @@ describe('api: permission table (every route × every caller)', function () {
     { operation: 'GET /api/v1/taxa', scope: 'lookup', prepare: () => ({ url: '/api/v1/taxa' }), expect: openButKeysNeedScope(200) },
     { operation: 'GET /api/v1/taxa/{id}', scope: 'lookup', prepare: () => ({ url: '/api/v1/taxa/pinus-taeda' }), expect: openButKeysNeedScope(200) },
     { operation: 'GET /api/v1/traits', scope: 'lookup', prepare: () => ({ url: '/api/v1/traits' }), expect: openButKeysNeedScope(200) },
-    { operation: 'POST /api/v1/compare', scope: 'lookup', prepare: () => ({ url: '/api/v1/compare', body: { taxa: ['pinus-taeda', 'pinus-echinata'] } }), expect: openButKeysNeedScope(200) },
+    {
+      operation: 'POST /api/v1/compare',
+      scope: 'lookup',
+      prepare: () => ({ url: '/api/v1/compare', body: { taxa: ['pinus-taeda', 'pinus-echinata'] } }),
+      expect: openButKeysNeedScope(200),
+    },
     { operation: 'GET /api/v1/editions', scope: 'lookup', prepare: () => ({ url: '/api/v1/editions' }), expect: openButKeysNeedScope(200) },
     { operation: 'GET /api/v1/editions/{number}', scope: 'lookup', prepare: () => ({ url: '/api/v1/editions/1' }), expect: openButKeysNeedScope(200) },
-    { operation: 'GET /api/v1/editions/current/bundle', scope: 'lookup', prepare: () => ({ url: '/api/v1/editions/current/bundle' }), expect: openButKeysNeedScope(200) },
-    { operation: 'GET /api/v1/photos/{name}', scope: 'lookup', prepare: () => ({ url: `/api/v1/photos/${'0'.repeat(32)}.webp` }), expect: openButKeysNeedScope(404) },
+    {
+      operation: 'GET /api/v1/editions/current/bundle',
+      scope: 'lookup',
+      prepare: () => ({ url: '/api/v1/editions/current/bundle' }),
+      expect: openButKeysNeedScope(200),
+    },
+    {
+      operation: 'GET /api/v1/photos/{name}',
+      scope: 'lookup',
+      prepare: () => ({ url: `/api/v1/photos/${'0'.repeat(32)}.webp` }),
+      expect: openButKeysNeedScope(404),
+    },
     {
       operation: 'POST /api/v1/editions',
       // a draft that differs from the current edition, so whoever may publish has something to publish
@@ -154,7 +169,11 @@ describe('api: permission table (every route × every caller)', function () {
     },
 
     // the Matrix desk
-    { operation: 'GET /api/v1/curation/cells/{taxonId}/{traitCode}', prepare: () => ({ url: '/api/v1/curation/cells/pinus-taeda/needle-form' }), expect: users(200, ['curator']) },
+    {
+      operation: 'GET /api/v1/curation/cells/{taxonId}/{traitCode}',
+      prepare: () => ({ url: '/api/v1/curation/cells/pinus-taeda/needle-form' }),
+      expect: users(200, ['curator']),
+    },
     {
       operation: 'PUT /api/v1/curation/cells/{taxonId}/{traitCode}',
       prepare: () => ({ url: '/api/v1/curation/cells/no-such-taxon/needle-form', body: { value: 'unknown', version: 1, reason: 'who may write' } }),
@@ -164,20 +183,44 @@ describe('api: permission table (every route × every caller)', function () {
       operation: 'POST /api/v1/curation/taxa',
       prepare: () => {
         const id = unique('pinus-permissionis');
-        return { url: '/api/v1/curation/taxa', body: { id, scientificName: `Pinus ${id}`, authority: 'Invented', family: 'Pinaceae', commonNames: [id], reason: 'who may add taxa' } };
+        return {
+          url: '/api/v1/curation/taxa',
+          body: { id, scientificName: `Pinus ${id}`, authority: 'Invented', family: 'Pinaceae', commonNames: [id], reason: 'who may add taxa' },
+        };
       },
       expect: users(201, ['curator']),
     },
-    { operation: 'PATCH /api/v1/curation/taxa/{id}', prepare: () => ({ url: '/api/v1/curation/taxa/no-such-taxon', body: { retired: true, reason: 'who may edit' } }), expect: users(404, ['curator']) },
+    {
+      operation: 'PATCH /api/v1/curation/taxa/{id}',
+      prepare: () => ({ url: '/api/v1/curation/taxa/no-such-taxon', body: { retired: true, reason: 'who may edit' } }),
+      expect: users(404, ['curator']),
+    },
     {
       operation: 'POST /api/v1/curation/traits',
       prepare: () => ({
         url: '/api/v1/curation/traits',
-        body: { code: unique('bark-permission'), label: 'Permission', part: 'bark', kind: 'state', season: 'any', ease: 1, errorRate: 0.1, values: [{ code: 'yes', label: 'Yes' }, { code: 'no', label: 'No' }], reason: 'who may add traits' },
+        body: {
+          code: unique('bark-permission'),
+          label: 'Permission',
+          part: 'bark',
+          kind: 'state',
+          season: 'any',
+          ease: 1,
+          errorRate: 0.1,
+          values: [
+            { code: 'yes', label: 'Yes' },
+            { code: 'no', label: 'No' },
+          ],
+          reason: 'who may add traits',
+        },
       }),
       expect: users(201, ['curator']),
     },
-    { operation: 'PATCH /api/v1/curation/traits/{code}', prepare: () => ({ url: '/api/v1/curation/traits/no-such-trait', body: { label: 'Renamed', reason: 'who may edit' } }), expect: users(404, ['curator']) },
+    {
+      operation: 'PATCH /api/v1/curation/traits/{code}',
+      prepare: () => ({ url: '/api/v1/curation/traits/no-such-trait', body: { label: 'Renamed', reason: 'who may edit' } }),
+      expect: users(404, ['curator']),
+    },
     {
       operation: 'POST /api/v1/curation/traits/{code}/values',
       prepare: () => ({ url: '/api/v1/curation/traits/no-such-trait/values', body: { code: 'anything', label: 'Anything', reason: 'who may add values' } }),
@@ -195,7 +238,11 @@ describe('api: permission table (every route × every caller)', function () {
       operation: 'POST /api/v1/curation/imports',
       prepare: () => ({
         url: '/api/v1/curation/imports?mode=dry-run',
-        attach: { field: 'file', file: Buffer.from('taxon,trait,usual,occasional,rare,min,low,high,max,state\npinus-taeda,pith,,,,,,,,unknown\n'), name: 'who-may-import.csv' },
+        attach: {
+          field: 'file',
+          file: Buffer.from('taxon,trait,usual,occasional,rare,min,low,high,max,state\npinus-taeda,pith,,,,,,,,unknown\n'),
+          name: 'who-may-import.csv',
+        },
       }),
       expect: users(200, ['curator']),
     },
@@ -206,10 +253,18 @@ describe('api: permission table (every route × every caller)', function () {
       prepare: () => ({ url: '/api/v1/accounts', body: { email: uniqueEmail('perm'), password: 'permission table', displayName: 'Perm' } }),
       expect: everyone(201),
     },
-    { operation: 'POST /api/v1/sessions', prepare: () => ({ url: '/api/v1/sessions', body: { email: raiser.email, password: raiser.password } }), expect: everyone(201) },
+    {
+      operation: 'POST /api/v1/sessions',
+      prepare: () => ({ url: '/api/v1/sessions', body: { email: raiser.email, password: raiser.password } }),
+      expect: everyone(201),
+    },
     { operation: 'DELETE /api/v1/sessions/current', prepare: () => ({ url: '/api/v1/sessions/current' }), expect: users(204) },
     { operation: 'GET /api/v1/me', prepare: () => ({ url: '/api/v1/me' }), expect: users(200) },
-    { operation: 'POST /api/v1/password-resets', prepare: () => ({ url: '/api/v1/password-resets', body: { email: uniqueEmail('reset') } }), expect: everyone(202) },
+    {
+      operation: 'POST /api/v1/password-resets',
+      prepare: () => ({ url: '/api/v1/password-resets', body: { email: uniqueEmail('reset') } }),
+      expect: everyone(202),
+    },
     {
       operation: 'POST /api/v1/password-resets/{token}',
       prepare: async () => ({ url: `/api/v1/password-resets/${await oneTimeToken('password-reset')}`, body: { password: 'permission table reset' } }),
@@ -217,7 +272,10 @@ describe('api: permission table (every route × every caller)', function () {
     },
     {
       operation: 'POST /api/v1/invitations/{token}',
-      prepare: async () => ({ url: `/api/v1/invitations/${await oneTimeToken('invitation')}`, body: { displayName: 'Invitee', password: 'permission table invite' } }),
+      prepare: async () => ({
+        url: `/api/v1/invitations/${await oneTimeToken('invitation')}`,
+        body: { displayName: 'Invitee', password: 'permission table invite' },
+      }),
       expect: everyone(201),
     },
 
@@ -279,7 +337,11 @@ describe('api: permission table (every route × every caller)', function () {
       prepare: async () => ({ url: `/api/v1/admin/users/${(await freshUser()).userId}`, body: { role: 'coach' } }),
       expect: users(200, ['admin']),
     },
-    { operation: 'POST /api/v1/admin/invitations', prepare: () => ({ url: '/api/v1/admin/invitations', body: { email: uniqueEmail('invite'), role: 'learner' } }), expect: users(201, ['admin']) },
+    {
+      operation: 'POST /api/v1/admin/invitations',
+      prepare: () => ({ url: '/api/v1/admin/invitations', body: { email: uniqueEmail('invite'), role: 'learner' } }),
+      expect: users(201, ['admin']),
+    },
     { operation: 'GET /api/v1/admin/keys', prepare: () => ({ url: '/api/v1/admin/keys' }), expect: users(200, ['admin']) },
     {
       operation: 'DELETE /api/v1/admin/keys/{id}',
@@ -303,11 +365,19 @@ describe('api: permission table (every route × every caller)', function () {
 
     // queries and the Second look
     { operation: 'GET /api/v1/queries', prepare: () => ({ url: '/api/v1/queries' }), expect: users(200) },
-    { operation: 'POST /api/v1/queries', prepare: () => ({ url: '/api/v1/queries', body: { taxonId: 'pinus-taeda', traitCode: 'needle-length', note: 'Who may raise queries.' } }), expect: users(201) },
+    {
+      operation: 'POST /api/v1/queries',
+      prepare: () => ({ url: '/api/v1/queries', body: { taxonId: 'pinus-taeda', traitCode: 'needle-length', note: 'Who may raise queries.' } }),
+      expect: users(201),
+    },
     // someone else's query: reviewers and admins see it, other users are told it is not there
     { operation: 'GET /api/v1/queries/{id}', prepare: async () => ({ url: `/api/v1/queries/${await openQuery()}` }), expect: users(200, ['reviewer'], 404) },
     // the queried cell in the working matrix, with its version: for those who may recode it
-    { operation: 'GET /api/v1/queries/{id}/cell', prepare: async () => ({ url: `/api/v1/queries/${await openQuery()}/cell` }), expect: users(200, ['reviewer']) },
+    {
+      operation: 'GET /api/v1/queries/{id}/cell',
+      prepare: async () => ({ url: `/api/v1/queries/${await openQuery()}/cell` }),
+      expect: users(200, ['reviewer']),
+    },
     {
       operation: 'POST /api/v1/queries/{id}/answer',
       prepare: async () => ({ url: `/api/v1/queries/${await openQuery()}/answer`, body: { answer: 'Answered for the permission table.' } }),
@@ -317,7 +387,11 @@ describe('api: permission table (every route × every caller)', function () {
       operation: 'POST /api/v1/queries/{id}/settle',
       prepare: async () => {
         const id = await openQuery();
-        await request(created.app).post(`/api/v1/queries/${id}/answer`).set('Authorization', `Bearer ${people.reviewer.token}`).send({ answer: 'Answered first.' }).expect(200);
+        await request(created.app)
+          .post(`/api/v1/queries/${id}/answer`)
+          .set('Authorization', `Bearer ${people.reviewer.token}`)
+          .send({ answer: 'Answered first.' })
+          .expect(200);
         return { url: `/api/v1/queries/${id}/settle`, body: {} };
       },
       expect: users(200, ['reviewer']),
@@ -331,13 +405,20 @@ describe('api: permission table (every route × every caller)', function () {
 
     // study sets
     { operation: 'GET /api/v1/study-sets', prepare: () => ({ url: '/api/v1/study-sets' }), expect: users(200, ['coach']) },
-    { operation: 'POST /api/v1/study-sets', prepare: () => ({ url: '/api/v1/study-sets', body: { name: unique('Permission table set'), taxa: ['pinus-taeda'] } }), expect: users(201, ['coach']) },
+    {
+      operation: 'POST /api/v1/study-sets',
+      prepare: () => ({ url: '/api/v1/study-sets', body: { name: unique('Permission table set'), taxa: ['pinus-taeda'] } }),
+      expect: users(201, ['coach']),
+    },
     // another coach's unshared set: admins see it, other users are told it is not there
     { operation: 'GET /api/v1/study-sets/{id}', prepare: async () => ({ url: `/api/v1/study-sets/${await studySet()}` }), expect: users(200, [], 404) },
     {
       operation: 'PATCH /api/v1/study-sets/{id}',
       // a coach changes a set of their own; everyone else aims at another coach's
-      prepare: async (caller) => ({ url: `/api/v1/study-sets/${await studySet(caller === 'coach' ? people.coach : undefined)}`, body: { notes: 'Who may change it.' } }),
+      prepare: async (caller) => ({
+        url: `/api/v1/study-sets/${await studySet(caller === 'coach' ? people.coach : undefined)}`,
+        body: { notes: 'Who may change it.' },
+      }),
       expect: users(200, ['coach']),
     },
     {
@@ -353,7 +434,9 @@ describe('api: permission table (every route × every caller)', function () {
     raiser = await signUpAndSignIn(created, 'learner');
     keys.lookup = (await createPartnerKey(created, raiser.token, ['lookup'])).key;
     keys.identify = (await createPartnerKey(created, raiser.token, ['identify'])).key;
-    tinyJpeg = await sharp({ create: { width: 16, height: 16, channels: 3, background: '#5a4632' } }).jpeg().toBuffer();
+    tinyJpeg = await sharp({ create: { width: 16, height: 16, channels: 3, background: '#5a4632' } })
+      .jpeg()
+      .toBuffer();
   });
   after(() => created.close());
 
@@ -362,7 +445,11 @@ describe('api: permission table (every route × every caller)', function () {
     const operations = Object.entries(document.paths ?? {}).flatMap(([path, item]) =>
       ['get', 'put', 'post', 'patch', 'delete'].filter((method) => item && method in item).map((method) => `${method.toUpperCase()} ${path}`),
     );
-    expect(rows().map((r) => r.operation).sort()).to.deep.equal(operations.sort());
+    expect(
+      rows()
+        .map((r) => r.operation)
+        .sort(),
+    ).to.deep.equal(operations.sort());
   });
 
   it('gives every caller the expected status on every route', async () => {
@@ -377,7 +464,8 @@ describe('api: permission table (every route × every caller)', function () {
         const res = await call;
         const expected = row.expect[caller];
         if (res.status !== expected) failures.push(`${row.operation} as ${caller}: expected ${expected}, got ${res.status} ${res.body?.detail ?? ''}`);
-        if (res.status === 401 && !res.headers['www-authenticate']?.startsWith('Bearer')) failures.push(`${row.operation} as ${caller}: 401 without a Bearer challenge`);
+        if (res.status === 401 && !res.headers['www-authenticate']?.startsWith('Bearer'))
+          failures.push(`${row.operation} as ${caller}: 401 without a Bearer challenge`);
         // sign-out ended the caller's session; give them a fresh one
         if (template === '/api/v1/sessions/current' && res.status === 204 && ROLES.includes(caller as Role)) {
           const role = caller as Role;
@@ -403,10 +491,11 @@ describe('api: permission table (every route × every caller)', function () {
         const prepared = await row.prepare(caller);
         if (!prepared.body && !prepared.attach) continue;
         // a body no operation accepts: an unknown property and a wrong type
-        const res = await request(created.app)[method.toLowerCase() as 'post' | 'put' | 'patch'](prepared.url)
-          .set(headersFor(caller, row.scope))
-          .send({ notAField: true, reason: 42 });
-        if (res.status !== expected) failures.push(`${row.operation} as ${caller} with a bad body: expected ${expected}, got ${res.status} ${res.body?.detail ?? ''}`);
+        const agent = request(created.app);
+        const verb = method.toLowerCase() as 'post' | 'put' | 'patch';
+        const res = await agent[verb](prepared.url).set(headersFor(caller, row.scope)).send({ notAField: true, reason: 42 });
+        if (res.status !== expected)
+          failures.push(`${row.operation} as ${caller} with a bad body: expected ${expected}, got ${res.status} ${res.body?.detail ?? ''}`);
       }
     }
     expect(failures, failures.join('\n')).to.deep.equal([]);

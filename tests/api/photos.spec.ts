@@ -26,7 +26,10 @@ describe('api: taxon photos', () => {
     // A camera-like JPEG carrying EXIF with a camera make and a GPS position (IFD3 is the GPS IFD, EXIF 2.3).
     photoWithGps = await sharp({ create: { width: 320, height: 240, channels: 3, background: '#3a7d44' } })
       .jpeg()
-      .withExif({ IFD0: { Make: 'TestCam', Model: 'Field 1' }, IFD3: { GPSLatitudeRef: 'N', GPSLatitude: '35/1 46/1 0/1', GPSLongitudeRef: 'W', GPSLongitude: '78/1 38/1 0/1' } })
+      .withExif({
+        IFD0: { Make: 'TestCam', Model: 'Field 1' },
+        IFD3: { GPSLatitudeRef: 'N', GPSLatitude: '35/1 46/1 0/1', GPSLongitudeRef: 'W', GPSLongitude: '78/1 38/1 0/1' },
+      })
       .toBuffer();
   });
   afterEach(() => assertContractKept(created));
@@ -61,7 +64,9 @@ describe('api: taxon photos', () => {
   });
 
   it('judges the type by content: a PNG named .txt is accepted, text named .jpg is refused with 415', async () => {
-    const png = await sharp({ create: { width: 10, height: 10, channels: 3, background: '#ffffff' } }).png().toBuffer();
+    const png = await sharp({ create: { width: 10, height: 10, channels: 3, background: '#ffffff' } })
+      .png()
+      .toBuffer();
     const ok = await upload(curator, 'pinus-taeda', png, 'notes.txt', { format: 'jpeg' }).expect(201);
     expect(ok.body.mediaType).to.equal('image/jpeg');
     const before = await created.context.models.Photo.count();
@@ -86,6 +91,8 @@ describe('api: taxon photos', () => {
   it('rejects path traversal and names it did not give out', async () => {
     await request(created.app).get('/api/v1/photos/..%2F..%2Fetc%2Fpasswd').expect(400);
     await request(created.app).get('/api/v1/photos/../../package.json').expect(404);
-    await request(created.app).get(`/api/v1/photos/${'0'.repeat(32)}.webp`).expect(404);
+    await request(created.app)
+      .get(`/api/v1/photos/${'0'.repeat(32)}.webp`)
+      .expect(404);
   });
 });

@@ -41,7 +41,10 @@ if (testDialect() === 'postgres') {
     it('opens the database with a pool, migrated once, with foreign keys enforced', async () => {
       expect(first.context.sequelize.getDialect()).to.equal('postgres');
       const names = await first.context.sequelize.query<{ name: string }>('SELECT name FROM schema_migrations ORDER BY name', { type: QueryTypes.SELECT });
-      expect(names.map((n) => n.name), 'the second app found the schema up to date').to.deep.equal(migrations.map((m) => m.name).sort());
+      expect(
+        names.map((n) => n.name),
+        'the second app found the schema up to date',
+      ).to.deep.equal(migrations.map((m) => m.name).sort());
       let rejected = false;
       try {
         await first.context.models.Cell.create({ taxonId: 'no-such-taxon', traitCode: 'foliage', value: 'unknown' });
@@ -65,7 +68,10 @@ if (testDialect() === 'postgres') {
     it('gives publishes from two processes at once consecutive edition numbers: one edition per change, the other told nothing changed', async () => {
       const latest = (await first.context.models.Edition.max('number')) as number;
       const publish = (app: CreatedApp, curator: SignedInUser, i: number) =>
-        request(app.app).post('/api/v1/editions').set(bearer(curator)).send({ title: `Concurrent edition ${i}`, reason: 'two processes publish at once' });
+        request(app.app)
+          .post('/api/v1/editions')
+          .set(bearer(curator))
+          .send({ title: `Concurrent edition ${i}`, reason: 'two processes publish at once' });
       for (const round of [1, 2, 3]) {
         await recodeACell(round);
         const answers = await Promise.all([publish(first, curatorOfFirst, round), publish(second, curatorOfSecond, round)]);

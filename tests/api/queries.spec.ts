@@ -122,7 +122,11 @@ describe('api: queries on doubtful cells', () => {
   });
 
   it('refuses a query on a cell that does not exist', async () => {
-    const res = await request(created.app).post('/api/v1/queries').set(auth(learner)).send({ taxonId: 'no-such-tree', traitCode: TRAIT, note: 'Hmm, odd.' }).expect(400);
+    const res = await request(created.app)
+      .post('/api/v1/queries')
+      .set(auth(learner))
+      .send({ taxonId: 'no-such-tree', traitCode: TRAIT, note: 'Hmm, odd.' })
+      .expect(400);
     expect(res.body['invalid-params'][0].name).to.equal('/taxonId');
   });
 

@@ -90,11 +90,24 @@ describe('api: study sets', () => {
       const res = await request(created.app)
         .post('/api/v1/study-sets')
         .set(auth(coach))
-        .send({ name: '  Fall practice  ', event: 'County meet', eventDate: '2027-10-02', notes: 'Twigs first.', taxa: ['liriodendron-tulipifera', 'acer-rubrum', 'pinus-taeda'] })
+        .send({
+          name: '  Fall practice  ',
+          event: 'County meet',
+          eventDate: '2027-10-02',
+          notes: 'Twigs first.',
+          taxa: ['liriodendron-tulipifera', 'acer-rubrum', 'pinus-taeda'],
+        })
         .expect(201);
       const set = res.body as StudySetBody;
       expect(res.headers['location']).to.equal(`/api/v1/study-sets/${set.id}`);
-      expect(set).to.include({ name: 'Fall practice', event: 'County meet', eventDate: '2027-10-02', notes: 'Twigs first.', shared: false, ownerId: coach.userId });
+      expect(set).to.include({
+        name: 'Fall practice',
+        event: 'County meet',
+        eventDate: '2027-10-02',
+        notes: 'Twigs first.',
+        shared: false,
+        ownerId: coach.userId,
+      });
       expect(set.taxa.map((t) => t.id)).to.deep.equal(['liriodendron-tulipifera', 'acer-rubrum', 'pinus-taeda']);
       const taxon = await created.context.models.Taxon.findByPk('acer-rubrum');
       expect(set.taxa[1]).to.deep.equal({ id: 'acer-rubrum', scientificName: taxon?.scientificName, commonNames: taxon?.commonNames, retired: false });
@@ -148,7 +161,11 @@ describe('api: study sets', () => {
     async function rejected(body: Record<string, unknown>): Promise<InvalidParams> {
       const sets = await setCount();
       const links = await linkCount();
-      const res = await request(created.app).post('/api/v1/study-sets').set(auth(coach)).send({ name: 'Rejected', ...body }).expect(400);
+      const res = await request(created.app)
+        .post('/api/v1/study-sets')
+        .set(auth(coach))
+        .send({ name: 'Rejected', ...body })
+        .expect(400);
       expect(res.headers['content-type']).to.match(/^application\/problem\+json/);
       expect(await setCount(), 'no study set is written').to.equal(sets);
       expect(await linkCount(), 'no species link is written').to.equal(links);
@@ -246,7 +263,11 @@ describe('api: study sets', () => {
     it('refuses learners a list or a new set', async () => {
       await request(created.app).get('/api/v1/study-sets').set(auth(learner)).expect(403);
       const sets = await setCount();
-      await request(created.app).post('/api/v1/study-sets').set(auth(learner)).send({ name: 'Mine', taxa: ['pinus-taeda'] }).expect(403);
+      await request(created.app)
+        .post('/api/v1/study-sets')
+        .set(auth(learner))
+        .send({ name: 'Mine', taxa: ['pinus-taeda'] })
+        .expect(403);
       expect(await setCount()).to.equal(sets);
     });
   });

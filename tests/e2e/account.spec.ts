@@ -169,7 +169,9 @@ describe('e2e: accounts and edition updates', function () {
     const curator = demoAccount('curator');
     const session = await page.request.post(`${running.baseUrl}/api/v1/sessions`, { data: { email: curator.email, password: DEMO_PASSWORD } });
     const { token } = (await session.json()) as { token: string };
-    const image = await sharp({ create: { width: 96, height: 64, channels: 3, background: '#6b4f3a' } }).png().toBuffer();
+    const image = await sharp({ create: { width: 96, height: 64, channels: 3, background: '#6b4f3a' } })
+      .png()
+      .toBuffer();
     const attached = await page.request.post(`${running.baseUrl}/api/v1/taxa/pinus-taeda/photos`, {
       headers: { Authorization: `Bearer ${token}` },
       multipart: { photo: { name: 'bark.png', mimeType: 'image/png', buffer: image }, caption: 'Bark plates on an old trunk', credit: 'Sylvasift test' },

@@ -197,7 +197,11 @@ describe('e2e: the Matrix desk', function () {
     expect((await cellOf(second, 'pinus-echinata', 'needle-length').textContent())?.trim()).to.equal('6 (8–11) 12 cm');
 
     const token = await tokenFor(second.context().request, running.baseUrl, 'curator');
-    const audit = await second.context().request.get(`${running.baseUrl}/api/v1/curation/audit?entity=cell&key=${encodeURIComponent('pinus-echinata/needle-length')}`, { headers: { Authorization: `Bearer ${token}` } });
+    const audit = await second
+      .context()
+      .request.get(`${running.baseUrl}/api/v1/curation/audit?entity=cell&key=${encodeURIComponent('pinus-echinata/needle-length')}`, {
+        headers: { Authorization: `Bearer ${token}` },
+      });
     expect(audit.status(), await audit.text()).to.equal(200);
     const entries = ((await audit.json()) as AuditBody).entries;
     expect(entries.map((entry) => entry.reason)).to.deep.equal(['Shortleaf needles measured in the herbarium', 'Shortleaf needles from the state guide']);

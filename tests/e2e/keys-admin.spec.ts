@@ -195,7 +195,9 @@ describe('e2e: Partner keys and Admin', function () {
     await page.getByLabel('Find by name or e-mail').fill('wren');
     const row = page.locator('tr[data-person-id]');
     await page.waitForFunction(() => document.querySelectorAll('tr[data-person-id]').length === 1);
-    expect(squash(await row.textContent())).to.contain('Wren Ashcombe').and.to.contain(email);
+    expect(squash(await row.textContent()))
+      .to.contain('Wren Ashcombe')
+      .and.to.contain(email);
     await row.getByRole('combobox', { name: 'Role of Wren Ashcombe' }).click();
     await page.getByRole('option', { name: 'Reviewer' }).click();
     await page.getByText('Wren Ashcombe is now reviewer.').waitFor();
@@ -231,7 +233,9 @@ describe('e2e: Partner keys and Admin', function () {
     await backupRow.getByRole('button', { name: /^Restore…/ }).click();
     const dialog = page.getByRole('dialog', { name: 'Restore this backup?' });
     await dialog.waitFor();
-    expect(squash(await dialog.textContent())).to.contain('partner keys and their usage').and.to.contain('Whatever was done since then is lost');
+    expect(squash(await dialog.textContent()))
+      .to.contain('partner keys and their usage')
+      .and.to.contain('Whatever was done since then is lost');
     const replace = dialog.getByRole('button', { name: 'Replace everything' });
     expect(await replace.isDisabled()).to.equal(true);
     await dialog.getByLabel('Name of the backup to restore').fill(name.slice(0, -1));

@@ -31,7 +31,9 @@ async function signIn(page: Page, baseUrl: string, role: string, next: string): 
 
 /** The trait drawings the service worker's manifest lists for precaching, with their sizes. */
 async function precachedDrawings(page: Page, baseUrl: string): Promise<Array<{ url: string; bytes: number }>> {
-  const manifest = (await (await page.request.get(`${baseUrl}/ngsw.json`)).json()) as { assetGroups: Array<{ name: string; installMode: string; urls: string[] }> };
+  const manifest = (await (await page.request.get(`${baseUrl}/ngsw.json`)).json()) as {
+    assetGroups: Array<{ name: string; installMode: string; urls: string[] }>;
+  };
   const group = manifest.assetGroups.find((candidate) => candidate.urls.some((url) => url.startsWith('/illustrations/')));
   expect(group?.installMode, 'the drawings are fetched when the app is installed').to.equal('prefetch');
   const urls = (group?.urls ?? []).filter((url) => url.endsWith('.svg'));
@@ -75,13 +77,19 @@ async function demoSetId(page: Page, baseUrl: string): Promise<number> {
 
 /** Every drawing on the page has loaded (a broken one has no natural width). */
 async function brokenDrawings(page: Page): Promise<string[]> {
-  return page.locator('img[src^="/illustrations/"]').evaluateAll((images) =>
-    (images as HTMLImageElement[]).filter((image) => !image.complete || image.naturalWidth === 0).map((image) => image.getAttribute('src') ?? ''),
-  );
+  return page
+    .locator('img[src^="/illustrations/"]')
+    .evaluateAll((images) =>
+      (images as HTMLImageElement[]).filter((image) => !image.complete || image.naturalWidth === 0).map((image) => image.getAttribute('src') ?? ''),
+    );
 }
 
 async function waitForDrawings(page: Page): Promise<void> {
-  await page.waitForFunction(() => [...document.querySelectorAll<HTMLImageElement>('img[src^="/illustrations/"]')].every((image) => image.complete), undefined, { timeout: 10_000 });
+  await page.waitForFunction(
+    () => [...document.querySelectorAll<HTMLImageElement>('img[src^="/illustrations/"]')].every((image) => image.complete),
+    undefined,
+    { timeout: 10_000 },
+  );
 }
 
 describe('e2e: studying on a phone, online and then offline', function () {
@@ -178,7 +186,10 @@ describe('e2e: studying on a phone, online and then offline', function () {
       // The Study page still knows who is signed in and lists the set opened online.
       await page.goto(`${running.baseUrl}/study`);
       await page.locator(`[data-shared-set="${setId}"]`).waitFor({ timeout: 15_000 });
-      await page.locator(`[data-shared-set="${setId}"]`).getByRole('link', { name: /Drills/ }).tap();
+      await page
+        .locator(`[data-shared-set="${setId}"]`)
+        .getByRole('link', { name: /Drills/ })
+        .tap();
       await page.waitForURL(`${running.baseUrl}/study/${setId}/drill`);
       await page.locator('#question-heading').waitFor({ timeout: 15_000 });
 

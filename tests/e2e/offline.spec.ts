@@ -61,7 +61,10 @@ describe('e2e: sifting offline', function () {
     await waitForSift(page);
     // What came over the network came compressed: the scripts, the stylesheet and the edition bundle.
     expect(codings.get('/api/v1/editions/current/bundle')).to.be.oneOf(['br', 'gzip']);
-    expect([...codings.values()].filter((coding) => coding === 'none'), JSON.stringify([...codings])).to.deep.equal([]);
+    expect(
+      [...codings.values()].filter((coding) => coding === 'none'),
+      JSON.stringify([...codings]),
+    ).to.deep.equal([]);
     const href = await page.locator('link[rel="manifest"]').getAttribute('href');
     const manifest = (await (await page.request.get(new URL(href ?? '', running.baseUrl).href)).json()) as {
       name: string;

@@ -31,7 +31,10 @@ describe('e2e: accessibility and performance', function () {
     await page.locator('sv-shortlist .reasons li').first().waitFor();
     expect(await seriousViolations(page)).to.deep.equal([]);
     fs.mkdirSync(SCREENSHOT_DIR, { recursive: true });
-    await page.locator('sv-trait-picker .trait').first().screenshot({ path: path.join(SCREENSHOT_DIR, 'sift-help-card.png') });
+    await page
+      .locator('sv-trait-picker .trait')
+      .first()
+      .screenshot({ path: path.join(SCREENSHOT_DIR, 'sift-help-card.png') });
 
     // Full keyboard use: Tab reaches a chip, Space picks it, and focus is visible (common practice, no source).
     const chip = page.locator('#chip-bark-texture-plated [role="option"]');
@@ -100,7 +103,9 @@ describe('e2e: accessibility and performance', function () {
     const durations = await page.evaluate(() => performance.getEntriesByName('sylvasift:engine').map((entry) => entry.duration));
     expect(durations.length).to.be.at.least(taps.length);
     const middle = median(durations);
-    console.log(`      engine (rank + suggest) per chip change: median ${middle.toFixed(2)} ms, max ${Math.max(...durations).toFixed(2)} ms over ${durations.length} changes`);
+    console.log(
+      `      engine (rank + suggest) per chip change: median ${middle.toFixed(2)} ms, max ${Math.max(...durations).toFixed(2)} ms over ${durations.length} changes`,
+    );
     // One frame at 60 Hz is 16.7 ms (common practice, no source).
     expect(middle).to.be.at.most(16);
     await context.close();

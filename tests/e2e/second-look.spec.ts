@@ -110,7 +110,9 @@ describe('e2e: Second look and raising a query', function () {
 
     // Another student's query does not open for a learner; the page says so and offers their own list.
     const reviewerToken = await tokenFor(page.request, running.baseUrl, 'reviewer');
-    const all = (await (await page.request.get(`${running.baseUrl}/api/v1/queries?taxonId=quercus-rubra`, { headers: { Authorization: `Bearer ${reviewerToken}` } })).json()) as {
+    const all = (await (
+      await page.request.get(`${running.baseUrl}/api/v1/queries?taxonId=quercus-rubra`, { headers: { Authorization: `Bearer ${reviewerToken}` } })
+    ).json()) as {
       queries: QueryBody[];
     };
     const othersId = all.queries[0]?.id;
@@ -175,7 +177,9 @@ describe('e2e: Second look and raising a query', function () {
     expect(await seriousViolations(page)).to.deep.equal([]);
     await shoot(page, 'query-open-desktop');
 
-    await page.getByRole('textbox', { name: 'Answer', exact: true }).fill('Fours are not recorded for this species; bundles of two and three are usual. Check for a second species nearby.');
+    await page
+      .getByRole('textbox', { name: 'Answer', exact: true })
+      .fill('Fours are not recorded for this species; bundles of two and three are usual. Check for a second species nearby.');
     await page.getByRole('textbox', { name: 'Evidence' }).fill('Demo answer: herbarium sheets of the club collection.');
     await answerButton.click();
     await page.locator('.state-badge', { hasText: 'Answered' }).waitFor();
@@ -202,7 +206,9 @@ describe('e2e: Second look and raising a query', function () {
     expect(await page.locator('.outcome').textContent()).to.contain('kept as it is');
 
     const token = await tokenFor(page.request, running.baseUrl, 'reviewer');
-    const query = (await (await page.request.get(`${running.baseUrl}/api/v1/queries/${raisedId}`, { headers: { Authorization: `Bearer ${token}` } })).json()) as QueryBody;
+    const query = (await (
+      await page.request.get(`${running.baseUrl}/api/v1/queries/${raisedId}`, { headers: { Authorization: `Bearer ${token}` } })
+    ).json()) as QueryBody;
     expect(query).to.include({ state: 'settled', outcome: 'kept' });
     expect(query.answer).to.match(/^Fours are not recorded/);
     expect(query.evidence).to.equal('Demo answer: herbarium sheets of the club collection.');
@@ -228,7 +234,9 @@ describe('e2e: Second look and raising a query', function () {
     const { id } = (await raised.json()) as QueryBody;
 
     const curatorToken = await tokenFor(page.request, running.baseUrl, 'curator');
-    const cell = (await (await page.request.get(`${running.baseUrl}/api/v1/curation/cells/pinus-taeda/needle-length`, { headers: { Authorization: `Bearer ${curatorToken}` } })).json()) as {
+    const cell = (await (
+      await page.request.get(`${running.baseUrl}/api/v1/curation/cells/pinus-taeda/needle-length`, { headers: { Authorization: `Bearer ${curatorToken}` } })
+    ).json()) as {
       version: number;
     };
 
@@ -255,7 +263,9 @@ describe('e2e: Second look and raising a query', function () {
     await shoot(page, 'recode-numeric-dark-phone');
 
     const reviewerToken = await tokenFor(page.request, running.baseUrl, 'reviewer');
-    const still = (await (await page.request.get(`${running.baseUrl}/api/v1/queries/${id}`, { headers: { Authorization: `Bearer ${reviewerToken}` } })).json()) as QueryBody;
+    const still = (await (
+      await page.request.get(`${running.baseUrl}/api/v1/queries/${id}`, { headers: { Authorization: `Bearer ${reviewerToken}` } })
+    ).json()) as QueryBody;
     expect(still.state).to.equal('open');
   });
 
@@ -270,7 +280,11 @@ describe('e2e: Second look and raising a query', function () {
     const asCurator = { Authorization: `Bearer ${curatorToken}` };
     const cellUrl = `${base}/api/v1/curation/cells/quercus-rubra/bark-texture`;
 
-    const open = (await (await page.request.get(`${base}/api/v1/queries?state=open&taxonId=quercus-rubra&traitCode=bark-texture`, { headers: { Authorization: `Bearer ${reviewerToken}` } })).json()) as {
+    const open = (await (
+      await page.request.get(`${base}/api/v1/queries?state=open&taxonId=quercus-rubra&traitCode=bark-texture`, {
+        headers: { Authorization: `Bearer ${reviewerToken}` },
+      })
+    ).json()) as {
       queries: QueryBody[];
     };
     expect(open.queries, 'the demo seeds an open query on red oak bark').to.have.length(1);
@@ -300,7 +314,10 @@ describe('e2e: Second look and raising a query', function () {
     // Meanwhile a curator changes the same cell at the Matrix desk.
     const before = (await (await page.request.get(cellUrl, { headers: asCurator })).json()) as { version: number };
     const curatorValue = { usual: ['furrowed'], occasional: ['smooth'], rare: ['plated'] };
-    const put = await page.request.put(cellUrl, { headers: asCurator, data: { value: curatorValue, version: before.version, reason: 'Demo: a curator edit meanwhile.' } });
+    const put = await page.request.put(cellUrl, {
+      headers: asCurator,
+      data: { value: curatorValue, version: before.version, reason: 'Demo: a curator edit meanwhile.' },
+    });
     expect(put.status()).to.equal(200);
     const curatorVersion = ((await put.json()) as { version: number }).version;
 
@@ -338,7 +355,9 @@ describe('e2e: Second look and raising a query', function () {
     const cell = (await (await page.request.get(cellUrl, { headers: asCurator })).json()) as { value: unknown; version: number };
     expect(cell.value).to.deep.equal({ usual: ['smooth', 'furrowed'] });
     expect(cell.version).to.equal(curatorVersion + 1);
-    const query = (await (await page.request.get(`${base}/api/v1/queries/${queryId}`, { headers: { Authorization: `Bearer ${reviewerToken}` } })).json()) as QueryBody;
+    const query = (await (
+      await page.request.get(`${base}/api/v1/queries/${queryId}`, { headers: { Authorization: `Bearer ${reviewerToken}` } })
+    ).json()) as QueryBody;
     expect(query).to.include({ state: 'settled', outcome: 'recoded' });
     expect(pageErrors, pageErrors.join('\n')).to.deep.equal([]);
   });

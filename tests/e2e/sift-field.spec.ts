@@ -51,7 +51,9 @@ describe('e2e: the sift in the field (phone and laptop)', function () {
   async function settledScroll(page: Page): Promise<number> {
     let last = -1;
     for (let i = 0; i < 20; i++) {
-      const now = await page.evaluate(() => new Promise<number>((resolve) => requestAnimationFrame(() => requestAnimationFrame(() => resolve(window.scrollY)))));
+      const now = await page.evaluate(
+        () => new Promise<number>((resolve) => requestAnimationFrame(() => requestAnimationFrame(() => resolve(window.scrollY)))),
+      );
       if (now === last) return now;
       last = now;
     }
@@ -112,7 +114,9 @@ describe('e2e: the sift in the field (phone and laptop)', function () {
     // ...and a screen reader hears it.
     expect(await page.locator('sv-sift-page .announcement[aria-live="polite"]').textContent()).to.match(/^Shortlist: \d+ species; Red maple leads with \d+ %$/);
     await waitForLeader(page, 'acer-rubrum');
-    console.log(`      red maple sift on a phone: ${taps} taps (${RED_MAPLE.length} chips, ${openParts.size} part panels), ${manualScrolls} manual scrolls to reach a chip; scrollY after each pick moved by ${scrollShifts.join(', ')} px (scroll anchoring as Seen so far grows), chip moved 0 px`);
+    console.log(
+      `      red maple sift on a phone: ${taps} taps (${RED_MAPLE.length} chips, ${openParts.size} part panels), ${manualScrolls} manual scrolls to reach a chip; scrollY after each pick moved by ${scrollShifts.join(', ')} px (scroll anchoring as Seen so far grows), chip moved 0 px`,
+    );
     await expectNoSidewaysOverflow(page, 'the phone sift');
     expect(await seriousViolations(page)).to.deep.equal([]);
     expect(errors, errors.join('\n')).to.deep.equal([]);
@@ -128,7 +132,7 @@ describe('e2e: the sift in the field (phone and laptop)', function () {
     expect(before.scrollY).to.be.greaterThan(0);
     await chip.click();
     await page.locator('sv-seen-so-far mat-chip[data-trait="leaf-margin"]').waitFor();
-    expect(await settledScroll(page) - before.scrollY).to.be.within(0, 80);
+    expect((await settledScroll(page)) - before.scrollY).to.be.within(0, 80);
     expect(Math.abs((await chipTop(page, 'leaf-margin', 'serrate')) - before.chipTop)).to.be.at.most(1);
     expect(await page.evaluate(() => document.activeElement?.closest('mat-chip-option')?.id)).to.equal('chip-leaf-margin-serrate');
 
@@ -139,7 +143,7 @@ describe('e2e: the sift in the field (phone and laptop)', function () {
     await input.fill('8');
     await input.press('Enter');
     await page.locator('sv-seen-so-far mat-chip[data-trait="leaf-length"]').waitFor();
-    expect(await settledScroll(page) - beforeEnter.scrollY).to.be.within(0, 80);
+    expect((await settledScroll(page)) - beforeEnter.scrollY).to.be.within(0, 80);
     expect(Math.abs((await inputTop()) - beforeEnter.top)).to.be.at.most(1);
     expect(await page.evaluate(() => (document.activeElement as HTMLInputElement | null)?.name)).to.equal('leaf-length');
     await page.screenshot({ path: path.join(SCREENSHOT_DIR, 'sift-field-laptop.png') });
@@ -307,7 +311,10 @@ describe('e2e: the sift in the field (phone and laptop)', function () {
     const icon = await sifted.locator('.caution mat-icon').boundingBox();
     expect(icon?.width).to.be.at.least(24);
     const cautionText = 'A ranked shortlist is a suggestion, not a determination.';
-    const shown = await sifted.evaluate((text) => [...document.querySelectorAll('p')].filter((p) => p.textContent?.includes(text) && p.checkVisibility()).length, cautionText);
+    const shown = await sifted.evaluate(
+      (text) => [...document.querySelectorAll('p')].filter((p) => p.textContent?.includes(text) && p.checkVisibility()).length,
+      cautionText,
+    );
     expect(shown, 'the identification caution shows once on the sift page').to.equal(1);
   });
 
@@ -336,7 +343,9 @@ describe('e2e: the sift in the field (phone and laptop)', function () {
         ['laptop', LAPTOP],
       ] as const) {
         const page = await running.newPage({ ...options, colorScheme });
-        await page.goto(`${running.baseUrl}/sift?o=leaf-arrangement:opposite;leaf-lobing:palmately-lobed;leaf-margin:serrate;fruit-type:paired-samara&season=leaf-on&leeway=2`);
+        await page.goto(
+          `${running.baseUrl}/sift?o=leaf-arrangement:opposite;leaf-lobing:palmately-lobed;leaf-margin:serrate;fruit-type:paired-samara&season=leaf-on&leeway=2`,
+        );
         await waitForSift(page);
         await page.locator('#trait-leaf-margin').scrollIntoViewIfNeeded();
         await page.screenshot({ path: path.join(SCREENSHOT_DIR, `sift-field-${name}-${colorScheme}.png`) });

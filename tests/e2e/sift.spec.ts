@@ -143,7 +143,10 @@ describe('e2e: sifting a tree', function () {
     await page.locator('sv-seen-so-far mat-chip[data-trait="needles-per-fascicle"]').waitFor();
 
     await search.fill('peeling bark');
-    await page.getByRole('option', { name: /^Bark texture.*: Peeling/i }).first().waitFor();
+    await page
+      .getByRole('option', { name: /^Bark texture.*: Peeling/i })
+      .first()
+      .waitFor();
 
     // Look at next offers 3 to 5 traits, each with what its answers would leave.
     const suggestions = page.locator('sv-look-at-next .suggestions > li');

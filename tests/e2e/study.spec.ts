@@ -23,7 +23,9 @@ async function addSpecies(page: Page, typed: string, option: RegExp): Promise<vo
   await search.fill(typed);
   await page.getByRole('option', { name: option }).first().click();
   // the field is cleared on the page's next change detection: wait for it, then check
-  await page.waitForFunction((input) => (input as HTMLInputElement | null)?.value === '', await search.elementHandle(), { timeout: 3_000 }).catch(() => undefined);
+  await page
+    .waitForFunction((input) => (input as HTMLInputElement | null)?.value === '', await search.elementHandle(), { timeout: 3_000 })
+    .catch(() => undefined);
   expect(await search.inputValue()).to.equal('');
 }
 

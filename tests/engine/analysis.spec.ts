@@ -49,7 +49,12 @@ describe('diagnose', () => {
     const result = diagnose(compiled, 'pinus-strobus');
     expect(result.unseparated).to.deep.equal([]);
     const covered = new Set(result.traits.flatMap((item) => item.separates));
-    expect([...covered].sort()).to.deep.equal(compiled.taxa.map((info) => info.id).filter((id) => id !== 'pinus-strobus').sort());
+    expect([...covered].sort()).to.deep.equal(
+      compiled.taxa
+        .map((info) => info.id)
+        .filter((id) => id !== 'pinus-strobus')
+        .sort(),
+    );
     // needle bundles of 5 alone separate white pine from every other taxon here
     expect(result.traits.map((item) => item.trait)).to.deep.equal(['needles-per-fascicle']);
   });
@@ -87,11 +92,29 @@ describe('health', () => {
     // a twin of northern red oak whose only difference is bark, which is not coded for the red oak
     doc.taxa.push(taxon('quercus-falcata', structuredClone(doc.taxa[5].cells)));
     delete doc.taxa[5].cells['bark-texture'];
-    doc.traits.push({ code: 'crown-form', label: 'Crown form', part: 'form', kind: 'state', season: 'any', ease: 1, errorRate: 0.1, values: [{ code: 'vase', label: 'Vase' }] });
+    doc.traits.push({
+      code: 'crown-form',
+      label: 'Crown form',
+      part: 'form',
+      kind: 'state',
+      season: 'any',
+      ease: 1,
+      errorRate: 0.1,
+      values: [{ code: 'vase', label: 'Vase' }],
+    });
     // bark colour separates the two white oaks by usual value only: each shows the other's colour occasionally
     doc.traits.push({
-      code: 'bark-color', label: 'Bark colour', part: 'bark', kind: 'state', season: 'any', ease: 1, errorRate: 0.2,
-      values: [{ code: 'grey', label: 'Grey' }, { code: 'brown', label: 'Brown' }],
+      code: 'bark-color',
+      label: 'Bark colour',
+      part: 'bark',
+      kind: 'state',
+      season: 'any',
+      ease: 1,
+      errorRate: 0.2,
+      values: [
+        { code: 'grey', label: 'Grey' },
+        { code: 'brown', label: 'Brown' },
+      ],
     });
     for (const entry of doc.taxa) {
       entry.cells['crown-form'] = { usual: ['vase'] };
@@ -120,8 +143,17 @@ describe('health', () => {
   it('lists a trait that separates nothing even by usual values', () => {
     const doc = southernTreesMatrix();
     doc.traits.push({
-      code: 'bark-color', label: 'Bark colour', part: 'bark', kind: 'state', season: 'any', ease: 1, errorRate: 0.2,
-      values: [{ code: 'grey', label: 'Grey' }, { code: 'brown', label: 'Brown' }],
+      code: 'bark-color',
+      label: 'Bark colour',
+      part: 'bark',
+      kind: 'state',
+      season: 'any',
+      ease: 1,
+      errorRate: 0.2,
+      values: [
+        { code: 'grey', label: 'Grey' },
+        { code: 'brown', label: 'Brown' },
+      ],
     });
     // every taxon usually grey: the occasional brown of some is no separation at all
     for (const entry of doc.taxa) entry.cells['bark-color'] = { usual: ['grey'] };
@@ -209,8 +241,21 @@ describe('buildKey', () => {
     const foliage = compiled.traits[0];
     expect(foliage.code).to.equal('foliage');
     const identical: MatrixDocument = {
-      format: 'sylvasift-matrix', version: 1, title: 'Twins',
-      traits: [{ code: foliage.code, label: foliage.label, part: foliage.part, kind: foliage.kind, season: foliage.season, ease: foliage.ease, errorRate: foliage.codedErrorRate, values: foliage.values }],
+      format: 'sylvasift-matrix',
+      version: 1,
+      title: 'Twins',
+      traits: [
+        {
+          code: foliage.code,
+          label: foliage.label,
+          part: foliage.part,
+          kind: foliage.kind,
+          season: foliage.season,
+          ease: foliage.ease,
+          errorRate: foliage.codedErrorRate,
+          values: foliage.values,
+        },
+      ],
       taxa: [taxon('twin-a', { foliage: { usual: ['needle'] } }), taxon('twin-b', { foliage: { usual: ['needle'] } })],
     };
     const twins = buildKey(compileMatrix(identical), ['twin-a', 'twin-b']);
@@ -224,7 +269,13 @@ describe('buildKey', () => {
   });
 
   it('prints numbered couplets', () => {
-    const lines = keyToLines(compiled, buildKey(compiled, compiled.taxa.map((info) => info.id)));
+    const lines = keyToLines(
+      compiled,
+      buildKey(
+        compiled,
+        compiled.taxa.map((info) => info.id),
+      ),
+    );
     expect(lines[0]).to.match(/^1a\. Foliage form: .+ → \d+$|^1a\. Foliage form: .+ → .+$/);
     expect(lines[1]).to.match(/^1b\. /);
   });

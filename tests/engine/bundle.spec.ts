@@ -36,7 +36,9 @@ describe('bundle and lookups', () => {
     expect(cellOf(decoded, 'pinus-taeda', 'needle-length')).to.deep.equal({ min: 10, low: 12, high: 18, max: 23 });
     expect(cellOf(decoded, 'pinus-taeda', 'lobe-tips')).to.equal('inapplicable');
     expect(cellOf(decoded, 'quercus-alba', 'needles-per-fascicle')).to.equal('unknown');
-    expect(cellOf(decoded, 'quercus-alba', 'bark-texture')).to.deep.equal({ usual: ['scaly', 'plated'].sort((a, b) => ['smooth', 'furrowed', 'plated', 'scaly'].indexOf(a) - ['smooth', 'furrowed', 'plated', 'scaly'].indexOf(b)) });
+    expect(cellOf(decoded, 'quercus-alba', 'bark-texture')).to.deep.equal({
+      usual: ['scaly', 'plated'].sort((a, b) => ['smooth', 'furrowed', 'plated', 'scaly'].indexOf(a) - ['smooth', 'furrowed', 'plated', 'scaly'].indexOf(b)),
+    });
     expect(() => cellOf(decoded, 'no-such-tree', 'foliage')).to.throw(/no-such-tree/);
   });
 

@@ -134,27 +134,43 @@ const barkTexture: Trait = {
 /** Pines, oaks and a maple with glossary codes (values from memory, see the file comment). */
 export function southernTreesMatrix(): MatrixDocument {
   const pine = (id: string, bundle: Taxon['cells'][string], length: Taxon['cells'][string], bark: string[]): Taxon =>
-    taxon(id, {
-      foliage: { usual: ['needle'] },
-      'leaf-arrangement': { usual: ['alternate'] },
-      'needles-per-fascicle': bundle,
-      'needle-length': length,
-      'lobe-tips': 'inapplicable',
-      'bark-texture': { usual: bark },
-    }, { family: 'Pinaceae' });
+    taxon(
+      id,
+      {
+        foliage: { usual: ['needle'] },
+        'leaf-arrangement': { usual: ['alternate'] },
+        'needles-per-fascicle': bundle,
+        'needle-length': length,
+        'lobe-tips': 'inapplicable',
+        'bark-texture': { usual: bark },
+      },
+      { family: 'Pinaceae' },
+    );
   const broadleaf = (id: string, arrangement: string, tips: string[], bark: string[], prior?: number): Taxon =>
-    taxon(id, {
-      foliage: { usual: ['broad'] },
-      'leaf-arrangement': { usual: [arrangement] },
-      'lobe-tips': { usual: tips },
-      'terminal-bud': { usual: ['present'] },
-      'bark-texture': { usual: bark },
-    }, { family: arrangement === 'opposite' ? 'Sapindaceae' : 'Fagaceae', ...(prior !== undefined && { prior }) });
+    taxon(
+      id,
+      {
+        foliage: { usual: ['broad'] },
+        'leaf-arrangement': { usual: [arrangement] },
+        'lobe-tips': { usual: tips },
+        'terminal-bud': { usual: ['present'] },
+        'bark-texture': { usual: bark },
+      },
+      { family: arrangement === 'opposite' ? 'Sapindaceae' : 'Fagaceae', ...(prior !== undefined && { prior }) },
+    );
   return structuredClone<MatrixDocument>({
     format: 'sylvasift-matrix',
     version: 1,
     title: 'Southern trees (test)',
-    traits: [foliage, { ...arrangementTrait, errorRate: 0.05 }, fascicle, { ...needleLengthTrait, appliesWhen: { foliage: ['needle'] } }, lobeTips, terminalBud, barkTexture],
+    traits: [
+      foliage,
+      { ...arrangementTrait, errorRate: 0.05 },
+      fascicle,
+      { ...needleLengthTrait, appliesWhen: { foliage: ['needle'] } },
+      lobeTips,
+      terminalBud,
+      barkTexture,
+    ],
     taxa: [
       pine('pinus-taeda', { usual: [3] }, { min: 10, low: 12, high: 18, max: 23 }, ['plated', 'scaly']),
       pine('pinus-echinata', { usual: [2], occasional: [3] }, { min: 6, low: 7, high: 11, max: 13 }, ['plated', 'scaly']),

@@ -86,7 +86,10 @@ describe('ease of seeing first', () => {
     expect(['leaf', 'needle', 'twig', 'bark', 'form']).to.include(partOf.get(first?.trait ?? ''));
     expect(first?.reason).to.match(/always at hand/);
     // the check can fail: by expected gain per ease alone fruit type would lead
-    const byGain = suggest(reference, [], ALL).map((item) => ({ trait: item.trait, rate: item.expectedGain / (doc.traits.find((t) => t.code === item.trait)?.ease ?? 1) }));
+    const byGain = suggest(reference, [], ALL).map((item) => ({
+      trait: item.trait,
+      rate: item.expectedGain / (doc.traits.find((t) => t.code === item.trait)?.ease ?? 1),
+    }));
     byGain.sort((a, b) => b.rate - a.rate);
     expect(partOf.get(byGain[0]?.trait ?? '')).to.equal('fruit');
   });
@@ -130,7 +133,10 @@ function plainPreview(observations: Observation[], code: string): Array<{ answer
   return (trait.values ?? [])
     .map((value) => ({
       answer: value.code,
-      leaders: all.filter((c) => c.probability >= leader * SUGGEST_DEFAULTS.shortlistShare && codedWith(c.taxonId, value.code)).map((c) => c.taxonId).slice(0, 3),
+      leaders: all
+        .filter((c) => c.probability >= leader * SUGGEST_DEFAULTS.shortlistShare && codedWith(c.taxonId, value.code))
+        .map((c) => c.taxonId)
+        .slice(0, 3),
       remaining: core.filter((taxonId) => codedWith(taxonId, value.code)).length,
     }))
     .filter((line) => line.leaders.length > 0);
@@ -140,7 +146,13 @@ describe('previews that mean something', () => {
   const cases: Array<{ observations: Observation[]; trait: string }> = [
     { observations: [], trait: 'foliage' },
     { observations: [], trait: 'leaf-lobing' },
-    { observations: [{ trait: 'foliage', values: ['broad'] }, { trait: 'leaf-lobing', values: ['pinnately-lobed'] }], trait: 'lobe-tips' },
+    {
+      observations: [
+        { trait: 'foliage', values: ['broad'] },
+        { trait: 'leaf-lobing', values: ['pinnately-lobed'] },
+      ],
+      trait: 'lobe-tips',
+    },
     { observations: [{ trait: 'foliage', values: ['needle'] }], trait: 'needle-form' },
   ];
   for (const { observations, trait } of cases) {

@@ -87,7 +87,9 @@ describe('internals: normalising', () => {
     const doc = generateSyntheticMatrix({ taxa: 50, traits: 200, seed: 8, errorRate: 0, numericShare: 0, countShare: 0, conditionalShare: 0 });
     const compiled = compileMatrix(doc);
     const random = seededRandom(4);
-    const observations = compiled.traits.map((trait) => drawAnswer(compiled, trait.index, 0, random, 0.3)).filter((answer): answer is Observation => answer !== undefined);
+    const observations = compiled.traits
+      .map((trait) => drawAnswer(compiled, trait.index, 0, random, 0.3))
+      .filter((answer): answer is Observation => answer !== undefined);
     const scored = scoreObservations(compiled, prepareObservations(compiled, observations));
     expect(scored.linear).to.equal(false);
     expect(scored.maxLog).to.not.equal(0);
@@ -98,7 +100,13 @@ describe('internals: normalising', () => {
 
   it('counts conflicts per taxon', () => {
     const compiled = compileMatrix(arithmeticMatrix());
-    const scored = scoreObservations(compiled, prepareObservations(compiled, [{ trait: 'leaf-arrangement', values: ['whorled'] }, { trait: 'needle-length', value: 30 }]));
+    const scored = scoreObservations(
+      compiled,
+      prepareObservations(compiled, [
+        { trait: 'leaf-arrangement', values: ['whorled'] },
+        { trait: 'needle-length', value: 30 },
+      ]),
+    );
     // whorled is coded for nobody (d is unknown); 30 cm is outside a and c, inside b, unknown for d
     expect([...scored.conflicts]).to.deep.equal([2, 1, 2, 0]);
   });
@@ -108,9 +116,16 @@ describe('internals: texts', () => {
   it('formats numbers exactly as rounding to hundredths and printing the result would', () => {
     // the reference is the language's own number-to-string of the rounded value
     fc.assert(
-      fc.property(fc.oneof(fc.double({ noNaN: true }), fc.double({ min: 0, max: 1000, noNaN: true }), fc.integer({ min: 0, max: 100000 }).map((n) => n / 100)), (value) => {
-        expect(formatNumber(value)).to.equal(String(Math.round(value * 100) / 100));
-      }),
+      fc.property(
+        fc.oneof(
+          fc.double({ noNaN: true }),
+          fc.double({ min: 0, max: 1000, noNaN: true }),
+          fc.integer({ min: 0, max: 100000 }).map((n) => n / 100),
+        ),
+        (value) => {
+          expect(formatNumber(value)).to.equal(String(Math.round(value * 100) / 100));
+        },
+      ),
       { numRuns: 2000 },
     );
     expect([12, 12.5, 12.05, 0.004, 2.999, -1.5, 1e20].map(formatNumber)).to.deep.equal(['12', '12.5', '12.05', '0', '3', '-1.5', '100000000000000000000']);
@@ -170,19 +185,26 @@ describe('internals: conflict counting', () => {
 describe('internals: scoring ten columns at a time', () => {
   it('gives bit-identical products reading two taxa per word as reading one taxon at a time', () => {
     fc.assert(
-      fc.property(fc.integer({ min: 32, max: 700 }).map((half) => half * 2), fc.integer({ min: 1, max: 2 ** 31 - 1 }), (taxa, seed) => {
-        const random = seededRandom(seed);
-        const columns: ScoreColumn[] = Array.from({ length: 10 }, () => {
-          const size = 1 + Math.floor(random() * 300);
-          return { codes: Uint16Array.from({ length: taxa }, () => Math.floor(random() * size)), factor: Float64Array.from({ length: size }, () => random()) };
-        });
-        const from = Float64Array.from({ length: taxa }, () => random());
-        const one = new Float64Array(taxa);
-        const two = new Float64Array(taxa);
-        addTen(columns, 0, from, one, true);
-        addTenByPairs(columns, 0, from, two);
-        for (let t = 0; t < taxa; t++) expect(Object.is(one[t], two[t]), `taxon ${t}`).to.equal(true);
-      }),
+      fc.property(
+        fc.integer({ min: 32, max: 700 }).map((half) => half * 2),
+        fc.integer({ min: 1, max: 2 ** 31 - 1 }),
+        (taxa, seed) => {
+          const random = seededRandom(seed);
+          const columns: ScoreColumn[] = Array.from({ length: 10 }, () => {
+            const size = 1 + Math.floor(random() * 300);
+            return {
+              codes: Uint16Array.from({ length: taxa }, () => Math.floor(random() * size)),
+              factor: Float64Array.from({ length: size }, () => random()),
+            };
+          });
+          const from = Float64Array.from({ length: taxa }, () => random());
+          const one = new Float64Array(taxa);
+          const two = new Float64Array(taxa);
+          addTen(columns, 0, from, one, true);
+          addTenByPairs(columns, 0, from, two);
+          for (let t = 0; t < taxa; t++) expect(Object.is(one[t], two[t]), `taxon ${t}`).to.equal(true);
+        },
+      ),
       { numRuns: 60 },
     );
   });

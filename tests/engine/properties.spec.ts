@@ -4,7 +4,18 @@
  */
 import { expect } from 'chai';
 import fc from 'fast-check';
-import { compileMatrix, decodeBundle, encodeBundle, generateSyntheticMatrix, rank, seededRandom, suggest, type CompiledMatrix, type Observation, type RankResult } from '@shared/engine';
+import {
+  compileMatrix,
+  decodeBundle,
+  encodeBundle,
+  generateSyntheticMatrix,
+  rank,
+  seededRandom,
+  suggest,
+  type CompiledMatrix,
+  type Observation,
+  type RankResult,
+} from '@shared/engine';
 import { drawAnswer } from '../../scripts/lib/engine-sim';
 
 const RUNS = 60;
@@ -149,21 +160,21 @@ describe('rank properties on random matrices', () => {
         // a uniformly random permutation of 0..9; its restriction to 0..n-1 is a uniform permutation of n
         fc.shuffledSubarray(indices, { minLength: MAX_OBSERVATIONS, maxLength: MAX_OBSERVATIONS }),
         (options, seed, count, permutation) => {
-        // at least four traits, so most runs have two or more observations to reorder
-        const compiled = compiledFor({ ...options, traits: Math.max(options.traits, 4) });
-        const observations = observationsOf(compiled, seed % compiled.taxonCount, seed, count);
-        const shuffled = permutation.filter((i) => i < observations.length).map((i) => observations[i]);
-        expect(shuffled).to.have.deep.members(observations);
-        if (shuffled.some((observation, i) => observation !== observations[i])) reordered++;
-        const a = probabilityMap(everything(compiled, observations));
-        const b = probabilityMap(everything(compiled, shuffled));
-        for (const [id, probability] of a) expect(b.get(id)).to.be.closeTo(probability, 1e-12);
-        const orderA = everything(compiled, observations).candidates.map((candidate) => candidate.taxonId);
-        const orderB = everything(compiled, shuffled).candidates.map((candidate) => candidate.taxonId);
-        // same order except where probabilities tie to rounding
-        orderA.forEach((id, i) => {
-          if (orderB[i] !== id) expect(a.get(orderB[i])).to.be.closeTo(a.get(id) ?? -1, 1e-12);
-        });
+          // at least four traits, so most runs have two or more observations to reorder
+          const compiled = compiledFor({ ...options, traits: Math.max(options.traits, 4) });
+          const observations = observationsOf(compiled, seed % compiled.taxonCount, seed, count);
+          const shuffled = permutation.filter((i) => i < observations.length).map((i) => observations[i]);
+          expect(shuffled).to.have.deep.members(observations);
+          if (shuffled.some((observation, i) => observation !== observations[i])) reordered++;
+          const a = probabilityMap(everything(compiled, observations));
+          const b = probabilityMap(everything(compiled, shuffled));
+          for (const [id, probability] of a) expect(b.get(id)).to.be.closeTo(probability, 1e-12);
+          const orderA = everything(compiled, observations).candidates.map((candidate) => candidate.taxonId);
+          const orderB = everything(compiled, shuffled).candidates.map((candidate) => candidate.taxonId);
+          // same order except where probabilities tie to rounding
+          orderA.forEach((id, i) => {
+            if (orderB[i] !== id) expect(a.get(orderB[i])).to.be.closeTo(a.get(id) ?? -1, 1e-12);
+          });
         },
       ),
       { numRuns: RUNS },

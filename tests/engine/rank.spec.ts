@@ -1,6 +1,17 @@
 import { expect } from 'chai';
 import fc from 'fast-check';
-import { compileMatrix, generateSyntheticMatrix, ObservationError, prepareObservations, rank, seededRandom, type Candidate, type MatrixDocument, type Observation, type RankResult } from '@shared/engine';
+import {
+  compileMatrix,
+  generateSyntheticMatrix,
+  ObservationError,
+  prepareObservations,
+  rank,
+  seededRandom,
+  type Candidate,
+  type MatrixDocument,
+  type Observation,
+  type RankResult,
+} from '@shared/engine';
 import { exactProbability, scoreObservations } from '../../shared/engine/scoring';
 import { drawAnswer } from '../../scripts/lib/engine-sim';
 import { arithmeticMatrix, southernTreesMatrix, taxon } from './fixtures';
@@ -46,10 +57,14 @@ describe('rank: worked examples', () => {
     // With the arrangement answer above: A 0.9 × 0.3 = 0.27, B 0.05 × 1 = 0.05,
     // C 0.475 × 0.05 = 0.02375, D ⅓ × 0.3 = 0.1; sum 0.44375:
     // P(A) = 0.608451, P(B) = 0.112676, P(C) = 0.053521, P(D) = 0.225352.
-    const result = rank(compiled, [
-      { trait: 'leaf-arrangement', values: ['alternate'] },
-      { trait: 'needle-length', value: 20 },
-    ], { leeway: 0 });
+    const result = rank(
+      compiled,
+      [
+        { trait: 'leaf-arrangement', values: ['alternate'] },
+        { trait: 'needle-length', value: 20 },
+      ],
+      { leeway: 0 },
+    );
     const p = probabilities(result);
     expect(p['taxon-a']).to.be.closeTo(0.608451, 1e-6);
     expect(p['taxon-b']).to.be.closeTo(0.112676, 1e-6);
@@ -102,7 +117,10 @@ describe('rank: southern trees', () => {
     ]);
     expect(result.candidates[0].taxonId).to.equal('pinus-taeda');
     expect(result.candidates[0].reasons.map((reason) => [reason.trait, reason.status])).to.deep.equal([
-      ['foliage', 'matched'], ['needles-per-fascicle', 'matched'], ['needle-length', 'matched'], ['bark-texture', 'matched'],
+      ['foliage', 'matched'],
+      ['needles-per-fascicle', 'matched'],
+      ['needle-length', 'matched'],
+      ['bark-texture', 'matched'],
     ]);
   });
 
@@ -141,10 +159,14 @@ describe('rank: southern trees', () => {
   });
 
   it('sets aside an observation whose condition another observation contradicts', () => {
-    const both = rank(compiled, [
-      { trait: 'foliage', values: ['broad'] },
-      { trait: 'needles-per-fascicle', values: [3] },
-    ], { limit: 10 });
+    const both = rank(
+      compiled,
+      [
+        { trait: 'foliage', values: ['broad'] },
+        { trait: 'needles-per-fascicle', values: [3] },
+      ],
+      { limit: 10 },
+    );
     const foliageOnly = rank(compiled, [{ trait: 'foliage', values: ['broad'] }], { limit: 10 });
     expect(both.skipped).to.have.length(1);
     expect(both.skipped?.[0].trait).to.equal('needles-per-fascicle');
@@ -162,7 +184,10 @@ describe('rank: southern trees', () => {
   });
 
   it('respects leeway and limit', () => {
-    const observations = [{ trait: 'foliage', values: ['needle'] }, { trait: 'needles-per-fascicle', values: [3] }];
+    const observations = [
+      { trait: 'foliage', values: ['needle'] },
+      { trait: 'needles-per-fascicle', values: [3] },
+    ];
     const strict = rank(compiled, observations, { leeway: 0 });
     expect(strict.candidates.every((candidate) => candidate.conflicts === 0)).to.equal(true);
     expect(strict.ruledOut.every((candidate) => candidate.conflicts > 0)).to.equal(true);
@@ -177,7 +202,10 @@ describe('rank: southern trees', () => {
   });
 
   it('throws an ObservationError carrying the problems for invalid observations', () => {
-    expect(() => rank(compiled, [{ trait: 'foliage', values: ['feathers'] }])).to.throw(ObservationError).with.property('problems').that.has.length(1);
+    expect(() => rank(compiled, [{ trait: 'foliage', values: ['feathers'] }]))
+      .to.throw(ObservationError)
+      .with.property('problems')
+      .that.has.length(1);
     expect(() => rank(compiled, [], { leeway: -1 })).to.throw(/leeway/);
   });
 });
@@ -200,7 +228,10 @@ describe('rank: edge cases', () => {
   it('keeps the prior when every cell is unknown', () => {
     const doc = arithmeticMatrix();
     doc.taxa = [taxon('one', {}), taxon('two', {}, { prior: 3 })];
-    const result = rank(compileMatrix(doc), [{ trait: 'leaf-arrangement', values: ['opposite'] }, { trait: 'needle-length', value: 12 }]);
+    const result = rank(compileMatrix(doc), [
+      { trait: 'leaf-arrangement', values: ['opposite'] },
+      { trait: 'needle-length', value: 12 },
+    ]);
     expect(probabilities(result)['two']).to.be.closeTo(0.75, 1e-12);
     expect(result.candidates.every((candidate) => candidate.conflicts === 0)).to.equal(true);
   });
@@ -208,11 +239,15 @@ describe('rank: edge cases', () => {
   it('never returns NaN, even with zero prior weights or extreme evidence', () => {
     const compiled = compileMatrix(southernTreesMatrix());
     const zeroPriors = Object.fromEntries(compiled.taxa.map((info) => [info.id, 0]));
-    const result = rank(compiled, [
-      { trait: 'foliage', values: ['scale'] },
-      { trait: 'needle-length', value: 1e6 },
-      { trait: 'lobe-tips', values: ['spiny'] },
-    ], { priors: zeroPriors, limit: 100, leeway: 100 });
+    const result = rank(
+      compiled,
+      [
+        { trait: 'foliage', values: ['scale'] },
+        { trait: 'needle-length', value: 1e6 },
+        { trait: 'lobe-tips', values: ['spiny'] },
+      ],
+      { priors: zeroPriors, limit: 100, leeway: 100 },
+    );
     const total = result.candidates.reduce((sum, candidate) => sum + candidate.probability, 0);
     expect(result.candidates).to.have.length(7);
     for (const candidate of result.candidates) expect(Number.isFinite(candidate.probability)).to.equal(true);
@@ -228,7 +263,9 @@ describe('rank reusing its per-matrix scratch', () => {
         const random = seededRandom(seed);
         const draw = (): Observation[] => {
           const t = Math.floor(random() * compiled.taxonCount);
-          return compiled.traits.flatMap((trait) => (random() < 0.6 ? [drawAnswer(compiled, trait.index, t, random, 0.2)] : [])).filter((item): item is Observation => item !== undefined);
+          return compiled.traits
+            .flatMap((trait) => (random() < 0.6 ? [drawAnswer(compiled, trait.index, t, random, 0.2)] : []))
+            .filter((item): item is Observation => item !== undefined);
         };
         const first = draw();
         const second = draw();

@@ -4,7 +4,17 @@
  */
 import { expect } from 'chai';
 import fc from 'fast-check';
-import { compare, compileMatrix, diagnose, generateSyntheticMatrix, type Cell, type ComparisonResult, type MatrixDocument, type Trait, type TraitComparison } from '@shared/engine';
+import {
+  compare,
+  compileMatrix,
+  diagnose,
+  generateSyntheticMatrix,
+  type Cell,
+  type ComparisonResult,
+  type MatrixDocument,
+  type Trait,
+  type TraitComparison,
+} from '@shared/engine';
 import { relation, separatesCompletely } from '../../shared/engine/separation';
 import { loadReferenceMatrix } from '../../seeds/load-matrix';
 import { pairKey, separatingTraits } from '../data/matrix-facts';
@@ -43,17 +53,33 @@ function graded(doc: MatrixDocument, code: string): string {
 }
 
 describe('graded separation of value sets', () => {
-  it('counts disjoint usual values as only a usual separation when one shows the other\'s usual value occasionally', () => {
+  it("counts disjoint usual values as only a usual separation when one shows the other's usual value occasionally", () => {
     expect(graded(pair([{ usual: ['brown'], occasional: ['gray'] }, { usual: ['gray'] }]), 'bud-color')).to.equal('separates/usual');
     expect(graded(pair([{ usual: ['brown'] }, { usual: ['gray'], rare: ['brown'] }]), 'bud-color')).to.equal('separates/usual');
   });
 
   it('does not separate taxa that share a usual value and differ only in occasional ones', () => {
-    expect(graded(pair([{ usual: ['brown'], occasional: ['gray'] }, { usual: ['brown'], occasional: ['yellow'] }]), 'bud-color')).to.equal('overlaps');
+    expect(
+      graded(
+        pair([
+          { usual: ['brown'], occasional: ['gray'] },
+          { usual: ['brown'], occasional: ['yellow'] },
+        ]),
+        'bud-color',
+      ),
+    ).to.equal('overlaps');
   });
 
   it('separates reliably when no usual value of either is coded for the other, even if a less common value is shared', () => {
-    expect(graded(pair([{ usual: ['brown'], occasional: ['black'] }, { usual: ['gray'], rare: ['black'] }]), 'bud-color')).to.equal('separates/reliable');
+    expect(
+      graded(
+        pair([
+          { usual: ['brown'], occasional: ['black'] },
+          { usual: ['gray'], rare: ['black'] },
+        ]),
+        'bud-color',
+      ),
+    ).to.equal('separates/reliable');
     expect(graded(pair([{ usual: ['brown', 'reddish'] }, { usual: ['gray'], occasional: ['yellow'] }]), 'bud-color')).to.equal('separates/reliable');
   });
 
@@ -71,22 +97,62 @@ describe('graded separation of ranges', () => {
   const state: [Cell, Cell] = [{ usual: ['brown'] }, { usual: ['brown'] }];
 
   it('does not separate taxa whose typical ranges overlap and whose extremes alone differ', () => {
-    expect(graded(pair(state, [{ min: 4, low: 8, high: 12, max: 13 }, { min: 10, low: 11, high: 15, max: 25 }]), 'needle-length')).to.equal('overlaps');
+    expect(
+      graded(
+        pair(state, [
+          { min: 4, low: 8, high: 12, max: 13 },
+          { min: 10, low: 11, high: 15, max: 25 },
+        ]),
+        'needle-length',
+      ),
+    ).to.equal('overlaps');
   });
 
   it('treats touching typical ranges as overlapping', () => {
-    expect(graded(pair(state, [{ min: 4, low: 8, high: 12, max: 13 }, { min: 12, low: 12, high: 15, max: 20 }]), 'needle-length')).to.equal('overlaps');
+    expect(
+      graded(
+        pair(state, [
+          { min: 4, low: 8, high: 12, max: 13 },
+          { min: 12, low: 12, high: 15, max: 20 },
+        ]),
+        'needle-length',
+      ),
+    ).to.equal('overlaps');
   });
 
-  it('separates only usually when the typical ranges are disjoint but one reaches into the other\'s extremes', () => {
+  it("separates only usually when the typical ranges are disjoint but one reaches into the other's extremes", () => {
     // typical 8–12 and 14–20; b's recorded 11 cm lies in a's typical range
-    expect(graded(pair(state, [{ min: 6, low: 8, high: 12, max: 13 }, { min: 11, low: 14, high: 20, max: 22 }]), 'needle-length')).to.equal('separates/usual');
+    expect(
+      graded(
+        pair(state, [
+          { min: 6, low: 8, high: 12, max: 13 },
+          { min: 11, low: 14, high: 20, max: 22 },
+        ]),
+        'needle-length',
+      ),
+    ).to.equal('separates/usual');
   });
 
   it('separates reliably when the extremes overlap only outside both typical ranges', () => {
     // extremes 6–13.5 and 13–22 share 13–13.5 cm, which is typical for neither
-    expect(graded(pair(state, [{ min: 6, low: 8, high: 12, max: 13.5 }, { min: 13, low: 14, high: 20, max: 22 }]), 'needle-length')).to.equal('separates/reliable');
-    expect(graded(pair(state, [{ min: 6, low: 8, high: 12, max: 12.5 }, { min: 13, low: 14, high: 20, max: 22 }]), 'needle-length')).to.equal('separates/reliable');
+    expect(
+      graded(
+        pair(state, [
+          { min: 6, low: 8, high: 12, max: 13.5 },
+          { min: 13, low: 14, high: 20, max: 22 },
+        ]),
+        'needle-length',
+      ),
+    ).to.equal('separates/reliable');
+    expect(
+      graded(
+        pair(state, [
+          { min: 6, low: 8, high: 12, max: 12.5 },
+          { min: 13, low: 14, high: 20, max: 22 },
+        ]),
+        'needle-length',
+      ),
+    ).to.equal('separates/reliable');
   });
 });
 

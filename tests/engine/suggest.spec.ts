@@ -137,7 +137,10 @@ describe('suggest', () => {
 
   it('bands numeric traits for the preview', () => {
     const southern = compileMatrix(southernTreesMatrix());
-    const pines = [{ trait: 'foliage', values: ['needle'] }, { trait: 'needles-per-fascicle', values: [3] }];
+    const pines = [
+      { trait: 'foliage', values: ['needle'] },
+      { trait: 'needles-per-fascicle', values: [3] },
+    ];
     const length = suggest(southern, pines, { limit: 10 }).find((item) => item.trait === 'needle-length');
     expect(length).to.not.equal(undefined);
     expect(length?.preview.length).to.be.at.least(2);

@@ -103,7 +103,9 @@ describe('validateMatrix', () => {
     } catch (error) {
       expect(error).to.be.instanceOf(MatrixValidationError);
       expect((error as MatrixValidationError).problems[0].code).to.equal('unknown-value-in-cell');
-      expect((error as Error).message).to.contain('1 error').and.contain('glittery');
+      expect((error as Error).message)
+        .to.contain('1 error')
+        .and.contain('glittery');
     }
   });
 });
@@ -112,11 +114,13 @@ describe('validateObservations', () => {
   const compiled = compileMatrix(southernTreesMatrix());
 
   it('accepts well-formed observations', () => {
-    expect(validateObservations(compiled, [
-      { trait: 'foliage', values: ['needle'] },
-      { trait: 'needles-per-fascicle', values: [2, 3] },
-      { trait: 'needle-length', value: 6, unit: 'in' },
-    ])).to.deep.equal([]);
+    expect(
+      validateObservations(compiled, [
+        { trait: 'foliage', values: ['needle'] },
+        { trait: 'needles-per-fascicle', values: [2, 3] },
+        { trait: 'needle-length', value: 6, unit: 'in' },
+      ]),
+    ).to.deep.equal([]);
   });
 
   it('points at the offending item and field', () => {

@@ -24,7 +24,10 @@ export function findPostgresBin(): string | undefined {
   candidates.push('/usr/local/bin');
   const debian = '/usr/lib/postgresql';
   if (fs.existsSync(debian)) {
-    const versions = fs.readdirSync(debian).filter((v) => /^\d+$/.test(v)).sort((a, b) => Number(b) - Number(a));
+    const versions = fs
+      .readdirSync(debian)
+      .filter((v) => /^\d+$/.test(v))
+      .sort((a, b) => Number(b) - Number(a));
     candidates.push(...versions.map((v) => path.join(debian, v, 'bin')));
   }
   return candidates.find((dir) => fs.existsSync(path.join(dir, 'initdb')) && fs.existsSync(path.join(dir, 'pg_ctl')));
@@ -69,7 +72,15 @@ export async function startPostgresServer(): Promise<PostgresServer> {
   try {
     runAsServerUser(bin, 'initdb', ['-D', data, '-A', 'trust', '-U', 'postgres', '-E', 'UTF8', '--locale=C.UTF-8', '--no-sync']);
     // A test server keeps nothing: skip the disk flushes; TCP on loopback only, the socket in our own folder.
-    const options = [`-p ${port}`, `-k ${root}`, '-c listen_addresses=127.0.0.1', '-c fsync=off', '-c synchronous_commit=off', '-c full_page_writes=off', '-c max_connections=200'];
+    const options = [
+      `-p ${port}`,
+      `-k ${root}`,
+      '-c listen_addresses=127.0.0.1',
+      '-c fsync=off',
+      '-c synchronous_commit=off',
+      '-c full_page_writes=off',
+      '-c max_connections=200',
+    ];
     runAsServerUser(bin, 'pg_ctl', ['-D', data, '-o', options.join(' '), '-l', path.join(root, 'server.log'), '-w', '-t', '60', 'start']);
   } catch (error) {
     const log = path.join(root, 'server.log');

@@ -51,7 +51,15 @@ export function oneTimeLinkService(deps: OneTimeLinkDeps) {
       if (!account || !account.active) return;
       const token = newLinkToken();
       const expiresAt = new Date(Date.now() + config.passwordResetTtlMinutes * 60_000);
-      await insertOneTimeLink(models, { purpose: 'password-reset', tokenHash: hashToken(token), email: account.email, userId: account.id, role: null, createdBy: null, expiresAt });
+      await insertOneTimeLink(models, {
+        purpose: 'password-reset',
+        tokenHash: hashToken(token),
+        email: account.email,
+        userId: account.id,
+        role: null,
+        createdBy: null,
+        expiresAt,
+      });
       void mailer.send({
         to: account.email,
         subject: 'Reset your Sylvasift password',
@@ -84,13 +92,25 @@ export function oneTimeLinkService(deps: OneTimeLinkDeps) {
     },
 
     /** An admin invites someone by e-mail with the role they will have; the link creates the account. */
-    async invite(input: { email: string; role: Role; invitedBy: { userId: number; displayName: string } }): Promise<{ email: string; role: Role; expiresAt: Date }> {
+    async invite(input: {
+      email: string;
+      role: Role;
+      invitedBy: { userId: number; displayName: string };
+    }): Promise<{ email: string; role: Role; expiresAt: Date }> {
       checkEmail(input.email);
       if (await findAccountByEmail(models, input.email)) throw problems.conflict('An account with this e-mail address exists already.');
       const token = newLinkToken();
       const expiresAt = new Date(Date.now() + config.invitationTtlHours * 3600_000);
       const email = normaliseEmail(input.email);
-      await insertOneTimeLink(models, { purpose: 'invitation', tokenHash: hashToken(token), email, userId: null, role: input.role, createdBy: input.invitedBy.userId, expiresAt });
+      await insertOneTimeLink(models, {
+        purpose: 'invitation',
+        tokenHash: hashToken(token),
+        email,
+        userId: null,
+        role: input.role,
+        createdBy: input.invitedBy.userId,
+        expiresAt,
+      });
       const sent = await mailer.send({
         to: email,
         subject: 'You are invited to Sylvasift',

@@ -35,7 +35,12 @@ export interface SignedIn {
 /** Thrown while an address is locked after too many failed sign-ins; the route adds Retry-After. */
 export class SignInLocked extends HttpProblem {
   constructor(readonly retryAfterSeconds: number) {
-    super(429, 'sign-in-locked', 'Too many failed sign-ins', `Too many failed sign-ins for this address. Try again in ${Math.ceil(retryAfterSeconds / 60)} minutes.`);
+    super(
+      429,
+      'sign-in-locked',
+      'Too many failed sign-ins',
+      `Too many failed sign-ins for this address. Try again in ${Math.ceil(retryAfterSeconds / 60)} minutes.`,
+    );
   }
 }
 
@@ -124,7 +129,6 @@ export function sessionService(deps: SessionDeps) {
       if (!account) throw problems.notFound('This account no longer exists.');
       return account;
     },
-
   };
 }
 

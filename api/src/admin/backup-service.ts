@@ -28,7 +28,12 @@ interface ConnectionManager {
 /** Backups here copy SQLite files; on PostgreSQL the answer names the server's own tools for this database. */
 function notSqlite(sequelize: Sequelize): HttpProblem {
   if (!isPostgres(sequelize)) {
-    return new HttpProblem(501, 'not-implemented', 'Not implemented', 'Backups and restores here work on SQLite only; back up other databases with their own tools.');
+    return new HttpProblem(
+      501,
+      'not-implemented',
+      'Not implemented',
+      'Backups and restores here work on SQLite only; back up other databases with their own tools.',
+    );
   }
   const commands = postgresBackupCommands(sequelize);
   return new HttpProblem(
@@ -78,7 +83,10 @@ export function backupService(sequelize: Sequelize, backupDir: string, afterRest
     const result = new Map<string, string[]>();
     for (const { name } of tables) {
       const columns = await all(db, `PRAGMA ${schema}.table_info(${quoteIdentifier(String(name))})`);
-      result.set(String(name), columns.map((c) => String(c['name'])));
+      result.set(
+        String(name),
+        columns.map((c) => String(c['name'])),
+      );
     }
     return result;
   }
@@ -92,7 +100,8 @@ export function backupService(sequelize: Sequelize, backupDir: string, afterRest
       if (!other) throw notOurs(`The file has no table ${table}.`);
       if (other.join(',') !== columns.join(',')) throw notOurs(`The table ${table} in the file has other columns than this version expects.`);
     }
-    const names = async (schema: 'main' | 'snapshot') => (await all(db, `SELECT name FROM ${schema}.schema_migrations ORDER BY name`)).map((r) => String(r['name']));
+    const names = async (schema: 'main' | 'snapshot') =>
+      (await all(db, `SELECT name FROM ${schema}.schema_migrations ORDER BY name`)).map((r) => String(r['name']));
     const [applied, live] = await Promise.all([names('snapshot'), names('main')]);
     const expected = migrations.map((m) => m.name);
     if (applied.join(',') !== live.join(',') || !expected.every((name) => applied.includes(name))) {

@@ -6,8 +6,7 @@ export const ROLES: readonly Role[] = ['learner', 'coach', 'curator', 'reviewer'
 export const SCOPES: readonly Scope[] = ['lookup', 'identify'];
 
 export type Principal =
-  | { kind: 'user'; userId: number; email: string; displayName: string; role: Role }
-  | { kind: 'key'; keyId: number; ownerId: number; scopes: Scope[] };
+  { kind: 'user'; userId: number; email: string; displayName: string; role: Role } | { kind: 'key'; keyId: number; ownerId: number; scopes: Scope[] };
 
 export function isRole(value: unknown): value is Role {
   return typeof value === 'string' && (ROLES as readonly string[]).includes(value);

@@ -45,7 +45,11 @@ function assertComparable(edition: LoadedEdition, ids: readonly string[]): void 
     if (earlier !== undefined) invalid.push({ name: `/body/taxa/${index}`, reason: `"${id}" is already item ${earlier}; name each taxon once.` });
     else if (!edition.taxaById.has(id)) {
       const close = closeTaxa(edition.document.taxa, id);
-      invalid.push({ name: `/body/taxa/${index}`, reason: `There is no taxon "${id}" in edition ${edition.number}.${didYouMean(close)}`, suggestions: close.map(taxonReference) });
+      invalid.push({
+        name: `/body/taxa/${index}`,
+        reason: `There is no taxon "${id}" in edition ${edition.number}.${didYouMean(close)}`,
+        suggestions: close.map(taxonReference),
+      });
     }
     seenAt.set(id, earlier ?? index);
   });

@@ -59,7 +59,16 @@ async function setCell(deps: CurationDeps, actor: Actor, taxonId: string, traitC
     await recordAudit(
       deps.models,
       actor,
-      [{ entity: 'cell', entityKey: `${taxonId}/${traitCode}`, action: 'set', before: before.version === 0 ? null : before.value, after: change.value, reason: change.reason }],
+      [
+        {
+          entity: 'cell',
+          entityKey: `${taxonId}/${traitCode}`,
+          action: 'set',
+          before: before.version === 0 ? null : before.value,
+          after: change.value,
+          reason: change.reason,
+        },
+      ],
       transaction,
     );
     return { taxonId, traitCode, value: change.value, version };

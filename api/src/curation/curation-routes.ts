@@ -51,7 +51,13 @@ export function curationRoutes(deps: CurationDeps & { editions: EditionCatalog }
   router.post('/traits', async (req, res) => {
     const body = req.body as Body & { code: string; values?: Parameters<EntityService['createTrait']>[3] };
     const { code: _code, values: _values, ...fields } = withoutReason(body);
-    const trait = await entities.createTrait(actorOf(req.principal), body.code, fields as Parameters<EntityService['createTrait']>[2], body.values ?? [], body.reason);
+    const trait = await entities.createTrait(
+      actorOf(req.principal),
+      body.code,
+      fields as Parameters<EntityService['createTrait']>[2],
+      body.values ?? [],
+      body.reason,
+    );
     res.status(201).json(curatedTraitView(trait, trait.values));
   });
 
@@ -63,13 +69,24 @@ export function curationRoutes(deps: CurationDeps & { editions: EditionCatalog }
   router.post('/traits/:code/values', async (req, res) => {
     const body = req.body as Body & { code: string };
     const { code: _code, ...fields } = withoutReason(body);
-    const value = await entities.createValue(actorOf(req.principal), req.params['code'] as string, body.code, fields as Parameters<EntityService['createValue']>[3], body.reason);
+    const value = await entities.createValue(
+      actorOf(req.principal),
+      req.params['code'] as string,
+      body.code,
+      fields as Parameters<EntityService['createValue']>[3],
+      body.reason,
+    );
     res.status(201).json(curatedValueView(req.params['code'] as string, value));
   });
 
   router.patch('/traits/:code/values/:value', async (req, res) => {
     const body = req.body as Body;
-    res.json(curatedValueView(req.params['code'] as string, await entities.updateValue(actorOf(req.principal), req.params['code'] as string, req.params['value'] as string, withoutReason(body), body.reason)));
+    res.json(
+      curatedValueView(
+        req.params['code'] as string,
+        await entities.updateValue(actorOf(req.principal), req.params['code'] as string, req.params['value'] as string, withoutReason(body), body.reason),
+      ),
+    );
   });
 
   router.get('/audit', async (req, res) => {

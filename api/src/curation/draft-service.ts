@@ -31,7 +31,14 @@ async function summariseDraft({ models, editions }: DraftDeps): Promise<DraftSum
   const summary = summariseChanges(current?.document, draft);
   const found = curatedProblems(draft);
   const errors = found.filter((problem) => problem.severity === 'error');
-  return { basedOn: current?.number ?? null, summary, publishable: errors.length === 0 && hasChanges(summary), errors: errors.slice(0, 100), invalidCells: invalidCells(errors).slice(0, 100), warnings: found.length - errors.length };
+  return {
+    basedOn: current?.number ?? null,
+    summary,
+    publishable: errors.length === 0 && hasChanges(summary),
+    errors: errors.slice(0, 100),
+    invalidCells: invalidCells(errors).slice(0, 100),
+    warnings: found.length - errors.length,
+  };
 }
 
 /** The working matrix as the Matrix desk grid shows it: every live taxon and trait, every cell and its version. */
@@ -59,7 +66,12 @@ async function readWorkingMatrixView({ models }: DraftDeps, format: 'full' | 'pa
   const codes = document.traits.map((trait) => trait.code);
   const live = new Set(codes);
   const header = { basedOn: latest ?? null, traits: document.traits };
-  const names = (taxon: (typeof document.taxa)[number]) => ({ id: taxon.id, scientificName: taxon.scientificName, family: taxon.family, commonNames: taxon.commonNames });
+  const names = (taxon: (typeof document.taxa)[number]) => ({
+    id: taxon.id,
+    scientificName: taxon.scientificName,
+    family: taxon.family,
+    commonNames: taxon.commonNames,
+  });
   if (format === 'packed') {
     return {
       ...header,

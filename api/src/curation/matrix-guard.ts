@@ -25,7 +25,8 @@ export async function changeKeepingMatrixValid<T>(
   transaction: Transaction,
   what: string,
   change: () => Promise<T>,
-  refusal: (introduced: MatrixProblem[]) => HttpProblem = (introduced) => matrixInvalid(`${what} was not saved: ${introduced[0]?.message ?? 'it would leave the matrix with errors.'}`, introduced),
+  refusal: (introduced: MatrixProblem[]) => HttpProblem = (introduced) =>
+    matrixInvalid(`${what} was not saved: ${introduced[0]?.message ?? 'it would leave the matrix with errors.'}`, introduced),
 ): Promise<T> {
   const before = new Set((await currentErrors(models, transaction)).map(keyOf));
   const result = await change();

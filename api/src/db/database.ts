@@ -60,4 +60,3 @@ export async function openDatabase(databaseUrl: string, logger?: Logger): Promis
   await sequelize.query('PRAGMA foreign_keys = ON');
   return sequelize;
 }
-

@@ -12,9 +12,7 @@ function umzugFor(steps: readonly Step[], tableName: string, sequelize: Sequeliz
     context: { sequelize, queryInterface: sequelize.getQueryInterface(), models, config, logger },
     // Each storage needs its own model name, or the second silently shares the first's table.
     storage: new SequelizeStorage({ sequelize, tableName, modelName: tableName }),
-    logger: logger
-      ? { info: (m) => logger.info(m), warn: (m) => logger.warn(m), error: (m) => logger.error(m), debug: (m) => logger.debug(m) }
-      : undefined,
+    logger: logger ? { info: (m) => logger.info(m), warn: (m) => logger.warn(m), error: (m) => logger.error(m), debug: (m) => logger.debug(m) } : undefined,
   });
 }
 
@@ -29,7 +27,12 @@ export function createSeeder(sequelize: Sequelize, models: Models, config: SeedC
 }
 
 /** Brings the schema up to date, then runs the seeders this database has not had yet. */
-export async function prepareDatabase(sequelize: Sequelize, models: Models, config: SeedConfig, logger?: Logger): Promise<{ migrated: string[]; seeded: string[] }> {
+export async function prepareDatabase(
+  sequelize: Sequelize,
+  models: Models,
+  config: SeedConfig,
+  logger?: Logger,
+): Promise<{ migrated: string[]; seeded: string[] }> {
   const migrated = await createMigrator(sequelize, models, config, logger).up();
   const seeded = await createSeeder(sequelize, models, config, logger).up();
   return { migrated: migrated.map((m) => m.name), seeded: seeded.map((s) => s.name) };

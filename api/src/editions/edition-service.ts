@@ -41,14 +41,26 @@ async function publish(deps: EditionDeps, actor: Actor, request: { title: string
       check: (document) => assertPublishable(document, 'Nothing was published'),
       checkChanges: (summary, latest) => {
         if (latest !== null && !hasChanges(summary)) {
-          throw problems.conflict(`Nothing was published: the working matrix is the same as edition ${latest} (no taxon, trait or cell changed).`, { reason: 'no-changes', basedOn: latest });
+          throw problems.conflict(`Nothing was published: the working matrix is the same as edition ${latest} (no taxon, trait or cell changed).`, {
+            reason: 'no-changes',
+            basedOn: latest,
+          });
         }
       },
       published: (edition, transaction) =>
         recordAudit(
           deps.models,
           actor,
-          [{ entity: 'edition', entityKey: String(edition.number), action: 'publish', before: null, after: { title: edition.title, summary: edition.summary }, reason: request.reason }],
+          [
+            {
+              entity: 'edition',
+              entityKey: String(edition.number),
+              action: 'publish',
+              before: null,
+              after: { title: edition.title, summary: edition.summary },
+              reason: request.reason,
+            },
+          ],
           transaction,
         ),
     },

@@ -62,7 +62,12 @@ export interface PublishHooks {
  * Writes the working matrix as the next immutable, numbered edition, in one transaction. This is the
  * storage step only: `editionService(...).publish` adds the checks, the audit entry and the catalog refresh.
  */
-export async function snapshotWorkingMatrix(sequelize: Sequelize, models: MatrixModels & EditionModels, request: PublishRequest, hooks: PublishHooks = {}): Promise<PublishedEdition> {
+export async function snapshotWorkingMatrix(
+  sequelize: Sequelize,
+  models: MatrixModels & EditionModels,
+  request: PublishRequest,
+  hooks: PublishHooks = {},
+): Promise<PublishedEdition> {
   return writeTransaction(sequelize, async (transaction) => {
     const document = await readWorkingMatrix(models, { title: request.title, region: request.region }, transaction);
     hooks.check?.(document);

@@ -31,9 +31,7 @@ export async function listEditionHeaders(models: MatrixModels & EditionModels): 
 
 export async function findEditionHeader(models: MatrixModels & EditionModels, number: number): Promise<EditionHeader | undefined> {
   const row = await models.Edition.findByPk(number, { attributes: [...HEADER_FIELDS] });
-  return row
-    ? { number: row.number, title: row.title, publishedAt: row.publishedAt, publishedBy: row.publishedBy, summary: row.summary }
-    : undefined;
+  return row ? { number: row.number, title: row.title, publishedAt: row.publishedAt, publishedBy: row.publishedBy, summary: row.summary } : undefined;
 }
 
 /** The number of the newest edition, or undefined when nothing has been published. */

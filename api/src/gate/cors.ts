@@ -15,7 +15,16 @@ import type { KeyOriginsCache } from './key-origins-cache';
 /** Request headers a browser may send (Authorization carries the key). */
 export const CORS_ALLOWED_HEADERS = ['Authorization', 'Content-Type', 'Idempotency-Key', 'If-None-Match'];
 /** Response headers a browser page may read. */
-export const CORS_EXPOSED_HEADERS = ['Location', 'ETag', 'Retry-After', 'RateLimit', 'RateLimit-Policy', 'Idempotent-Replayed', 'X-Sylvasift-Edition', 'WWW-Authenticate'];
+export const CORS_EXPOSED_HEADERS = [
+  'Location',
+  'ETag',
+  'Retry-After',
+  'RateLimit',
+  'RateLimit-Policy',
+  'Idempotent-Replayed',
+  'X-Sylvasift-Edition',
+  'WWW-Authenticate',
+];
 /** How long a browser may keep a preflight answer, in seconds. */
 export const CORS_MAX_AGE_S = 600;
 

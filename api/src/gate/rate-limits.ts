@@ -69,7 +69,12 @@ export interface RateLimiters {
   anonymous: RequestHandler;
 }
 
-function limiter(stores: LimiterStores, name: string, options: Partial<Options> & Pick<Options, 'windowMs' | 'limit'>, detail: string): RateLimitRequestHandler {
+function limiter(
+  stores: LimiterStores,
+  name: string,
+  options: Partial<Options> & Pick<Options, 'windowMs' | 'limit'>,
+  detail: string,
+): RateLimitRequestHandler {
   return rateLimit({
     standardHeaders: 'draft-8',
     legacyHeaders: false,
@@ -110,7 +115,7 @@ export function createRateLimiters(config: LimitsConfig, stores: LimiterStores):
       return {
         limit: config.keyDailyQuota,
         remaining: open ? Math.max(config.keyDailyQuota - window.totalHits, 0) : config.keyDailyQuota,
-        resetsAt: open ? window.resetTime ?? null : null,
+        resetsAt: open ? (window.resetTime ?? null) : null,
       };
     },
     anonymousBundle: limiter(

@@ -14,6 +14,7 @@ export function stringField(body: unknown, name: string, options: { optional?: b
 /** Reads a route parameter that must be a positive integer id. */
 export function idParam(value: string | string[] | undefined, name = 'id'): number {
   const id = Number(value);
-  if (!Number.isInteger(id) || id < 1) throw problems.invalidInput(`${name} must be a positive integer.`, [{ name: `path.${name}`, reason: 'not a positive integer' }]);
+  if (!Number.isInteger(id) || id < 1)
+    throw problems.invalidInput(`${name} must be a positive integer.`, [{ name: `path.${name}`, reason: 'not a positive integer' }]);
   return id;
 }

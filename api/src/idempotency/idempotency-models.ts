@@ -14,7 +14,7 @@ export function defineIdempotencyModels(sequelize: Sequelize) {
     declare status: number | null;
     declare location: string | null;
     /** the answer's body, encrypted with a key derived from the Idempotency-Key (AES-256-GCM) */
-  declare body: unknown;
+    declare body: unknown;
     declare expiresAt: Date;
     declare createdAt: CreationOptional<Date>;
     declare updatedAt: CreationOptional<Date>;

@@ -19,7 +19,11 @@ export async function findAnswer(models: IdempotencyModels, caller: string, idem
  * Claims the key for a request being handled (no answer yet), first clearing expired records.
  * False when the caller already holds a live record for it (a request that came in at the same time).
  */
-export async function claimKey(models: IdempotencyModels, record: { caller: string; idempotencyKey: string; fingerprint: string; expiresAt: Date }, now: Date): Promise<boolean> {
+export async function claimKey(
+  models: IdempotencyModels,
+  record: { caller: string; idempotencyKey: string; fingerprint: string; expiresAt: Date },
+  now: Date,
+): Promise<boolean> {
   await models.IdempotencyRecord.destroy({ where: { expiresAt: { [Op.lte]: now } } });
   try {
     await models.IdempotencyRecord.create({ ...record, status: null, location: null, body: null });
@@ -31,8 +35,16 @@ export async function claimKey(models: IdempotencyModels, record: { caller: stri
 }
 
 /** Keeps the answer for the claimed key. */
-export async function keepAnswer(models: IdempotencyModels, caller: string, idempotencyKey: string, answer: { status: number; location: string | null; body: unknown }): Promise<void> {
-  await models.IdempotencyRecord.update({ status: answer.status, location: answer.location, body: answer.body }, { where: { caller, idempotencyKey, status: null } });
+export async function keepAnswer(
+  models: IdempotencyModels,
+  caller: string,
+  idempotencyKey: string,
+  answer: { status: number; location: string | null; body: unknown },
+): Promise<void> {
+  await models.IdempotencyRecord.update(
+    { status: answer.status, location: answer.location, body: answer.body },
+    { where: { caller, idempotencyKey, status: null } },
+  );
 }
 
 /** Frees a claimed key whose request was not answered with success, so it can be sent again. */

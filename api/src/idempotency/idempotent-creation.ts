@@ -40,7 +40,9 @@ function idempotencyKeyOf(req: Request): string | undefined {
   if (raw === undefined) return undefined;
   const value = raw.trim().replace(/^"(.*)"$/, '$1');
   if (!KEY_PATTERN.test(value)) {
-    throw problems.invalidInput('Idempotency-Key must be 1 to 255 visible ASCII characters (a UUID is a good choice).', [{ name: '/header/idempotency-key', reason: 'not a usable key' }]);
+    throw problems.invalidInput('Idempotency-Key must be 1 to 255 visible ASCII characters (a UUID is a good choice).', [
+      { name: '/header/idempotency-key', reason: 'not a usable key' },
+    ]);
   }
   return value;
 }
@@ -49,14 +51,21 @@ function idempotencyKeyOf(req: Request): string | undefined {
 function canonical(value: unknown): unknown {
   if (Array.isArray(value)) return value.map(canonical);
   if (value !== null && typeof value === 'object' && !Buffer.isBuffer(value)) {
-    return Object.fromEntries(Object.entries(value as Record<string, unknown>).sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0)).map(([k, v]) => [k, canonical(v)]));
+    return Object.fromEntries(
+      Object.entries(value as Record<string, unknown>)
+        .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
+        .map(([k, v]) => [k, canonical(v)]),
+    );
   }
   return value;
 }
 
 /** What the request asks for: method, path, query, body and uploaded files' contents. */
 function fingerprintOf(req: Request): string {
-  const files = ((req.files ?? []) as Array<{ fieldname: string; buffer: Buffer }>).map((file) => [file.fieldname, createHash('sha256').update(file.buffer).digest('hex')]);
+  const files = ((req.files ?? []) as Array<{ fieldname: string; buffer: Buffer }>).map((file) => [
+    file.fieldname,
+    createHash('sha256').update(file.buffer).digest('hex'),
+  ]);
   return sha256(JSON.stringify(canonical({ method: req.method, path: req.baseUrl + req.path, query: req.query, body: req.body ?? null, files })));
 }
 
@@ -95,7 +104,12 @@ export function idempotentCreation(models: IdempotencyModels, logger?: Logger): 
     if (earlier || !(await claimKey(models, { caller, idempotencyKey, fingerprint, expiresAt: new Date(now.getTime() + IDEMPOTENCY_TTL_MS) }, now))) {
       const held = earlier ?? (await findAnswer(models, caller, idempotencyKey, now));
       if (held && held.fingerprint !== fingerprint) {
-        throw new HttpProblem(422, 'idempotency-key-reused', 'Idempotency-Key used for another request', 'This Idempotency-Key was sent before with another request; use a new key for a new request.');
+        throw new HttpProblem(
+          422,
+          'idempotency-key-reused',
+          'Idempotency-Key used for another request',
+          'This Idempotency-Key was sent before with another request; use a new key for a new request.',
+        );
       }
       if (!held?.answer) throw problems.conflict('A request with this Idempotency-Key is still being handled; wait for its answer.');
       res.status(held.answer.status).set({ 'Idempotent-Replayed': 'true', 'Cache-Control': 'no-store' });

@@ -3,7 +3,20 @@
  * Pure and free of database, HTTP and Express imports, so the same code runs on the request thread
  * and in an identify worker (see identify-pool.ts).
  */
-import { rank, suggest, validateObservations, type Candidate, type CompiledMatrix, type InHand, type Observation, type ObservationProblem, type ObservingSeason, type Reason, type Suggestion, type Taxon } from '@shared/engine';
+import {
+  rank,
+  suggest,
+  validateObservations,
+  type Candidate,
+  type CompiledMatrix,
+  type InHand,
+  type Observation,
+  type ObservationProblem,
+  type ObservingSeason,
+  type Reason,
+  type Suggestion,
+  type Taxon,
+} from '@shared/engine';
 import { taxonReference } from '../taxa/taxon-views';
 
 export interface IdentifyRequest {
@@ -53,7 +66,13 @@ export interface SuggestionView {
   preview: Suggestion['preview'];
 }
 
-export const IDENTIFY_DEFAULTS = Object.freeze({ season: 'leaf-on' as ObservingSeason, leeway: 2, limit: 10, suggestions: 5, inHand: 'standing-tree' as InHand });
+export const IDENTIFY_DEFAULTS = Object.freeze({
+  season: 'leaf-on' as ObservingSeason,
+  leeway: 2,
+  limit: 10,
+  suggestions: 5,
+  inHand: 'standing-tree' as InHand,
+});
 
 /** What identify needs of an edition. */
 export interface IdentifyEdition {

@@ -4,7 +4,16 @@
  * Invariant: a plan with problems has no changes that may be written; a plan without problems
  * lists every cell the sheet changes exactly once, and leaves the matrix free of new errors.
  */
-import { isDiscreteCell, isNumericCell, type Cell, type DiscreteCell, type Frequency, type MatrixDocument, type MatrixProblem, type Trait } from '@shared/engine';
+import {
+  isDiscreteCell,
+  isNumericCell,
+  type Cell,
+  type DiscreteCell,
+  type Frequency,
+  type MatrixDocument,
+  type MatrixProblem,
+  type Trait,
+} from '@shared/engine';
 import { matrixErrors } from '../matrix/matrix-problems';
 import { codeRow, quoted } from './row-coding';
 import type { Sheet, SheetColumn, SheetProblem } from './sheet-reading';
@@ -56,8 +65,18 @@ export function planImport(sheet: Sheet, matrix: MatrixDocument): ImportPlan {
     const { row, fields } = sheetRow;
     const taxon = taxa.get(fields.taxon);
     const trait = traits.get(fields.trait);
-    if (!taxon) problems.push({ row, column: 'taxon', message: fields.taxon === '' ? 'taxon is missing.' : `There is no taxon ${quoted(fields.taxon)} in the working matrix.` });
-    if (!trait) problems.push({ row, column: 'trait', message: fields.trait === '' ? 'trait is missing.' : `There is no trait ${quoted(fields.trait)} in the working matrix.` });
+    if (!taxon)
+      problems.push({
+        row,
+        column: 'taxon',
+        message: fields.taxon === '' ? 'taxon is missing.' : `There is no taxon ${quoted(fields.taxon)} in the working matrix.`,
+      });
+    if (!trait)
+      problems.push({
+        row,
+        column: 'trait',
+        message: fields.trait === '' ? 'trait is missing.' : `There is no trait ${quoted(fields.trait)} in the working matrix.`,
+      });
     if (!taxon || !trait) continue;
 
     const key = `${taxon.id}\u0000${trait.code}`;

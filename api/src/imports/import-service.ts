@@ -30,23 +30,36 @@ export interface ImportReport extends ImportPlan {
 /** The file name as the audit log shows it: no folders, no control characters, not too long. */
 function displayName(originalName: string): string {
   const base = originalName.split(/[/\\]/).pop() ?? '';
+  // control characters are exactly what this strips from a file name before it reaches the audit log
   // eslint-disable-next-line no-control-regex
-  const clean = base.replace(/[\u0000-\u001f\u007f]/g, '').trim().slice(0, 120);
+  const withoutControls = base.replace(/[\u0000-\u001f\u007f]/g, '');
+  const clean = withoutControls.trim().slice(0, 120);
   return clean === '' ? 'sheet' : clean;
 }
 
 function assertSheetSent(file: UploadedSheet | undefined): asserts file is UploadedSheet {
-  if (!file || file.size === 0) throw problems.invalidInput('Send the sheet (CSV or XLSX) as the multipart field "file".', [{ name: '/body/file', reason: 'missing or empty' }]);
-  if (file.size > MAX_SHEET_BYTES) throw problems.payloadTooLarge(`An import sheet may be at most ${MAX_SHEET_BYTES / 1024 / 1024} MB; split it into several sheets.`);
+  if (!file || file.size === 0)
+    throw problems.invalidInput('Send the sheet (CSV or XLSX) as the multipart field "file".', [{ name: '/body/file', reason: 'missing or empty' }]);
+  if (file.size > MAX_SHEET_BYTES)
+    throw problems.payloadTooLarge(`An import sheet may be at most ${MAX_SHEET_BYTES / 1024 / 1024} MB; split it into several sheets.`);
 }
 
 function sheetRefused(file: string, found: SheetProblem[]): HttpProblem {
   const first = found[0];
   const where = first ? ` The first is at row ${first.row}${first.column ? `, column ${first.column}` : ''}: ${first.message}` : '';
-  return new HttpProblem(422, 'import-invalid', 'The sheet has problems', `Nothing was imported from ${file}: the sheet has ${found.length} problem${found.length === 1 ? '' : 's'}.${where}`, {
-    'invalid-params': found.map((problem) => ({ name: problem.column ? `row ${problem.row}, ${problem.column}` : `row ${problem.row}`, reason: problem.message })),
-    problems: found,
-  });
+  return new HttpProblem(
+    422,
+    'import-invalid',
+    'The sheet has problems',
+    `Nothing was imported from ${file}: the sheet has ${found.length} problem${found.length === 1 ? '' : 's'}.${where}`,
+    {
+      'invalid-params': found.map((problem) => ({
+        name: problem.column ? `row ${problem.row}, ${problem.column}` : `row ${problem.row}`,
+        reason: problem.message,
+      })),
+      problems: found,
+    },
+  );
 }
 
 /** Reads the sheet and reports what applying it would change; writes nothing. */
@@ -74,8 +87,15 @@ async function applyImport(deps: CurationDeps, actor: Actor, file: UploadedSheet
     await changeKeepingMatrixValid(deps.models, transaction, `The import of ${name}`, async () => {
       for (const change of plan.changes) {
         const version = versions.get(`${change.taxon}/${change.trait}`) ?? 0;
-        const written = await writeCellIfVersion(deps.sequelize, deps.models, { taxonId: change.taxon, traitCode: change.trait, value: change.after }, version, transaction);
-        if (written === undefined) throw problems.conflict(`The cell ${change.taxon} × ${change.trait} changed while ${name} was being imported. Nothing was imported; try again.`);
+        const written = await writeCellIfVersion(
+          deps.sequelize,
+          deps.models,
+          { taxonId: change.taxon, traitCode: change.trait, value: change.after },
+          version,
+          transaction,
+        );
+        if (written === undefined)
+          throw problems.conflict(`The cell ${change.taxon} × ${change.trait} changed while ${name} was being imported. Nothing was imported; try again.`);
       }
     });
 
@@ -84,8 +104,22 @@ async function applyImport(deps: CurationDeps, actor: Actor, file: UploadedSheet
       deps.models,
       actor,
       [
-        ...plan.changes.map((change) => ({ entity: 'cell' as const, entityKey: `${change.taxon}/${change.trait}`, action: 'set', before: change.before, after: change.after, reason })),
-        { entity: 'import' as const, entityKey: name, action: 'apply', before: null, after: { rows: plan.rows, changed: plan.changes.length, unchanged: plan.unchanged }, reason },
+        ...plan.changes.map((change) => ({
+          entity: 'cell' as const,
+          entityKey: `${change.taxon}/${change.trait}`,
+          action: 'set',
+          before: change.before,
+          after: change.after,
+          reason,
+        })),
+        {
+          entity: 'import' as const,
+          entityKey: name,
+          action: 'apply',
+          before: null,
+          after: { rows: plan.rows, changed: plan.changes.length, unchanged: plan.unchanged },
+          reason,
+        },
       ],
       transaction,
     );

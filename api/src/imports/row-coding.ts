@@ -17,7 +17,10 @@ const DECIMAL = /^[+-]?(\d+(\.\d*)?|\.\d+)$/;
 export type RowCoding = { cell: Cell } | { problems: SheetProblem[] };
 
 function listed(field: string): string[] {
-  return field.split(VALUE_SEPARATOR).map((value) => value.trim()).filter((value) => value !== '');
+  return field
+    .split(VALUE_SEPARATOR)
+    .map((value) => value.trim())
+    .filter((value) => value !== '');
 }
 
 /** Quotes a piece of a sheet for a message, cut short so a huge field cannot flood the answer. */
@@ -47,16 +50,20 @@ type Filled = (columns: readonly SheetColumn[]) => SheetColumn[];
 type ProblemAt = (column: SheetColumn, message: string) => SheetProblem;
 
 function codeRange(trait: Trait, filled: Filled, problem: ProblemAt, fields: Record<SheetColumn, string>): RowCoding {
-  const misplaced = filled(FREQUENCIES).map((column) => problem(column, `${trait.code} is a numeric trait: give min, low, high and max in ${trait.unit ?? 'cm'}, not values in ${column}.`));
+  const misplaced = filled(FREQUENCIES).map((column) =>
+    problem(column, `${trait.code} is a numeric trait: give min, low, high and max in ${trait.unit ?? 'cm'}, not values in ${column}.`),
+  );
   if (misplaced.length > 0) return { problems: misplaced };
-  if (filled(RANGE_COLUMNS).length === 0) return { problems: [problem('low', 'The row has no range and no state; give low and high (and min, max), or state unknown / inapplicable.')] };
+  if (filled(RANGE_COLUMNS).length === 0)
+    return { problems: [problem('low', 'The row has no range and no state; give low and high (and min, max), or state unknown / inapplicable.')] };
 
   const problems: SheetProblem[] = [];
   const number = (column: (typeof RANGE_COLUMNS)[number]): number | undefined => {
     const field = fields[column];
     if (field === '') return undefined;
     const value = DECIMAL.test(field) ? Number(field) : Number.NaN;
-    if (!Number.isFinite(value) || value < 0) problems.push(problem(column, `${column} must be a number of ${trait.unit ?? 'cm'} (0 or more), not ${quoted(field)}.`));
+    if (!Number.isFinite(value) || value < 0)
+      problems.push(problem(column, `${column} must be a number of ${trait.unit ?? 'cm'} (0 or more), not ${quoted(field)}.`));
     return value;
   };
   const low = number('low');
@@ -69,17 +76,27 @@ function codeRange(trait: Trait, filled: Filled, problem: ProblemAt, fields: Rec
   if (problems.length > 0 || min === undefined || low === undefined || high === undefined || max === undefined) return { problems };
 
   const range: NumericCell = { min, low, high, max };
-  const order: Array<[(typeof RANGE_COLUMNS)[number], (typeof RANGE_COLUMNS)[number]]> = [['min', 'low'], ['low', 'high'], ['high', 'max']];
+  const order: Array<[(typeof RANGE_COLUMNS)[number], (typeof RANGE_COLUMNS)[number]]> = [
+    ['min', 'low'],
+    ['low', 'high'],
+    ['high', 'max'],
+  ];
   for (const [smaller, larger] of order) {
-    if (range[smaller] > range[larger]) problems.push(problem(larger, `min ≤ low ≤ high ≤ max is broken: ${smaller} ${range[smaller]} is more than ${larger} ${range[larger]}.`));
+    if (range[smaller] > range[larger])
+      problems.push(problem(larger, `min ≤ low ≤ high ≤ max is broken: ${smaller} ${range[smaller]} is more than ${larger} ${range[larger]}.`));
   }
   return problems.length > 0 ? { problems } : { cell: range };
 }
 
 function codeValues(trait: Trait, filled: Filled, problem: ProblemAt, fields: Record<SheetColumn, string>): RowCoding {
-  const misplaced = filled(RANGE_COLUMNS).map((column) => problem(column, `${trait.code} is a ${trait.kind} trait: list its values in usual, occasional or rare, not a range in ${column}.`));
+  const misplaced = filled(RANGE_COLUMNS).map((column) =>
+    problem(column, `${trait.code} is a ${trait.kind} trait: list its values in usual, occasional or rare, not a range in ${column}.`),
+  );
   if (misplaced.length > 0) return { problems: misplaced };
-  if (filled(FREQUENCIES).length === 0) return { problems: [problem('usual', 'The row has no values and no state; list values in usual (occasional, rare), or give state unknown / inapplicable.')] };
+  if (filled(FREQUENCIES).length === 0)
+    return {
+      problems: [problem('usual', 'The row has no values and no state; list values in usual (occasional, rare), or give state unknown / inapplicable.')],
+    };
 
   const problems: SheetProblem[] = [];
   const codes = new Set((trait.values ?? []).map((value) => value.code));

@@ -92,20 +92,30 @@ async function xlsxTable(content: Buffer): Promise<Table | { problem: SheetProbl
 
 function tableToSheet(records: Array<[number, string[]]>, problems: SheetProblem[]): Sheet {
   const [header, ...data] = records;
-  if (!header) return { rows: [], problems: [...problems, { row: 1, column: null, message: `The sheet is empty; its first row must name the columns ${SHEET_COLUMNS.join(', ')}.` }] };
+  if (!header)
+    return {
+      rows: [],
+      problems: [...problems, { row: 1, column: null, message: `The sheet is empty; its first row must name the columns ${SHEET_COLUMNS.join(', ')}.` }],
+    };
 
   const [headerRow, headerFields] = header;
   const names = headerFields.map((name) => name.trim().toLowerCase());
   const known = new Set<string>(SHEET_COLUMNS);
   for (const name of names) {
-    if (name !== '' && !known.has(name)) problems.push({ row: headerRow, column: null, message: `The header has a column "${name}" this sheet layout does not use (columns: ${SHEET_COLUMNS.join(', ')}).` });
+    if (name !== '' && !known.has(name))
+      problems.push({
+        row: headerRow,
+        column: null,
+        message: `The header has a column "${name}" this sheet layout does not use (columns: ${SHEET_COLUMNS.join(', ')}).`,
+      });
   }
   for (const column of SHEET_COLUMNS) {
     const count = names.filter((name) => name === column).length;
     if (count === 0) problems.push({ row: headerRow, column, message: `The header has no "${column}" column.` });
     if (count > 1) problems.push({ row: headerRow, column, message: `The header names "${column}" ${count} times.` });
   }
-  if (data.length > MAX_SHEET_ROWS) problems.push({ row: data[MAX_SHEET_ROWS]![0], column: null, message: `A sheet may have at most ${MAX_SHEET_ROWS} data rows.` });
+  if (data.length > MAX_SHEET_ROWS)
+    problems.push({ row: data[MAX_SHEET_ROWS]![0], column: null, message: `A sheet may have at most ${MAX_SHEET_ROWS} data rows.` });
   if (problems.some((problem) => problem.row === headerRow)) return { rows: [], problems };
 
   const position = new Map(SHEET_COLUMNS.map((column) => [column, names.indexOf(column)]));

@@ -56,7 +56,10 @@ export function keyRoutes(keys: KeyService, quotaLeft: (keyId: number) => Promis
       scopes: scopesField(req.body),
       allowedOrigins: fieldOf(req.body, 'allowedOrigins') === undefined ? [] : allowedOriginsField(fieldOf(req.body, 'allowedOrigins')),
     });
-    res.status(201).location(`/api/v1/keys/${record.id}`).json({ ...keyView(record), key });
+    res
+      .status(201)
+      .location(`/api/v1/keys/${record.id}`)
+      .json({ ...keyView(record), key });
   });
 
   router.get('/', async (req, res) => {

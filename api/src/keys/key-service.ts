@@ -30,7 +30,11 @@ export function keyService(models: KeyModels, logger?: Logger) {
     const now = new Date();
     const today = utcDay(now);
     const since = utcDay(new Date(now.getTime() - (USAGE_DAYS - 1) * 86_400_000));
-    const usage = await usageSince(models, keys.map((k) => k.id), since);
+    const usage = await usageSince(
+      models,
+      keys.map((k) => k.id),
+      since,
+    );
     return keys.map((key) => {
       const days = usage.get(key.id) ?? [];
       return { ...key, usage: { today: days.find((d) => d.day === today)?.count ?? 0, days } };
@@ -45,7 +49,14 @@ export function keyService(models: KeyModels, logger?: Logger) {
       const scopes = [...new Set(input.scopes)].sort();
       if (scopes.length === 0) throw problems.invalidInput('Pick at least one scope.', [{ name: '/scopes', reason: 'must not be empty' }]);
       const key = newPartnerKey();
-      const record = await insertKey(models, { ownerId, name, prefix: key.slice(0, KEY_PREFIX.length + 6), keyHash: hashToken(key), scopes, allowedOrigins: input.allowedOrigins });
+      const record = await insertKey(models, {
+        ownerId,
+        name,
+        prefix: key.slice(0, KEY_PREFIX.length + 6),
+        keyHash: hashToken(key),
+        scopes,
+        allowedOrigins: input.allowedOrigins,
+      });
       return { key, record };
     },
 

@@ -44,7 +44,10 @@ const toKey = (row: KeyRow): PartnerKey => ({
   revokedAt: row.revokedAt,
 });
 
-export async function insertKey(models: KeyModels, key: { ownerId: number; name: string; prefix: string; keyHash: string; scopes: Scope[]; allowedOrigins: string[] }): Promise<PartnerKey> {
+export async function insertKey(
+  models: KeyModels,
+  key: { ownerId: number; name: string; prefix: string; keyHash: string; scopes: Scope[]; allowedOrigins: string[] },
+): Promise<PartnerKey> {
   const row = await models.PartnerKey.create({ ...key, revokedAt: null, revokedBy: null, lastUsedAt: null });
   return toKey(row);
 }

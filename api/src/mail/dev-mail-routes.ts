@@ -13,9 +13,16 @@ export function devMailRoutes(mailer: Mailer): Router {
       'application/json': () => res.json({ messages }),
       'text/html': () => {
         const items = messages
-          .map((m) => `<article><h2>${escapeHtml(m.subject)}</h2><p>To ${escapeHtml(m.envelope.to.join(', '))} · ${escapeHtml(m.receivedAt)}</p><pre>${escapeHtml(m.text)}</pre></article>`)
+          .map(
+            (m) =>
+              `<article><h2>${escapeHtml(m.subject)}</h2><p>To ${escapeHtml(m.envelope.to.join(', '))} · ${escapeHtml(m.receivedAt)}</p><pre>${escapeHtml(m.text)}</pre></article>`,
+          )
           .join('\n');
-        res.type('html').send(`<!doctype html><html lang="en"><meta charset="utf-8"><title>Mail caught in development</title><h1>Mail caught in development</h1>${items || '<p>No mail yet.</p>'}</html>`);
+        res
+          .type('html')
+          .send(
+            `<!doctype html><html lang="en"><meta charset="utf-8"><title>Mail caught in development</title><h1>Mail caught in development</h1>${items || '<p>No mail yet.</p>'}</html>`,
+          );
       },
     });
   });

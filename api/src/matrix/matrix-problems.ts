@@ -31,7 +31,13 @@ export function isCellProblem(problem: MatrixProblem): problem is MatrixProblem 
 }
 
 function problemList(errors: MatrixProblem[]) {
-  return errors.map((problem) => ({ code: problem.code, path: problem.path, message: problem.message, taxon: problem.taxon ?? null, trait: problem.trait ?? null }));
+  return errors.map((problem) => ({
+    code: problem.code,
+    path: problem.path,
+    message: problem.message,
+    taxon: problem.taxon ?? null,
+    trait: problem.trait ?? null,
+  }));
 }
 
 /** 422: the change would leave the matrix with errors; every error is listed. */
@@ -99,12 +105,21 @@ export function assertPublishable(document: MatrixDocument, what: string): void 
   if (errors.length === 0) return;
   const cells = invalidCells(errors);
   if (cells.length > 0) {
-    const named = cells.slice(0, 5).map((cell) => `${cell.taxonId} × ${cell.traitCode}`).join(', ');
-    throw new HttpProblem(409, 'invalid-cells', 'Some cells break the cell rules', `${what}: ${cells.length} cell${cells.length === 1 ? '' : 's'} must be fixed first (${named}${cells.length > 5 ? ', …' : ''}).`, {
-      'invalid-params': cells.map((cell) => ({ name: `${cell.taxonId}/${cell.traitCode}`, reason: cell.problems.join(' ') })),
-      cells,
-      errors: problemList(errors),
-    });
+    const named = cells
+      .slice(0, 5)
+      .map((cell) => `${cell.taxonId} × ${cell.traitCode}`)
+      .join(', ');
+    throw new HttpProblem(
+      409,
+      'invalid-cells',
+      'Some cells break the cell rules',
+      `${what}: ${cells.length} cell${cells.length === 1 ? '' : 's'} must be fixed first (${named}${cells.length > 5 ? ', …' : ''}).`,
+      {
+        'invalid-params': cells.map((cell) => ({ name: `${cell.taxonId}/${cell.traitCode}`, reason: cell.problems.join(' ') })),
+        cells,
+        errors: problemList(errors),
+      },
+    );
   }
   throw matrixInvalid(`${what}: the matrix has ${errors.length} error${errors.length === 1 ? '' : 's'}. ${errors[0]?.message ?? ''}`.trim(), errors);
 }

@@ -53,9 +53,7 @@ export async function insertMatrixDocument(models: MatrixModels, doc: MatrixDocu
     { transaction },
   );
   await models.Cell.bulkCreate(
-    doc.taxa.flatMap((taxon) =>
-      Object.entries(taxon.cells).map(([traitCode, value]) => ({ taxonId: taxon.id, traitCode, value })),
-    ),
+    doc.taxa.flatMap((taxon) => Object.entries(taxon.cells).map(([traitCode, value]) => ({ taxonId: taxon.id, traitCode, value }))),
     { transaction },
   );
   await models.InseparablePair.bulkCreate(
@@ -67,8 +65,22 @@ export async function insertMatrixDocument(models: MatrixModels, doc: MatrixDocu
 /** Reads the working matrix (retired taxa and traits left out) as a matrix document. */
 export async function readWorkingMatrix(models: MatrixModels, meta: { title: string; region?: string }, transaction?: Transaction): Promise<MatrixDocument> {
   // One read after another: in a transaction they share one connection, and a PostgreSQL connection runs one query at a time.
-  const traitRows = await models.Trait.findAll({ where: { retired: false }, order: [['position', 'ASC'], ['code', 'ASC']], transaction });
-  const valueRows = await models.TraitValue.findAll({ where: { retired: false }, order: [['position', 'ASC'], ['id', 'ASC']], transaction });
+  const traitRows = await models.Trait.findAll({
+    where: { retired: false },
+    order: [
+      ['position', 'ASC'],
+      ['code', 'ASC'],
+    ],
+    transaction,
+  });
+  const valueRows = await models.TraitValue.findAll({
+    where: { retired: false },
+    order: [
+      ['position', 'ASC'],
+      ['id', 'ASC'],
+    ],
+    transaction,
+  });
   const taxonRows = await models.Taxon.findAll({ where: { retired: false }, order: [['id', 'ASC']], transaction });
   const cellRows = await models.Cell.findAll({ order: [['id', 'ASC']], transaction });
   const pairRows = await models.InseparablePair.findAll({ order: [['id', 'ASC']], transaction });

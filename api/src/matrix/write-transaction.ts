@@ -21,6 +21,9 @@ export function writeTransaction<T>(sequelize: Sequelize, work: (transaction: Tr
         return work(transaction);
       }),
     );
-  queues.set(sequelize, next.catch(() => undefined));
+  queues.set(
+    sequelize,
+    next.catch(() => undefined),
+  );
   return next;
 }

@@ -53,7 +53,14 @@ export function queryService(deps: QueryDeps) {
   }
 
   /** Moves a query in a transaction, records who did it, then mails the people following it. */
-  async function move(actor: User, id: number, action: QueryAction, from: QueryState[], note: string | null, write: (transaction: Transaction) => Promise<void>): Promise<CellQuery> {
+  async function move(
+    actor: User,
+    id: number,
+    action: QueryAction,
+    from: QueryState[],
+    note: string | null,
+    write: (transaction: Transaction) => Promise<void>,
+  ): Promise<CellQuery> {
     const query = await sequelize.transaction(async (transaction) => {
       // PostgreSQL: hold the query's row until commit, so two moves of one query cannot both pass the check (SQLite ignores row locks; it has one writer).
       await models.Query.findByPk(id, { attributes: ['id'], lock: transaction.LOCK.UPDATE, transaction });
@@ -107,7 +114,13 @@ export function queryService(deps: QueryDeps) {
     /** A reviewer answers with evidence; an answered query may be answered again until it is settled. */
     answer(actor: User, id: number, input: { answer: string; evidence: string | null }): Promise<CellQuery> {
       return move(actor, id, 'answered', ['open', 'answered'], input.answer, async (transaction) => {
-        const moved = await moveQuery(models, id, ['open', 'answered'], { state: 'answered', answer: input.answer, evidence: input.evidence, answeredBy: actor.userId }, transaction);
+        const moved = await moveQuery(
+          models,
+          id,
+          ['open', 'answered'],
+          { state: 'answered', answer: input.answer, evidence: input.evidence, answeredBy: actor.userId },
+          transaction,
+        );
         if (!moved) throw problems.conflict(`Query ${id} changed while you answered it.`);
       });
     },
@@ -115,7 +128,13 @@ export function queryService(deps: QueryDeps) {
     /** Settles an answered query, keeping the cell as it is. */
     settle(actor: User, id: number, note: string | null): Promise<CellQuery> {
       return move(actor, id, 'settled', ['answered'], note, async (transaction) => {
-        const moved = await moveQuery(models, id, ['answered'], { state: 'settled', outcome: 'kept', settledBy: actor.userId, settledAt: new Date() }, transaction);
+        const moved = await moveQuery(
+          models,
+          id,
+          ['answered'],
+          { state: 'settled', outcome: 'kept', settledBy: actor.userId, settledAt: new Date() },
+          transaction,
+        );
         if (!moved) throw problems.conflict(`Query ${id} changed while you settled it.`);
       });
     },
@@ -132,7 +151,13 @@ export function queryService(deps: QueryDeps) {
         reason: `Query ${id}: ${change.reason}`,
       });
       const query = await move(actor, id, 'recoded', ['open', 'answered'], change.reason, async (transaction) => {
-        const moved = await moveQuery(models, id, ['open', 'answered'], { state: 'settled', outcome: 'recoded', settledBy: actor.userId, settledAt: new Date() }, transaction);
+        const moved = await moveQuery(
+          models,
+          id,
+          ['open', 'answered'],
+          { state: 'settled', outcome: 'recoded', settledBy: actor.userId, settledAt: new Date() },
+          transaction,
+        );
         if (!moved) throw problems.conflict(`Query ${id} changed while you recoded it.`);
       });
       return { query, cell };

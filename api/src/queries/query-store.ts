@@ -37,7 +37,11 @@ export interface QueryFilter {
   raisedBy?: number;
 }
 
-export async function insertQuery(models: MatrixModels & AccountModels & QueryModels, query: { taxonId: string; traitCode: string; note: string; raisedBy: number }, transaction: Transaction): Promise<number> {
+export async function insertQuery(
+  models: MatrixModels & AccountModels & QueryModels,
+  query: { taxonId: string; traitCode: string; note: string; raisedBy: number },
+  transaction: Transaction,
+): Promise<number> {
   const row = await models.Query.create(
     { ...query, state: 'open', answer: null, evidence: null, answeredBy: null, outcome: null, settledBy: null, settledAt: null },
     { transaction },
@@ -45,7 +49,11 @@ export async function insertQuery(models: MatrixModels & AccountModels & QueryMo
   return row.id;
 }
 
-export async function insertEvent(models: MatrixModels & AccountModels & QueryModels, event: { queryId: number; actorId: number; action: QueryAction; note: string | null }, transaction: Transaction): Promise<void> {
+export async function insertEvent(
+  models: MatrixModels & AccountModels & QueryModels,
+  event: { queryId: number; actorId: number; action: QueryAction; note: string | null },
+  transaction: Transaction,
+): Promise<void> {
   await models.QueryEvent.create(event, { transaction });
 }
 
@@ -54,17 +62,36 @@ export async function moveQuery(
   models: MatrixModels & AccountModels & QueryModels,
   id: number,
   from: QueryState[],
-  changes: Partial<{ state: QueryState; answer: string; evidence: string | null; answeredBy: number; outcome: QueryOutcome; settledBy: number; settledAt: Date }>,
+  changes: Partial<{
+    state: QueryState;
+    answer: string;
+    evidence: string | null;
+    answeredBy: number;
+    outcome: QueryOutcome;
+    settledBy: number;
+    settledAt: Date;
+  }>,
   transaction: Transaction,
 ): Promise<boolean> {
   const [changed] = await models.Query.update(changes, { where: { id, state: { [Op.in]: from } }, transaction });
   return changed === 1;
 }
 
-export async function readQueries(models: MatrixModels & AccountModels & QueryModels, filter: QueryFilter & { id?: number }, transaction?: Transaction): Promise<CellQuery[]> {
+export async function readQueries(
+  models: MatrixModels & AccountModels & QueryModels,
+  filter: QueryFilter & { id?: number },
+  transaction?: Transaction,
+): Promise<CellQuery[]> {
   const where: Record<string, unknown> = {};
   for (const [key, value] of Object.entries(filter)) if (value !== undefined) where[key] = value;
-  const rows = await models.Query.findAll({ where, order: [['createdAt', 'ASC'], ['id', 'ASC']], transaction });
+  const rows = await models.Query.findAll({
+    where,
+    order: [
+      ['createdAt', 'ASC'],
+      ['id', 'ASC'],
+    ],
+    transaction,
+  });
   if (rows.length === 0) return [];
   const events = await models.QueryEvent.findAll({ where: { queryId: { [Op.in]: rows.map((r) => r.id) } }, order: [['id', 'ASC']], transaction });
   const actorIds = [...new Set(events.map((e) => e.actorId))];
@@ -91,7 +118,11 @@ export async function readQueries(models: MatrixModels & AccountModels & QueryMo
   }));
 }
 
-export async function cellExists(models: MatrixModels & AccountModels & QueryModels, taxonId: string, traitCode: string): Promise<{ taxon: boolean; trait: boolean }> {
+export async function cellExists(
+  models: MatrixModels & AccountModels & QueryModels,
+  taxonId: string,
+  traitCode: string,
+): Promise<{ taxon: boolean; trait: boolean }> {
   const [taxon, trait] = await Promise.all([models.Taxon.findByPk(taxonId), models.Trait.findByPk(traitCode)]);
   return { taxon: Boolean(taxon && !taxon.retired), trait: Boolean(trait && !trait.retired) };
 }

@@ -2,7 +2,17 @@ import type { Sequelize } from 'sequelize';
 import type { Principal } from '../auth/principal';
 import { problems, type InvalidParam } from '../http/problem';
 import { writeTransaction } from '../matrix/write-transaction';
-import { deleteStudySet, findTaxa, insertStudySet, readStudySets, replaceTaxa, updateStudySet, type StudyData, type StudySet, type StudySetFields } from './study-store';
+import {
+  deleteStudySet,
+  findTaxa,
+  insertStudySet,
+  readStudySets,
+  replaceTaxa,
+  updateStudySet,
+  type StudyData,
+  type StudySet,
+  type StudySetFields,
+} from './study-store';
 
 type User = Extract<Principal, { kind: 'user' }>;
 
@@ -24,7 +34,8 @@ const notVisible = (id: number) => problems.notFound(`There is no study set ${id
  */
 function speciesProblems(ids: string[], known: Map<string, { retired: boolean }>): InvalidParam[] {
   if (ids.length === 0) return [{ name: '/taxa', reason: 'a study set needs at least one species' }];
-  if (ids.length > MAX_STUDY_SET_TAXA) return [{ name: '/taxa', reason: `a study set holds at most ${MAX_STUDY_SET_TAXA} species; this list has ${ids.length}` }];
+  if (ids.length > MAX_STUDY_SET_TAXA)
+    return [{ name: '/taxa', reason: `a study set holds at most ${MAX_STUDY_SET_TAXA} species; this list has ${ids.length}` }];
   const firstAt = new Map<string, number>();
   const invalid: InvalidParam[] = [];
   ids.forEach((id, index) => {

@@ -46,7 +46,12 @@ export async function findTaxa(data: StudyData, ids: string[], transaction?: Tra
   return new Map(rows.map((row) => [row.id, { retired: row.retired }]));
 }
 
-export async function insertStudySet(data: StudyData, set: StudySetFields & { ownerId: number }, taxonIds: string[], transaction: Transaction): Promise<number> {
+export async function insertStudySet(
+  data: StudyData,
+  set: StudySetFields & { ownerId: number },
+  taxonIds: string[],
+  transaction: Transaction,
+): Promise<number> {
   const row = await data.StudySet.create(
     { name: set.name, eventName: set.event, eventDate: set.eventDate, notes: set.notes, shared: set.shared, ownerId: set.ownerId },
     { transaction },
@@ -79,18 +84,36 @@ export async function readStudySets(data: StudyData, filter: { id?: number; owne
   const where: Record<string, unknown> = {};
   if (filter.id !== undefined) where['id'] = filter.id;
   if (filter.ownerId !== undefined) where['ownerId'] = filter.ownerId;
-  const sets = await data.StudySet.findAll({ where, order: [['updatedAt', 'DESC'], ['id', 'DESC']], transaction });
+  const sets = await data.StudySet.findAll({
+    where,
+    order: [
+      ['updatedAt', 'DESC'],
+      ['id', 'DESC'],
+    ],
+    transaction,
+  });
   if (sets.length === 0) return [];
 
   const setIds = sets.map((s) => s.id);
-  const links = await data.StudySetTaxon.findAll({ where: { studySetId: { [Op.in]: setIds } }, order: [['studySetId', 'ASC'], ['position', 'ASC']], transaction });
+  const links = await data.StudySetTaxon.findAll({
+    where: { studySetId: { [Op.in]: setIds } },
+    order: [
+      ['studySetId', 'ASC'],
+      ['position', 'ASC'],
+    ],
+    transaction,
+  });
   const taxa = await data.Taxon.findAll({
     where: { id: { [Op.in]: [...new Set(links.map((l) => l.taxonId))] } },
     attributes: ['id', 'scientificName', 'commonNames', 'retired'],
     transaction,
   });
   const species = new Map(taxa.map((t) => [t.id, { id: t.id, scientificName: t.scientificName, commonNames: t.commonNames, retired: t.retired }]));
-  const owners = await data.User.findAll({ where: { id: { [Op.in]: [...new Set(sets.map((s) => s.ownerId))] } }, attributes: ['id', 'displayName'], transaction });
+  const owners = await data.User.findAll({
+    where: { id: { [Op.in]: [...new Set(sets.map((s) => s.ownerId))] } },
+    attributes: ['id', 'displayName'],
+    transaction,
+  });
   const ownerNames = new Map(owners.map((o) => [o.id, o.displayName]));
 
   return sets.map((set) => ({

@@ -150,7 +150,11 @@ async function describePublishedTaxon(deps: LookupDeps, id: string): Promise<Tax
     },
     traits: codedTraits(taxon, edition.document.traits),
     lookAlikes,
-    diagnostic: diagnoseAmongLookAlikes(edition, taxon.id, lookAlikes.map((other) => other.id)),
+    diagnostic: diagnoseAmongLookAlikes(
+      edition,
+      taxon.id,
+      lookAlikes.map((other) => other.id),
+    ),
     photos: photos.map(photoView),
     cautions: taxon.cautions ?? [],
     generalCautions: GENERAL_CAUTIONS,

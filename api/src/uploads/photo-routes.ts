@@ -16,7 +16,12 @@ export function photoRoutes(deps: PhotoDeps): { upload: Router; serve: Router } 
   upload.post('/:id/photos', requireUser('curator'), async (req, res) => {
     const files = (req.files ?? []) as MultipartFile[];
     const body = req.body as { caption?: string; credit?: string; format?: 'jpeg' | 'webp' };
-    const photo = await photos.attach(actorOf(req.principal), req.params['id'] as string, files.find((f) => f.fieldname === 'photo'), body);
+    const photo = await photos.attach(
+      actorOf(req.principal),
+      req.params['id'] as string,
+      files.find((f) => f.fieldname === 'photo'),
+      body,
+    );
     res.status(201).location(photo.url).json(photo);
   });
 

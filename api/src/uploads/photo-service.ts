@@ -51,7 +51,9 @@ async function attachPhoto(
   if (!file || file.size === 0) throw problems.invalidInput('Send the photo as the multipart field "photo".', [{ name: '/body/photo', reason: 'missing' }]);
   if (file.size > MAX_PHOTO_BYTES) throw problems.payloadTooLarge(`A photo may be at most ${MAX_PHOTO_BYTES / 1024 / 1024} MB.`);
 
-  const metadata = await sharp(file.buffer).metadata().catch(() => undefined);
+  const metadata = await sharp(file.buffer)
+    .metadata()
+    .catch(() => undefined);
   if (!metadata?.format || !ACCEPTED_FORMATS.has(metadata.format)) {
     throw notAnImage('The file is not a photo this service reads (JPEG, PNG, WebP, HEIF, AVIF or TIFF), judging by its content.');
   }
@@ -78,7 +80,16 @@ async function attachPhoto(
     credit: details.credit ?? null,
     uploadedBy: actor.userId,
   });
-  await recordAudit(deps.models, actor, [{ entity: 'photo', entityKey: `${taxonId}/${fileName}`, action: 'attach', before: null, after: photoView(photo), reason: details.caption ?? 'photo attached' }]);
+  await recordAudit(deps.models, actor, [
+    {
+      entity: 'photo',
+      entityKey: `${taxonId}/${fileName}`,
+      action: 'attach',
+      before: null,
+      after: photoView(photo),
+      reason: details.caption ?? 'photo attached',
+    },
+  ]);
   return photoView(photo);
 }
 

@@ -15,5 +15,8 @@ export async function startTestApp(env: Record<string, string> = {}): Promise<Cr
 
 export function assertContractKept(created: CreatedApp): void {
   const violations = created.contractViolations.splice(0);
-  expect(violations, `responses that break openapi.yaml:\n${violations.map((v) => `${v.method} ${v.path} ${v.status}: ${v.message}`).join('\n')}`).to.deep.equal([]);
+  expect(
+    violations,
+    `responses that break openapi.yaml:\n${violations.map((v) => `${v.method} ${v.path} ${v.status}: ${v.message}`).join('\n')}`,
+  ).to.deep.equal([]);
 }

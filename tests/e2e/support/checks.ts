@@ -23,7 +23,13 @@ export async function seriousViolations(page: Page): Promise<string[]> {
   const results = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa']).analyze();
   return results.violations
     .filter((violation) => violation.impact === 'serious' || violation.impact === 'critical')
-    .map((violation) => `${violation.id} (${violation.impact}): ${violation.nodes.map((node) => node.target.join(' ')).slice(0, 5).join(', ')}`);
+    .map(
+      (violation) =>
+        `${violation.id} (${violation.impact}): ${violation.nodes
+          .map((node) => node.target.join(' '))
+          .slice(0, 5)
+          .join(', ')}`,
+    );
 }
 
 /** The demo scenario's account with this role. */

@@ -15,7 +15,13 @@ function isCapturedList(body: unknown): body is { messages: CapturedMail[] } {
  * Waits for the newest message to `address` whose subject contains `subjectPart` and returns the path
  * (`/account/<kind>/<token>`) of the link of that kind in it. Messages leave in the background, so it polls.
  */
-export async function mailedLinkPath(request: APIRequestContext, baseUrl: string, address: string, subjectPart: string, kind: 'reset-password' | 'invitation'): Promise<string> {
+export async function mailedLinkPath(
+  request: APIRequestContext,
+  baseUrl: string,
+  address: string,
+  subjectPart: string,
+  kind: 'reset-password' | 'invitation',
+): Promise<string> {
   const pattern = new RegExp(`/account/${kind}/[A-Za-z0-9_-]+`);
   for (let attempt = 0; attempt < 100; attempt++) {
     const res = await request.get(`${baseUrl}/api/dev/mail`, { headers: { Accept: 'application/json' } });

@@ -29,7 +29,10 @@ export async function tapChip(page: Page, trait: string, answer: string | number
 /** Types a measurement and picks its unit (the part must be open). */
 export async function measure(page: Page, trait: string, value: number, unit: 'cm' | 'in'): Promise<void> {
   const section = await openPartOf(page, trait);
-  await section.locator('mat-button-toggle', { hasText: new RegExp(`^${unit}$`) }).locator('button').click();
+  await section
+    .locator('mat-button-toggle', { hasText: new RegExp(`^${unit}$`) })
+    .locator('button')
+    .click();
   const input = section.locator('input[type="number"]');
   await input.fill(String(value));
   await input.press('Enter');
@@ -48,5 +51,12 @@ export async function waitForLeader(page: Page, id: string): Promise<void> {
 
 /** The Seen so far chips, as their visible text. */
 export async function seenSoFar(page: Page): Promise<string[]> {
-  return page.locator('sv-seen-so-far mat-chip').evaluateAll((chips) => chips.map((chip) => (chip.textContent ?? '').replace(/cancel/g, '').replace(/\s+/g, ' ').trim()));
+  return page.locator('sv-seen-so-far mat-chip').evaluateAll((chips) =>
+    chips.map((chip) =>
+      (chip.textContent ?? '')
+        .replace(/cancel/g, '')
+        .replace(/\s+/g, ' ')
+        .trim(),
+    ),
+  );
 }

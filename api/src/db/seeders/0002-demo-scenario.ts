@@ -65,7 +65,9 @@ export function demoSignInLines(config: Pick<SeedConfig, 'env' | 'demo'>): strin
   return [
     `Demo accounts (${DEMO_CLUB}, preparing for the ${DEMO_EVENT}), password "${DEMO_PASSWORD}":`,
     ...DEMO_ACCOUNTS.map((a) => `  ${a.role.padEnd(8)} ${a.email.padEnd(42)} ${a.displayName}, ${a.part}`),
-    config.demo.partnerKey ? `  partner key (lookup, identify): ${config.demo.partnerKey}` : '  partner key: printed when the demo was seeded; set DEMO_PARTNER_KEY to fix it',
+    config.demo.partnerKey
+      ? `  partner key (lookup, identify): ${config.demo.partnerKey}`
+      : '  partner key: printed when the demo was seeded; set DEMO_PARTNER_KEY to fix it',
   ];
 }
 
@@ -90,7 +92,13 @@ export const demoScenario: Step = {
       for (const account of DEMO_ACCOUNTS) {
         const password = development ? DEMO_PASSWORD : randomBytes(24).toString('base64url');
         const row = await models.User.create(
-          { email: account.email, displayName: account.displayName, role: account.role, passwordHash: await hashPassword(password, config.auth.scrypt), lastSignInAt: null },
+          {
+            email: account.email,
+            displayName: account.displayName,
+            role: account.role,
+            passwordHash: await hashPassword(password, config.auth.scrypt),
+            lastSignInAt: null,
+          },
           { transaction },
         );
         ids.set(account.email, row.id);
@@ -99,7 +107,16 @@ export const demoScenario: Step = {
       const partnerId = ids.get(PARTNER_EMAIL);
       if (partnerId === undefined) throw new Error('the demo partner developer is missing');
       await models.PartnerKey.create(
-        { ownerId: partnerId, name: 'Fernway Trails (demo)', prefix: key.slice(0, KEY_PREFIX.length + 6), keyHash: hashToken(key), scopes: PARTNER_SCOPES, revokedAt: null, revokedBy: null, lastUsedAt: null },
+        {
+          ownerId: partnerId,
+          name: 'Fernway Trails (demo)',
+          prefix: key.slice(0, KEY_PREFIX.length + 6),
+          keyHash: hashToken(key),
+          scopes: PARTNER_SCOPES,
+          revokedAt: null,
+          revokedBy: null,
+          lastUsedAt: null,
+        },
         { transaction },
       );
 
@@ -115,7 +132,19 @@ export const demoScenario: Step = {
           continue;
         }
         const row = await models.Query.create(
-          { taxonId: query.taxonId, traitCode: query.traitCode, note: query.note, state: 'open', raisedBy, answer: null, evidence: null, answeredBy: null, outcome: null, settledBy: null, settledAt: null },
+          {
+            taxonId: query.taxonId,
+            traitCode: query.traitCode,
+            note: query.note,
+            state: 'open',
+            raisedBy,
+            answer: null,
+            evidence: null,
+            answeredBy: null,
+            outcome: null,
+            settledBy: null,
+            settledAt: null,
+          },
           { transaction },
         );
         await models.QueryEvent.create({ queryId: row.id, actorId: raisedBy, action: 'raised', note: query.note }, { transaction });

@@ -64,7 +64,14 @@ export const demoStudySet: Step = {
     await sequelize.transaction((transaction) =>
       insertStudySet(
         models,
-        { name: DEMO_STUDY_SET.name, event: DEMO_STUDY_SET.event, eventDate: DEMO_STUDY_SET.eventDate, notes: DEMO_STUDY_SET.notes, shared: DEMO_STUDY_SET.shared, ownerId: coach.id },
+        {
+          name: DEMO_STUDY_SET.name,
+          event: DEMO_STUDY_SET.event,
+          eventDate: DEMO_STUDY_SET.eventDate,
+          notes: DEMO_STUDY_SET.notes,
+          shared: DEMO_STUDY_SET.shared,
+          ownerId: coach.id,
+        },
         taxa,
         transaction,
       ),

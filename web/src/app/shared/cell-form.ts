@@ -82,7 +82,8 @@ export function fillCellForm(form: CellForm, trait: CellTrait, cell: Cell): void
     return has(cell.usual) ? 'usual' : has(cell.occasional) ? 'occasional' : has(cell.rare) ? 'rare' : '';
   };
   if (trait.kind !== 'numeric') {
-    for (const { code } of trait.values) frequencies.addControl(String(code), new FormControl<Frequency>(frequencyOf(code), { nonNullable: true }), { emitEvent: false });
+    for (const { code } of trait.values)
+      frequencies.addControl(String(code), new FormControl<Frequency>(frequencyOf(code), { nonNullable: true }), { emitEvent: false });
   }
   const range = isNumericCell(cell) ? cell : null;
   form.controls.range.setValue({ min: range?.min ?? null, low: range?.low ?? null, high: range?.high ?? null, max: range?.max ?? null }, { emitEvent: false });

@@ -30,8 +30,17 @@ export interface ConfirmData {
       @if (data.typeToConfirm; as typed) {
         <mat-form-field appearance="outline" class="typed">
           <mat-label>{{ typed.label }}</mat-label>
-          <input matInput autocomplete="off" spellcheck="false" [value]="typedText()" (input)="typedText.set($any($event.target).value)" (keydown.enter)="confirmIfTyped($event)" />
-          <mat-hint>Type <strong class="exact">{{ typed.text }}</strong></mat-hint>
+          <input
+            matInput
+            autocomplete="off"
+            spellcheck="false"
+            [value]="typedText()"
+            (input)="typedText.set($any($event.target).value)"
+            (keydown.enter)="confirmIfTyped($event)"
+          />
+          <mat-hint
+            >Type <strong class="exact">{{ typed.text }}</strong></mat-hint
+          >
         </mat-form-field>
       }
     </mat-dialog-content>

@@ -100,7 +100,14 @@ function readTaxonPage(body: unknown): TaxonMatch[] {
   if (!isRecord(body) || !Array.isArray(body['items'])) throw new Error('The server answered with an unexpected species search.');
   return body['items'].filter(isRecord).flatMap((item) =>
     typeof item['id'] === 'string' && typeof item['scientificName'] === 'string'
-      ? [{ id: item['id'], scientificName: item['scientificName'], commonNames: stringList(item['commonNames']), family: typeof item['family'] === 'string' ? item['family'] : '' }]
+      ? [
+          {
+            id: item['id'],
+            scientificName: item['scientificName'],
+            commonNames: stringList(item['commonNames']),
+            family: typeof item['family'] === 'string' ? item['family'] : '',
+          },
+        ]
       : [],
   );
 }

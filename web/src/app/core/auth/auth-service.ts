@@ -120,10 +120,9 @@ export class AuthService {
 
   /** Reads the signed-in account again; a 401 means the session has ended. */
   refreshMe(): Observable<Me> {
-    return this.#http.get<unknown>('/api/v1/me').pipe(
-      map(readMe),
-      tap({ next: (me) => this.#rememberMe(me), error: (error: unknown) => this.#forgetIfUnauthorised(error) }),
-    );
+    return this.#http
+      .get<unknown>('/api/v1/me')
+      .pipe(map(readMe), tap({ next: (me) => this.#rememberMe(me), error: (error: unknown) => this.#forgetIfUnauthorised(error) }));
   }
 
   #forgetIfUnauthorised(error: unknown): void {

@@ -16,10 +16,7 @@ export interface LoadedEdition {
   compiled: CompiledMatrix;
 }
 
-export type EditionState =
-  | { status: 'loading' }
-  | { status: 'ready'; edition: LoadedEdition }
-  | { status: 'error'; message: string };
+export type EditionState = { status: 'loading' } | { status: 'ready'; edition: LoadedEdition } | { status: 'error'; message: string };
 
 function editionNumberFrom(headers: HttpHeaders): number | null {
   const text = headers.get('X-Sylvasift-Edition');

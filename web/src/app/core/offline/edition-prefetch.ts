@@ -16,7 +16,10 @@ export class EditionPrefetch {
   start(): void {
     if (this.#started || typeof window === 'undefined') return;
     this.#started = true;
-    const fetchBundle = () => void fetch(BUNDLE_URL, { credentials: 'same-origin' }).then((response) => response.arrayBuffer()).catch(() => undefined);
+    const fetchBundle = () =>
+      void fetch(BUNDLE_URL, { credentials: 'same-origin' })
+        .then((response) => response.arrayBuffer())
+        .catch(() => undefined);
     const whenIdle = () =>
       typeof requestIdleCallback === 'function' ? requestIdleCallback(fetchBundle, { timeout: IDLE_TIMEOUT_MS }) : setTimeout(fetchBundle, IDLE_TIMEOUT_MS);
     if (document.readyState === 'complete') whenIdle();

@@ -13,14 +13,38 @@ import { FormSubmission } from '../../core/forms/form-submission';
     <h1>Your account</h1>
     @if (auth.me(); as me) {
       <dl class="facts">
-        <div><dt>Name</dt><dd>{{ me.displayName }}</dd></div>
-        <div><dt>E-mail</dt><dd>{{ me.email }}</dd></div>
-        <div><dt>Role</dt><dd class="role">{{ me.role }}</dd></div>
+        <div>
+          <dt>Name</dt>
+          <dd>{{ me.displayName }}</dd>
+        </div>
+        <div>
+          <dt>E-mail</dt>
+          <dd>{{ me.email }}</dd>
+        </div>
+        <div>
+          <dt>Role</dt>
+          <dd class="role">{{ me.role }}</dd>
+        </div>
         @if (me.createdAt) {
-          <div><dt>Member since</dt><dd>{{ me.createdAt | date: 'longDate' }}</dd></div>
+          <div>
+            <dt>Member since</dt>
+            <dd>{{ me.createdAt | date: 'longDate' }}</dd>
+          </div>
         }
       </dl>
-      <p>Study sets, study sheets and drills are under <a routerLink="/study">Study</a>. @if (me.role === 'reviewer' || me.role === 'admin') {Queries on doubtful values wait for an answer in <a routerLink="/review">Second look</a>.} @else {The queries you raise on doubtful values, from a species page, are under <a routerLink="/review">Your queries</a>.} @if (me.role === 'curator' || me.role === 'admin') {You keep the matrix on the <a routerLink="/desk">Matrix desk</a>: the working matrix, editions and the change log.} @else {Curators keep the matrix on the Matrix desk.}</p>
+      <p>
+        Study sets, study sheets and drills are under <a routerLink="/study">Study</a>.
+        @if (me.role === 'reviewer' || me.role === 'admin') {
+          Queries on doubtful values wait for an answer in <a routerLink="/review">Second look</a>.
+        } @else {
+          The queries you raise on doubtful values, from a species page, are under <a routerLink="/review">Your queries</a>.
+        }
+        @if (me.role === 'curator' || me.role === 'admin') {
+          You keep the matrix on the <a routerLink="/desk">Matrix desk</a>: the working matrix, editions and the change log.
+        } @else {
+          Curators keep the matrix on the Matrix desk.
+        }
+      </p>
     } @else if (loading.problem(); as message) {
       <p class="problem" role="alert">{{ message }}</p>
     } @else {

@@ -16,8 +16,8 @@ import { AccountLinksService } from './account-links-service';
     <h1>Forgot your password?</h1>
     @if (sent()) {
       <p class="notice" role="status" tabindex="-1" #sentNotice>
-        If an account uses that address, we've sent a link to it. The link works once and expires soon; if nothing
-        arrives within a few minutes, check your spam folder or ask again.
+        If an account uses that address, we've sent a link to it. The link works once and expires soon; if nothing arrives within a few minutes, check your spam
+        folder or ask again.
       </p>
       <div class="actions">
         <a mat-flat-button routerLink="/sign-in">Back to sign in</a>

@@ -28,7 +28,15 @@ import { MAX_PASSWORD, MIN_PASSWORD, matchesSibling } from './new-password';
       <form [formGroup]="form" (ngSubmit)="setPassword()" novalidate>
         <mat-form-field appearance="outline">
           <mat-label>New password</mat-label>
-          <input matInput type="password" formControlName="password" autocomplete="new-password" required [attr.maxlength]="maxPassword" (input)="recheckConfirmation()" />
+          <input
+            matInput
+            type="password"
+            formControlName="password"
+            autocomplete="new-password"
+            required
+            [attr.maxlength]="maxPassword"
+            (input)="recheckConfirmation()"
+          />
           <mat-hint>At least {{ minPassword }} characters; a few unrelated words work well.</mat-hint>
           @if (form.controls.password.hasError('required')) {
             <mat-error>Choose a password.</mat-error>

@@ -5,7 +5,18 @@ import { MatButton } from '@angular/material/button';
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatDialog } from '@angular/material/dialog';
-import { MatCell, MatCellDef, MatColumnDef, MatHeaderCell, MatHeaderCellDef, MatHeaderRow, MatHeaderRowDef, MatRow, MatRowDef, MatTable } from '@angular/material/table';
+import {
+  MatCell,
+  MatCellDef,
+  MatColumnDef,
+  MatHeaderCell,
+  MatHeaderCellDef,
+  MatHeaderRow,
+  MatHeaderRowDef,
+  MatRow,
+  MatRowDef,
+  MatTable,
+} from '@angular/material/table';
 import { AuthService } from '../../core/auth/auth-service';
 import { ApiProblem, readableError } from '../../core/http/api-problem';
 import { ConfirmDialog, type ConfirmData } from '../../shared/confirm-dialog';
@@ -30,19 +41,34 @@ function sizeWords(bytes: number): string {
 /** Backups: make one now, download one, restore one after typing its name. */
 @Component({
   selector: 'sv-admin-backups',
-  imports: [DatePipe, DecimalPipe, MatButton, MatIcon, MatProgressBar, MatTable, MatColumnDef, MatHeaderCellDef, MatHeaderCell, MatCellDef, MatCell, MatHeaderRowDef, MatHeaderRow, MatRowDef, MatRow],
+  imports: [
+    DatePipe,
+    DecimalPipe,
+    MatButton,
+    MatIcon,
+    MatProgressBar,
+    MatTable,
+    MatColumnDef,
+    MatHeaderCellDef,
+    MatHeaderCell,
+    MatCellDef,
+    MatCell,
+    MatHeaderRowDef,
+    MatHeaderRow,
+    MatRowDef,
+    MatRow,
+  ],
   template: `
     <h2>Backups</h2>
-    <p class="hint">
-      A backup is a consistent copy of the whole database, kept on the server. Restoring one replaces everything with the
-      backup's copy:
-    </p>
+    <p class="hint">A backup is a consistent copy of the whole database, kept on the server. Restoring one replaces everything with the backup's copy:</p>
     <ul class="replaced">
       @for (part of replaces; track part) {
         <li>{{ part }}</li>
       }
     </ul>
-    <p class="hint">Photo files on disk are not part of a backup. Anything done since the backup was made is lost, and people signed in since then are signed out.</p>
+    <p class="hint">
+      Photo files on disk are not part of a backup. Anything done since the backup was made is lost, and people signed in since then are signed out.
+    </p>
     <div class="actions">
       <button mat-flat-button type="button" [disabled]="making()" (click)="makeBackup()">
         <mat-icon aria-hidden="true">backup</mat-icon>
@@ -73,10 +99,14 @@ function sizeWords(bytes: number): string {
         } @else {
           <div class="table-wrap" tabindex="0" role="region" aria-label="Backups (table)">
             <table mat-table [dataSource]="backups()" [trackBy]="trackBackup">
-              <caption class="visually-hidden">Backups, newest first</caption>
+              <caption class="visually-hidden">
+                Backups, newest first
+              </caption>
               <ng-container matColumnDef="name">
                 <th mat-header-cell *matHeaderCellDef scope="col">Backup</th>
-                <td mat-cell *matCellDef="let backup"><code>{{ backup.name }}</code></td>
+                <td mat-cell *matCellDef="let backup">
+                  <code>{{ backup.name }}</code>
+                </td>
               </ng-container>
               <ng-container matColumnDef="made">
                 <th mat-header-cell *matHeaderCellDef scope="col">Made</th>

@@ -3,7 +3,18 @@ import { DatePipe, DecimalPipe } from '@angular/common';
 import { MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatDialog } from '@angular/material/dialog';
-import { MatCell, MatCellDef, MatColumnDef, MatHeaderCell, MatHeaderCellDef, MatHeaderRow, MatHeaderRowDef, MatRow, MatRowDef, MatTable } from '@angular/material/table';
+import {
+  MatCell,
+  MatCellDef,
+  MatColumnDef,
+  MatHeaderCell,
+  MatHeaderCellDef,
+  MatHeaderRow,
+  MatHeaderRowDef,
+  MatRow,
+  MatRowDef,
+  MatTable,
+} from '@angular/material/table';
 import { forkJoin } from 'rxjs';
 import { readableError } from '../../core/http/api-problem';
 import { ConfirmDialog, type ConfirmData } from '../../shared/confirm-dialog';
@@ -15,7 +26,22 @@ type KeysState = { status: 'loading' } | { status: 'ready'; keys: PartnerKey[]; 
 /** Every partner key, whose it is and what it used; any can be revoked. */
 @Component({
   selector: 'sv-admin-keys',
-  imports: [DatePipe, DecimalPipe, MatButton, MatProgressBar, MatTable, MatColumnDef, MatHeaderCellDef, MatHeaderCell, MatCellDef, MatCell, MatHeaderRowDef, MatHeaderRow, MatRowDef, MatRow],
+  imports: [
+    DatePipe,
+    DecimalPipe,
+    MatButton,
+    MatProgressBar,
+    MatTable,
+    MatColumnDef,
+    MatHeaderCellDef,
+    MatHeaderCell,
+    MatCellDef,
+    MatCell,
+    MatHeaderRowDef,
+    MatHeaderRow,
+    MatRowDef,
+    MatRow,
+  ],
   template: `
     <h2>Every partner key</h2>
     <p class="hint">Revoke a key that leaks or is misused: its requests are refused at once. Owners see the same on their Partner keys page.</p>
@@ -43,11 +69,16 @@ type KeysState = { status: 'loading' } | { status: 'ready'; keys: PartnerKey[]; 
         } @else {
           <div class="table-wrap" tabindex="0" role="region" aria-label="Every partner key (table)">
             <table mat-table [dataSource]="keys()" [trackBy]="trackKey">
-              <caption class="visually-hidden">Every partner key, newest first</caption>
+              <caption class="visually-hidden">
+                Every partner key, newest first
+              </caption>
               <ng-container matColumnDef="name">
                 <th mat-header-cell *matHeaderCellDef scope="col">Key</th>
                 <td mat-cell *matCellDef="let key">
-                  <span class="who"><strong>{{ key.name }}</strong><code class="email">{{ key.prefix }}…</code></span>
+                  <span class="who"
+                    ><strong>{{ key.name }}</strong
+                    ><code class="email">{{ key.prefix }}…</code></span
+                  >
                 </td>
               </ng-container>
               <ng-container matColumnDef="owner">
@@ -76,7 +107,9 @@ type KeysState = { status: 'loading' } | { status: 'ready'; keys: PartnerKey[]; 
                   @if (key.revokedAt) {
                     <span class="state-off">Revoked {{ key.revokedAt | date: 'd MMM y' }}</span>
                   } @else {
-                    <button mat-button type="button" class="danger" (click)="confirmRevoke(key)">Revoke…<span class="visually-hidden"> {{ key.name }}</span></button>
+                    <button mat-button type="button" class="danger" (click)="confirmRevoke(key)">
+                      Revoke…<span class="visually-hidden"> {{ key.name }}</span>
+                    </button>
                   }
                 </td>
               </ng-container>
@@ -123,7 +156,8 @@ export class AdminKeys {
   protected load(): void {
     if (this.state().status !== 'ready') this.state.set({ status: 'loading' });
     forkJoin({ keys: this.#admin.allKeys(), people: this.#admin.people() }).subscribe({
-      next: ({ keys, people }) => this.state.set({ status: 'ready', keys: [...keys].sort((a, b) => b.id - a.id), owners: new Map(people.map((p) => [p.id, p])) }),
+      next: ({ keys, people }) =>
+        this.state.set({ status: 'ready', keys: [...keys].sort((a, b) => b.id - a.id), owners: new Map(people.map((p) => [p.id, p])) }),
       error: (error: unknown) => this.state.set({ status: 'error', message: readableError(error) }),
     });
   }
@@ -131,7 +165,9 @@ export class AdminKeys {
   protected confirmRevoke(key: PartnerKey): void {
     const data: ConfirmData = {
       title: `Revoke “${key.name}”?`,
-      lines: [`${this.ownerName(key)} holds this key (${key.prefix}…). Its requests are refused from now on; this cannot be undone, and the owner has to create a new key.`],
+      lines: [
+        `${this.ownerName(key)} holds this key (${key.prefix}…). Its requests are refused from now on; this cannot be undone, and the owner has to create a new key.`,
+      ],
       confirm: 'Revoke key',
     };
     this.#dialog

@@ -12,9 +12,15 @@ import { AdminBackups } from './admin-backups';
     <h1>Admin</h1>
     <p class="intro">Invite people and give them roles, revoke any partner key, and back up or restore this Sylvasift's data.</p>
     <mat-tab-group mat-stretch-tabs="false" animationDuration="0ms">
-      <mat-tab label="People"><ng-template matTabContent><sv-admin-people /></ng-template></mat-tab>
-      <mat-tab label="Partner keys"><ng-template matTabContent><sv-admin-keys /></ng-template></mat-tab>
-      <mat-tab label="Backups"><ng-template matTabContent><sv-admin-backups /></ng-template></mat-tab>
+      <mat-tab label="People"
+        ><ng-template matTabContent><sv-admin-people /></ng-template
+      ></mat-tab>
+      <mat-tab label="Partner keys"
+        ><ng-template matTabContent><sv-admin-keys /></ng-template
+      ></mat-tab>
+      <mat-tab label="Backups"
+        ><ng-template matTabContent><sv-admin-backups /></ng-template
+      ></mat-tab>
     </mat-tab-group>
   `,
   styles: `

@@ -10,7 +10,18 @@ import { MatOption, MatSelect, type MatSelectChange } from '@angular/material/se
 import { MatIcon } from '@angular/material/icon';
 import { MatProgressBar } from '@angular/material/progress-bar';
 import { MatDialog } from '@angular/material/dialog';
-import { MatCell, MatCellDef, MatColumnDef, MatHeaderCell, MatHeaderCellDef, MatHeaderRow, MatHeaderRowDef, MatRow, MatRowDef, MatTable } from '@angular/material/table';
+import {
+  MatCell,
+  MatCellDef,
+  MatColumnDef,
+  MatHeaderCell,
+  MatHeaderCellDef,
+  MatHeaderRow,
+  MatHeaderRowDef,
+  MatRow,
+  MatRowDef,
+  MatTable,
+} from '@angular/material/table';
 import { catchError, map, of, startWith } from 'rxjs';
 import { FIELD_LIMITS } from '@shared/engine';
 import { AuthService } from '../../core/auth/auth-service';
@@ -113,7 +124,9 @@ export class AdminPeople {
     const words = this.#searchText().trim().toLowerCase();
     const role = this.#roleShown();
     return this.everyone().filter(
-      (person) => (role === '' || person.role === role) && (words === '' || person.displayName.toLowerCase().includes(words) || person.email.toLowerCase().includes(words)),
+      (person) =>
+        (role === '' || person.role === role) &&
+        (words === '' || person.displayName.toLowerCase().includes(words) || person.email.toLowerCase().includes(words)),
     );
   });
   protected readonly myId = computed(() => Number(this.auth.me()?.id ?? 0));
@@ -167,7 +180,12 @@ export class AdminPeople {
   protected changeRole(person: Person, event: MatSelectChange<Role>): void {
     const role = event.value;
     if (role === person.role) return;
-    this.#apply(person, { role }, (updated) => `${updated.displayName} is now ${ROLE_WORDS[updated.role].toLowerCase()}.`, () => event.source.writeValue(person.role));
+    this.#apply(
+      person,
+      { role },
+      (updated) => `${updated.displayName} is now ${ROLE_WORDS[updated.role].toLowerCase()}.`,
+      () => event.source.writeValue(person.role),
+    );
   }
 
   protected confirmActive(person: Person): void {
@@ -199,7 +217,9 @@ export class AdminPeople {
       next: (updated) => {
         this.busyId.set(null);
         this.changed.set(said(updated));
-        this.state.update((state) => (state.status === 'ready' ? { status: 'ready', people: state.people.map((p) => (p.id === updated.id ? updated : p)) } : state));
+        this.state.update((state) =>
+          state.status === 'ready' ? { status: 'ready', people: state.people.map((p) => (p.id === updated.id ? updated : p)) } : state,
+        );
       },
       error: (error: unknown) => {
         this.busyId.set(null);

@@ -33,12 +33,20 @@ export interface CellEditResult {
  * range, plus any count the cell already holds; counts are numbers, as cells store them.
  */
 function cellTraitOf(trait: Trait, cell: Cell): CellTrait {
-  if (trait.kind !== 'count') return { kind: trait.kind, values: (trait.values ?? []).map((value) => ({ code: value.code, label: value.label })), unit: trait.unit };
+  if (trait.kind !== 'count')
+    return { kind: trait.kind, values: (trait.values ?? []).map((value) => ({ code: value.code, label: value.label })), unit: trait.unit };
   const labels = new Map((trait.values ?? []).map((value) => [Number(value.code), value.label]));
   const counts = new Set(labels.keys());
   if (counts.size === 0 && trait.countRange) for (let count = trait.countRange.min; count <= trait.countRange.max; count++) counts.add(count);
-  if (typeof cell === 'object' && !('low' in cell)) for (const value of [...(cell.usual ?? []), ...(cell.occasional ?? []), ...(cell.rare ?? [])]) counts.add(Number(value));
-  return { kind: 'count', values: [...counts].filter(Number.isInteger).sort((a, b) => a - b).map((count) => ({ code: count, label: labels.get(count) ?? String(count) })) };
+  if (typeof cell === 'object' && !('low' in cell))
+    for (const value of [...(cell.usual ?? []), ...(cell.occasional ?? []), ...(cell.rare ?? [])]) counts.add(Number(value));
+  return {
+    kind: 'count',
+    values: [...counts]
+      .filter(Number.isInteger)
+      .sort((a, b) => a - b)
+      .map((count) => ({ code: count, label: labels.get(count) ?? String(count) })),
+  };
 }
 
 /**
@@ -49,7 +57,19 @@ function cellTraitOf(trait: Trait, cell: Cell): CellTrait {
  */
 @Component({
   selector: 'sv-cell-edit-dialog',
-  imports: [ReactiveFormsModule, MatDialogTitle, MatDialogContent, MatDialogActions, MatButton, MatFormField, MatLabel, MatHint, MatError, MatInput, CellEditor],
+  imports: [
+    ReactiveFormsModule,
+    MatDialogTitle,
+    MatDialogContent,
+    MatDialogActions,
+    MatButton,
+    MatFormField,
+    MatLabel,
+    MatHint,
+    MatError,
+    MatInput,
+    CellEditor,
+  ],
   templateUrl: './cell-edit-dialog.html',
   styleUrl: './cell-edit-dialog.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -99,7 +119,12 @@ export class CellEditDialog {
     const cell = this.edited();
     this.submission.submit(
       this.form,
-      () => this.#desk.setCell(this.data.taxon.id, this.data.trait.code, { value: cell as Cell, version: this.baseVersion(), reason: this.form.controls.reason.value.trim() }),
+      () =>
+        this.#desk.setCell(this.data.taxon.id, this.data.trait.code, {
+          value: cell as Cell,
+          version: this.baseVersion(),
+          reason: this.form.controls.reason.value.trim(),
+        }),
       (saved) => this.#ref.close({ value: saved.value, version: saved.version }),
       {
         onError: (error) => {
@@ -138,6 +163,12 @@ export class CellEditDialog {
 /** Opens the cell editor; closes with the saved cell, or undefined when cancelled (Escape, Cancel). */
 export function openCellEditor(dialog: MatDialog, data: CellEditData): Observable<CellEditResult | undefined> {
   return dialog
-    .open<CellEditDialog, CellEditData, CellEditResult>(CellEditDialog, { data, autoFocus: 'first-tabbable', restoreFocus: true, width: '640px', maxWidth: 'calc(100vw - 24px)' })
+    .open<CellEditDialog, CellEditData, CellEditResult>(CellEditDialog, {
+      data,
+      autoFocus: 'first-tabbable',
+      restoreFocus: true,
+      width: '640px',
+      maxWidth: 'calc(100vw - 24px)',
+    })
     .afterClosed();
 }

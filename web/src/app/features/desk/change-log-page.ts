@@ -93,7 +93,8 @@ export default class ChangeLogPage implements AfterViewInit {
       if (!words) return true;
       return [row.who, row.taxon, row.trait, row.before, row.after, row.reason, row.entity].some((field) => field.toLowerCase().includes(words));
     };
-    this.data.sortingDataAccessor = (row, column) => (column === 'at' ? row.id : column === 'change' ? row.after : String(row[column as keyof ChangeRow] ?? '').toLowerCase());
+    this.data.sortingDataAccessor = (row, column) =>
+      column === 'at' ? row.id : column === 'change' ? row.after : String(row[column as keyof ChangeRow] ?? '').toLowerCase();
     this.load();
   }
 
@@ -118,7 +119,10 @@ export default class ChangeLogPage implements AfterViewInit {
     const before = this.older();
     if (before === null) return;
     this.status.set('loading');
-    this.#read(before, this.#rows().map((row) => row));
+    this.#read(
+      before,
+      this.#rows().map((row) => row),
+    );
   }
 
   #read(before: number | undefined, sofar: ChangeRow[], read: AuditEntry[] = []): void {

@@ -94,9 +94,11 @@ function isCell(value: unknown): value is Cell {
 
 /** Checks the shape the grid relies on (the HttpClient generic is only an assertion). */
 export function readWorkingMatrix(body: unknown): WorkingMatrix {
-  if (!isRecord(body) || !Array.isArray(body['traits']) || !Array.isArray(body['taxa'])) throw new Error('The server answered with an unexpected working matrix.');
+  if (!isRecord(body) || !Array.isArray(body['traits']) || !Array.isArray(body['taxa']))
+    throw new Error('The server answered with an unexpected working matrix.');
   const traits = body['traits'].filter(
-    (trait): trait is Trait => isRecord(trait) && typeof trait['code'] === 'string' && typeof trait['label'] === 'string' && PARTS.includes(trait['part'] as PlantPart),
+    (trait): trait is Trait =>
+      isRecord(trait) && typeof trait['code'] === 'string' && typeof trait['label'] === 'string' && PARTS.includes(trait['part'] as PlantPart),
   );
   if (traits.length !== body['traits'].length) throw new Error('The server answered with a trait the Matrix desk cannot show.');
   const taxa: DeskTaxon[] = [];
@@ -132,7 +134,9 @@ function readCellState(body: unknown): CellState {
 
 function readCurrent(problem: ApiProblem): { value: Cell; version: number } | null {
   const current = problem.extensions['current'];
-  return isRecord(current) && isCell(current['value']) && typeof current['version'] === 'number' ? { value: current['value'], version: current['version'] } : null;
+  return isRecord(current) && isCell(current['value']) && typeof current['version'] === 'number'
+    ? { value: current['value'], version: current['version'] }
+    : null;
 }
 
 /** The Matrix desk's calls: the working matrix, cells, the draft, editions and the change log. */
@@ -174,7 +178,8 @@ export class DeskService {
   draftSummary(): Observable<DraftSummary> {
     return this.#http.get<unknown>('/api/v1/curation/draft/summary').pipe(
       map((body) => {
-        if (!isRecord(body) || !isRecord(body['summary']) || typeof body['publishable'] !== 'boolean') throw new Error('The server answered with an unexpected draft summary.');
+        if (!isRecord(body) || !isRecord(body['summary']) || typeof body['publishable'] !== 'boolean')
+          throw new Error('The server answered with an unexpected draft summary.');
         const draft = body as unknown as DraftSummary;
         return { ...draft, invalidCells: Array.isArray(draft.invalidCells) ? draft.invalidCells : [], errors: Array.isArray(draft.errors) ? draft.errors : [] };
       }),

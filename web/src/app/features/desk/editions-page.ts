@@ -71,7 +71,8 @@ export default class EditionsPage {
 
   protected fieldError(name: 'title' | 'reason'): string | null {
     const control = this.form.controls[name];
-    if (control.hasError('required')) return name === 'title' ? 'Give the edition a title.' : 'Say why this edition is published; it is kept in the change log.';
+    if (control.hasError('required'))
+      return name === 'title' ? 'Give the edition a title.' : 'Say why this edition is published; it is kept in the change log.';
     if (control.hasError('minlength')) return 'Write at least 3 characters.';
     if (control.hasError('maxlength')) return name === 'title' ? 'At most 200 characters.' : 'At most 2000 characters.';
     return (control.getError('server') as string | undefined) ?? null;

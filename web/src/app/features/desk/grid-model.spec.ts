@@ -3,7 +3,16 @@ import type { Trait } from '@shared/engine';
 import { changeRow, changesCsv } from './change-log';
 import { cellView, cellWords, columnWindow, filterColumns, movedTo, orderColumns, partSegments, rangeText } from './grid-model';
 
-const trait = (code: string, part: Trait['part'], extra: Partial<Trait> = {}): Trait => ({ code, label: code.replace(/-/g, ' '), part, kind: 'state', season: 'any', ease: 1, errorRate: 0.05, ...extra });
+const trait = (code: string, part: Trait['part'], extra: Partial<Trait> = {}): Trait => ({
+  code,
+  label: code.replace(/-/g, ' '),
+  part,
+  kind: 'state',
+  season: 'any',
+  ease: 1,
+  errorRate: 0.05,
+  ...extra,
+});
 
 // Bark words for shagbark hickory, Carya ovata: grey bark that peels in long loose plates (from memory
 // of the common field-guide description; common practice, no source for the frequencies).
@@ -17,7 +26,7 @@ const BARK = trait('bark-texture', 'bark', {
 const NEEDLE_LENGTH = trait('needle-length', 'needle', { kind: 'numeric', unit: 'cm' });
 
 describe('web: the Matrix desk grid model', () => {
-  it('groups the columns by plant part in the product\'s part order, keeping the matrix order inside a part', () => {
+  it("groups the columns by plant part in the product's part order, keeping the matrix order inside a part", () => {
     const columns = orderColumns([BARK, trait('leaf-a', 'leaf'), NEEDLE_LENGTH, trait('leaf-b', 'leaf')]);
     expect(columns.map((column) => column.trait.code)).to.deep.equal(['leaf-a', 'leaf-b', 'needle-length', 'bark-texture']);
     expect(columns.map((column) => column.position)).to.deep.equal([1, 3, 2, 0]);
@@ -88,6 +97,8 @@ describe('web: the Matrix desk grid model', () => {
     expect(row).to.include({ taxon: 'pinus-taeda', trait: 'needle-length', before: 'typically 12–23 cm, recorded 10–23 cm', after: 'not coded' });
     const [header, line] = changesCsv([row]).split('\r\n');
     expect(header).to.equal('when,who,what,taxon,trait,before,after,reason');
-    expect(line).to.equal(`2026-12-04T10:00:00.000Z,harriet@example.invalid,cell,pinus-taeda,needle-length,"typically 12–23 cm, recorded 10–23 cm",not coded,"'=HYPERLINK(""x""), checked ""twice"""`);
+    expect(line).to.equal(
+      `2026-12-04T10:00:00.000Z,harriet@example.invalid,cell,pinus-taeda,needle-length,"typically 12–23 cm, recorded 10–23 cm",not coded,"'=HYPERLINK(""x""), checked ""twice"""`,
+    );
   });
 });

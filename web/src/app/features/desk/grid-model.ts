@@ -45,7 +45,9 @@ export function orderColumns(traits: readonly Trait[]): GridColumn[] {
 export function filterColumns(columns: readonly GridColumn[], parts: readonly PlantPart[], traitWords: string): GridColumn[] {
   const words = traitWords.trim().toLowerCase();
   return columns.filter(
-    (column) => (parts.length === 0 || parts.includes(column.part)) && (words === '' || column.trait.label.toLowerCase().includes(words) || column.trait.code.includes(words)),
+    (column) =>
+      (parts.length === 0 || parts.includes(column.part)) &&
+      (words === '' || column.trait.label.toLowerCase().includes(words) || column.trait.code.includes(words)),
   );
 }
 
@@ -61,7 +63,11 @@ export function columnWindow(scrollLeft: number, visibleWidth: number, columnWid
 }
 
 /** Runs of neighbouring columns of one plant part inside a window, for the grouped header. */
-export function partSegments(columns: readonly GridColumn[], first: number, last: number): Array<{ part: PlantPart; label: string; start: number; count: number }> {
+export function partSegments(
+  columns: readonly GridColumn[],
+  first: number,
+  last: number,
+): Array<{ part: PlantPart; label: string; start: number; count: number }> {
   const segments: Array<{ part: PlantPart; label: string; start: number; count: number }> = [];
   for (let index = first; index < last; index++) {
     const part = columns[index]!.part;
@@ -122,7 +128,9 @@ export function movedTo(
     case 'Home':
       return withControl ? { row: 0, column: 0 } : { row, column: 0 };
     case 'End':
-      return withControl ? { row: clamp(size.rows - 1, size.rows), column: clamp(size.columns - 1, size.columns) } : { row, column: clamp(size.columns - 1, size.columns) };
+      return withControl
+        ? { row: clamp(size.rows - 1, size.rows), column: clamp(size.columns - 1, size.columns) }
+        : { row, column: clamp(size.columns - 1, size.columns) };
     default:
       return null;
   }

@@ -100,7 +100,12 @@ export default class MatrixGridPage {
     const taxa = this.matrix()?.taxa ?? [];
     const words = this.speciesWords().trim();
     const family = this.family();
-    const found = words === '' ? taxa : this.#fuse().search(words).map((result) => result.item);
+    const found =
+      words === ''
+        ? taxa
+        : this.#fuse()
+            .search(words)
+            .map((result) => result.item);
     return found.filter((taxon) => family === '' || taxon.family === family).map((taxon, index) => ({ index, taxon }));
   });
   protected readonly window = computed(() => columnWindow(this.#scrollLeft(), this.#width() - GRID_SIZES.species, GRID_SIZES.column, this.columns().length), {
@@ -293,7 +298,9 @@ export default class MatrixGridPage {
     }).subscribe((result: CellEditResult | undefined) => {
       if (result) {
         this.#replaceCell(taxon, col, result.value, result.version);
-        this.notice.set(`Saved ${taxon.scientificName} · ${col.trait.label} (version ${result.version}). It is in the draft until the next edition is published.`);
+        this.notice.set(
+          `Saved ${taxon.scientificName} · ${col.trait.label} (version ${result.version}). It is in the draft until the next edition is published.`,
+        );
       }
       this.scroller()?.nativeElement.focus({ preventScroll: true });
     });

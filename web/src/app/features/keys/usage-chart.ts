@@ -30,23 +30,43 @@ function dayWords(day: string): string {
           <rect [class.today]="bar.today" [attr.x]="bar.x" [attr.y]="bar.y" [attr.width]="bar.w" [attr.height]="bar.h" />
         }
       </svg>
-      <div class="ends" aria-hidden="true"><span>{{ firstDay() }}</span><span>today (UTC)</span></div>
+      <div class="ends" aria-hidden="true">
+        <span>{{ firstDay() }}</span><span>today (UTC)</span>
+      </div>
       <figcaption class="summary" aria-hidden="true">{{ summary() }}</figcaption>
     </figure>
-    <button mat-button type="button" class="toggle" [attr.aria-expanded]="showTable()" [attr.aria-controls]="showTable() ? tableId() : null" (click)="showTable.set(!showTable())">
+    <button
+      mat-button
+      type="button"
+      class="toggle"
+      [attr.aria-expanded]="showTable()"
+      [attr.aria-controls]="showTable() ? tableId() : null"
+      (click)="showTable.set(!showTable())"
+    >
       <mat-icon aria-hidden="true">{{ showTable() ? 'expand_less' : 'table_rows' }}</mat-icon>
       {{ showTable() ? 'Hide the table' : 'Show as a table' }}
     </button>
     @if (showTable()) {
       <div class="table-wrap" [id]="tableId()" tabindex="0" role="region" [attr.aria-label]="'Requests per day, ' + keyName()">
         <table>
-          <caption>Requests per day (UTC), {{ caption() }}</caption>
+          <caption>
+            Requests per day (UTC),
+            {{
+              caption()
+            }}
+          </caption>
           <thead>
-            <tr><th scope="col">Day</th><th scope="col" class="num">Requests</th></tr>
+            <tr>
+              <th scope="col">Day</th>
+              <th scope="col" class="num">Requests</th>
+            </tr>
           </thead>
           <tbody>
             @for (day of newestFirst(); track day.day) {
-              <tr><th scope="row">{{ day.day | date: 'EEE d MMM' : 'UTC' }}</th><td class="num">{{ day.count | number }}</td></tr>
+              <tr>
+                <th scope="row">{{ day.day | date: 'EEE d MMM' : 'UTC' }}</th>
+                <td class="num">{{ day.count | number }}</td>
+              </tr>
             }
           </tbody>
         </table>

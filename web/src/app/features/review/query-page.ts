@@ -52,7 +52,11 @@ export default class QueryPage {
         this.#queries.getQuery(Number(id)).pipe(
           map((query): PageState => ({ status: 'ready', query })),
           catchError((error: unknown) =>
-            of<PageState>({ status: 'error', message: readableError(error), notFound: error instanceof ApiProblem && (error.status === 404 || error.status === 400) }),
+            of<PageState>({
+              status: 'error',
+              message: readableError(error),
+              notFound: error instanceof ApiProblem && (error.status === 404 || error.status === 400),
+            }),
           ),
           startWith<PageState>(LOADING),
         ),

@@ -73,7 +73,9 @@ export class QueryRecode {
     return stale ? cellInBrief(this.trait(), stale.value) : '';
   });
 
-  protected readonly form = this.#fb.group({ reason: ['', [Validators.required, Validators.minLength(FIELD_LIMITS.changeReason.min), Validators.maxLength(FIELD_LIMITS.changeReason.max)]] });
+  protected readonly form = this.#fb.group({
+    reason: ['', [Validators.required, Validators.minLength(FIELD_LIMITS.changeReason.min), Validators.maxLength(FIELD_LIMITS.changeReason.max)]],
+  });
 
   constructor() {
     // The form holds the reason; a cell the editor says can be written is its form-level rule (added

@@ -1,7 +1,16 @@
 import { ChangeDetectionStrategy, Component, computed, input, output } from '@angular/core';
 import { RouterLink } from '@angular/router';
 import { MatButton } from '@angular/material/button';
-import { cellInBrief, commonName, compare, type ComparisonVerdict, type CompiledMatrix, type SeparationStrength, traitByCode, type TraitComparison } from '@shared/engine';
+import {
+  cellInBrief,
+  commonName,
+  compare,
+  type ComparisonVerdict,
+  type CompiledMatrix,
+  type SeparationStrength,
+  traitByCode,
+  type TraitComparison,
+} from '@shared/engine';
 
 const VERDICT_LABELS: Readonly<Record<ComparisonVerdict, string>> = {
   separates: 'Separates',
@@ -29,13 +38,18 @@ const USUALLY_SEPARATES = 'Usually separates';
       <div class="table-scroll" tabindex="0" role="region" aria-labelledby="side-heading">
         <table>
           <caption>
-            {{ rows().length }} traits differ; traits that separate every pair come first.
+            {{
+              rows().length
+            }}
+            traits differ; traits that separate every pair come first.
           </caption>
           <thead>
             <tr>
               <th scope="col">Trait</th>
               @for (taxon of taxa(); track taxon.id) {
-                <th scope="col"><a [routerLink]="['/species', taxon.id]">{{ taxon.name }}</a></th>
+                <th scope="col">
+                  <a [routerLink]="['/species', taxon.id]">{{ taxon.name }}</a>
+                </th>
               }
             </tr>
           </thead>

@@ -92,7 +92,15 @@ describe('sift checks (lengths, counts, weights and Check again)', () => {
     expect(checkAgain(compiled, [...redMaple, { trait: 'leaf-arrangement', values: ['opposite'] }], options)).to.equal(null);
     // Sweetgum (Liquidambar styraciflua): palmately lobed, serrate, alternate — a consistent sift.
     expect(
-      checkAgain(compiled, [{ trait: 'leaf-lobing', values: ['palmately-lobed'] }, { trait: 'leaf-margin', values: ['serrate'] }, { trait: 'leaf-arrangement', values: ['alternate'] }], options),
+      checkAgain(
+        compiled,
+        [
+          { trait: 'leaf-lobing', values: ['palmately-lobed'] },
+          { trait: 'leaf-margin', values: ['serrate'] },
+          { trait: 'leaf-arrangement', values: ['alternate'] },
+        ],
+        options,
+      ),
     ).to.equal(null);
     expect(checkAgain(compiled, [{ trait: 'leaf-arrangement', values: ['alternate'] }], options)).to.equal(null);
   });

@@ -1,4 +1,17 @@
-import { ChangeDetectionStrategy, Component, DestroyRef, type ElementRef, computed, effect, inject, input, linkedSignal, signal, untracked, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  DestroyRef,
+  type ElementRef,
+  computed,
+  effect,
+  inject,
+  input,
+  linkedSignal,
+  signal,
+  untracked,
+  viewChild,
+} from '@angular/core';
 import { ActivatedRoute, Router } from '@angular/router';
 import { MatButtonToggle, MatButtonToggleGroup } from '@angular/material/button-toggle';
 import { MatSnackBar } from '@angular/material/snack-bar';
@@ -82,9 +95,7 @@ export default class SiftPage {
   /** The last sift saved on this device, read once: a bare /sift offers it rather than restoring it unasked. */
   readonly #lastSift = loadLastSift();
   /** "Continue the last tree" is offered while the URL carries no sift and nothing is picked yet. */
-  protected readonly offerLastSift = signal(
-    Boolean(this.#lastSift?.o) && !hasSift(this.#route.snapshot.queryParams as SiftQuery),
-  );
+  protected readonly offerLastSift = signal(Boolean(this.#lastSift?.o) && !hasSift(this.#route.snapshot.queryParams as SiftQuery));
 
   /** The URL's sift; a bare address keeps the season and leeway last used, but no answers. */
   readonly #source = computed<SiftQuery>(() => {

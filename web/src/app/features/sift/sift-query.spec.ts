@@ -19,7 +19,10 @@ describe('sift links (the query string of /sift)', () => {
   });
 
   it('drops what this edition does not know and keeps the first entry of a repeated trait', () => {
-    const observations = parseObservations('no-such-trait:1;bark-texture:velvet,scaly;needle-length:-2in;needle-length:abc;needles-per-fascicle:5;needles-per-fascicle:2', compiled);
+    const observations = parseObservations(
+      'no-such-trait:1;bark-texture:velvet,scaly;needle-length:-2in;needle-length:abc;needles-per-fascicle:5;needles-per-fascicle:2',
+      compiled,
+    );
     expect(observations).to.deep.equal([
       { trait: 'bark-texture', values: ['scaly'] },
       { trait: 'needles-per-fascicle', values: [5] },

@@ -6,7 +6,19 @@ import { MatIconButton, MatButton } from '@angular/material/button';
 import { MatButtonToggle, MatButtonToggleGroup, type MatButtonToggleChange } from '@angular/material/button-toggle';
 import { MatFormField, MatLabel, MatHint } from '@angular/material/form-field';
 import { MatInput } from '@angular/material/input';
-import { answerLabel, formatNumber, PART_LABELS, PLANT_PARTS, visibleInSeason, type CompiledMatrix, type CompiledTrait, type LengthUnit, type Observation, type ObservingSeason, type PlantPart } from '@shared/engine';
+import {
+  answerLabel,
+  formatNumber,
+  PART_LABELS,
+  PLANT_PARTS,
+  visibleInSeason,
+  type CompiledMatrix,
+  type CompiledTrait,
+  type LengthUnit,
+  type Observation,
+  type ObservingSeason,
+  type PlantPart,
+} from '@shared/engine';
 import { illustrationUrl } from '../../shared/matrix-words';
 import { isNumericObservation } from './sift-query';
 import { type NumericSpan, convertTyped, countProblem, lengthProblem, numericSpan, outsideNote, plural, spanText } from './measure-words';

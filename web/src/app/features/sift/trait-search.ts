@@ -55,7 +55,10 @@ export function searchEntries(compiled: CompiledMatrix): SearchEntry[] {
 
 /** Every word must match some field (fuzzily), so "peeling bark" finds the peeling value of bark texture. */
 export function searchTraits(fuse: Fuse<SearchEntry>, query: string, limit = 8): SearchEntry[] {
-  const words = query.toLowerCase().split(/\s+/).filter((word) => word.length > 1);
+  const words = query
+    .toLowerCase()
+    .split(/\s+/)
+    .filter((word) => word.length > 1);
   if (words.length === 0) return [];
   const expression: Expression = { $and: words.map((word) => ({ $or: KEYS.map((key) => ({ [key.name]: word })) })) };
   return fuse.search(expression, { limit }).map((result) => result.item);

@@ -21,14 +21,28 @@ export interface FlagValueData {
 /** Raises a query on one coded value: the person says what they saw; reviewers take a second look. */
 @Component({
   selector: 'sv-flag-value-dialog',
-  imports: [RouterLink, ReactiveFormsModule, MatDialogTitle, MatDialogContent, MatDialogActions, MatDialogClose, MatButton, MatAnchor, MatFormField, MatLabel, MatHint, MatError, MatInput],
+  imports: [
+    RouterLink,
+    ReactiveFormsModule,
+    MatDialogTitle,
+    MatDialogContent,
+    MatDialogActions,
+    MatDialogClose,
+    MatButton,
+    MatAnchor,
+    MatFormField,
+    MatLabel,
+    MatHint,
+    MatError,
+    MatInput,
+  ],
   template: `
     @if (raised(); as query) {
       <h2 mat-dialog-title>Query {{ query.id }} is open</h2>
       <mat-dialog-content>
         <p role="status">
-          Thank you. A reviewer will take a second look at {{ data.traitLabel }} for {{ data.speciesName }} and answer with
-          evidence. You can follow it under your queries.
+          Thank you. A reviewer will take a second look at {{ data.traitLabel }} for {{ data.speciesName }} and answer with evidence. You can follow it under
+          your queries.
         </p>
       </mat-dialog-content>
       <mat-dialog-actions align="end">

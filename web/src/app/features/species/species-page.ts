@@ -5,7 +5,21 @@ import { Location } from '@angular/common';
 import { MatIcon } from '@angular/material/icon';
 import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatProgressBar } from '@angular/material/progress-bar';
-import { CAUTIONS, cellInBrief, cellOf, commonName, diagnose, isDiscreteCell, PART_LABELS, PLANT_PARTS, traitByCode, type Cell, type CompiledMatrix, type CompiledTrait, type TaxonInfo } from '@shared/engine';
+import {
+  CAUTIONS,
+  cellInBrief,
+  cellOf,
+  commonName,
+  diagnose,
+  isDiscreteCell,
+  PART_LABELS,
+  PLANT_PARTS,
+  traitByCode,
+  type Cell,
+  type CompiledMatrix,
+  type CompiledTrait,
+  type TaxonInfo,
+} from '@shared/engine';
 import { illustrationUrl } from '../../shared/matrix-words';
 import { EditionService } from '../../core/edition/edition-service';
 import { AuthService } from '../../core/auth/auth-service';
@@ -110,8 +124,14 @@ export default class SpeciesPage {
           label: diagnostic.label,
           here: cellInBrief(trait, cellOf(compiled, taxon.id, diagnostic.trait)),
           strength: diagnostic.strength,
-          reliablyNames: diagnostic.separations.filter((item) => item.strength === 'reliable').map((item) => nameOf(item.taxonId)).join(', '),
-          usuallyNames: diagnostic.separations.filter((item) => item.strength === 'usual').map((item) => nameOf(item.taxonId)).join(', '),
+          reliablyNames: diagnostic.separations
+            .filter((item) => item.strength === 'reliable')
+            .map((item) => nameOf(item.taxonId))
+            .join(', '),
+          usuallyNames: diagnostic.separations
+            .filter((item) => item.strength === 'usual')
+            .map((item) => nameOf(item.taxonId))
+            .join(', '),
         };
       }),
       unseparated: result.unseparated.map(nameOf).join(', '),
@@ -135,7 +155,13 @@ export default class SpeciesPage {
   /** Opens the dialog that raises a query on one coded value. */
   protected queryValue(row: CodedRow): void {
     const data: FlagValueData = { taxonId: this.id(), speciesName: this.name(), traitCode: row.trait.code, traitLabel: row.trait.label, words: row.words };
-    this.#dialog.open<FlagValueDialog, FlagValueData>(FlagValueDialog, { data, autoFocus: 'first-tabbable', restoreFocus: true, width: '560px', maxWidth: 'calc(100vw - 32px)' });
+    this.#dialog.open<FlagValueDialog, FlagValueData>(FlagValueDialog, {
+      data,
+      autoFocus: 'first-tabbable',
+      restoreFocus: true,
+      width: '560px',
+      maxWidth: 'calc(100vw - 32px)',
+    });
   }
 
   protected goBack(): void {

@@ -1,4 +1,17 @@
-import { ChangeDetectionStrategy, Component, ElementRef, Injector, afterNextRender, computed, effect, inject, input, signal, untracked, viewChild } from '@angular/core';
+import {
+  ChangeDetectionStrategy,
+  Component,
+  ElementRef,
+  Injector,
+  afterNextRender,
+  computed,
+  effect,
+  inject,
+  input,
+  signal,
+  untracked,
+  viewChild,
+} from '@angular/core';
 import { RouterLink } from '@angular/router';
 import { MatAnchor, MatButton } from '@angular/material/button';
 import { MatFormField, MatLabel, MatHint } from '@angular/material/form-field';
@@ -62,7 +75,12 @@ export default class DrillPage {
   protected readonly setIds = computed(() => {
     const compiled = this.editions.compiled();
     const set = this.set();
-    return compiled && set ? idsInEdition(compiled, set.taxa.map((taxon) => taxon.id)) : [];
+    return compiled && set
+      ? idsInEdition(
+          compiled,
+          set.taxa.map((taxon) => taxon.id),
+        )
+      : [];
   });
   protected readonly askable = computed(() => {
     const compiled = this.editions.compiled();

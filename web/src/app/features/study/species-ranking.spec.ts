@@ -5,7 +5,12 @@ import { rankMatches } from './species-ranking';
 // The maples' names as the reference matrix has them (seeds/matrix/taxa/hardwoods-b.json), in the
 // order the server's search gave them for "sugr maple".
 const MAPLES: TaxonMatch[] = [
-  { id: 'acer-saccharinum', scientificName: 'Acer saccharinum', commonNames: ['silver maple', 'soft maple', 'white maple', 'river maple'], family: 'Sapindaceae' },
+  {
+    id: 'acer-saccharinum',
+    scientificName: 'Acer saccharinum',
+    commonNames: ['silver maple', 'soft maple', 'white maple', 'river maple'],
+    family: 'Sapindaceae',
+  },
   { id: 'acer-saccharum', scientificName: 'Acer saccharum', commonNames: ['sugar maple', 'hard maple', 'rock maple'], family: 'Sapindaceae' },
   { id: 'acer-rubrum', scientificName: 'Acer rubrum', commonNames: ['red maple', 'swamp maple', 'soft maple', 'scarlet maple'], family: 'Sapindaceae' },
   { id: 'acer-floridanum', scientificName: 'Acer floridanum', commonNames: ['Florida maple', 'southern sugar maple', 'hammock maple'], family: 'Sapindaceae' },

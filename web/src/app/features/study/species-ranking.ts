@@ -20,14 +20,14 @@ export function rankMatches(words: string, matches: readonly TaxonMatch[]): { ma
   const fuse = new Fuse(names, { keys: ['name'], includeScore: true, ignoreFieldNorm: true, threshold: 1, distance: 20 });
   const best = new Map<number, number>();
   for (const result of fuse.search(words)) if (!best.has(result.item.index)) best.set(result.item.index, result.score ?? 1);
-  const ranked = matches
-    .map((match, index) => ({ match, index, score: best.get(index) ?? 1 }))
-    .sort((a, b) => a.score - b.score || a.index - b.index);
+  const ranked = matches.map((match, index) => ({ match, index, score: best.get(index) ?? 1 })).sort((a, b) => a.score - b.score || a.index - b.index);
   const typed = words.trim().toLowerCase();
   const exact = new Set(names.filter((entry) => entry.name.toLowerCase() === typed).map((entry) => entry.index));
   const [first, next] = ranked;
   const clearBest =
     first !== undefined &&
-    (exact.size > 0 ? exact.size === 1 && exact.has(first.index) : first.score <= CLEAR_BEST_SCORE && (next === undefined || next.score - first.score >= CLEAR_BEST_GAP));
+    (exact.size > 0
+      ? exact.size === 1 && exact.has(first.index)
+      : first.score <= CLEAR_BEST_SCORE && (next === undefined || next.score - first.score >= CLEAR_BEST_GAP));
   return { matches: ranked.map((entry) => entry.match), clearBest };
 }

@@ -12,10 +12,7 @@ import { readableError } from '../../core/http/api-problem';
 import { rankMatches } from './species-ranking';
 
 type SearchState =
-  | { status: 'idle' }
-  | { status: 'searching' }
-  | { status: 'done'; matches: TaxonMatch[]; clearBest: boolean }
-  | { status: 'error'; message: string };
+  { status: 'idle' } | { status: 'searching' } | { status: 'done'; matches: TaxonMatch[]; clearBest: boolean } | { status: 'error'; message: string };
 
 /** Finds a species of the current edition by common or scientific name and hands the one picked on. */
 @Component({

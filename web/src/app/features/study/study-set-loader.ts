@@ -3,10 +3,7 @@ import { type StudySet, StudyService } from '../../core/api/study-service';
 import { readableError } from '../../core/http/api-problem';
 import { studySetId } from './study-words';
 
-export type StudySetState =
-  | { status: 'loading' }
-  | { status: 'ready'; set: StudySet; fromDevice: boolean }
-  | { status: 'error'; message: string };
+export type StudySetState = { status: 'loading' } | { status: 'ready'; set: StudySet; fromDevice: boolean } | { status: 'error'; message: string };
 
 export interface LoadedStudySetSignals {
   state: Signal<StudySetState>;

@@ -36,7 +36,12 @@ export default class StudySheetPage {
   protected readonly ids = computed(() => {
     const compiled = this.editions.compiled();
     const set = this.set();
-    return compiled && set ? idsInEdition(compiled, set.taxa.map((taxon) => taxon.id)) : [];
+    return compiled && set
+      ? idsInEdition(
+          compiled,
+          set.taxa.map((taxon) => taxon.id),
+        )
+      : [];
   });
   protected readonly missing = computed(() => {
     const compiled = this.editions.compiled();

@@ -1,5 +1,18 @@
 /** What the study sheet and the drills take from the engine for one study set. */
-import { buildKey, cellInBrief, cellOf, commonName, diagnose, isDiscreteCell, type Cell, type CompiledMatrix, type CompiledTrait, type DichotomousKey, type KeyNode, type SeparationStrength } from '@shared/engine';
+import {
+  buildKey,
+  cellInBrief,
+  cellOf,
+  commonName,
+  diagnose,
+  isDiscreteCell,
+  type Cell,
+  type CompiledMatrix,
+  type CompiledTrait,
+  type DichotomousKey,
+  type KeyNode,
+  type SeparationStrength,
+} from '@shared/engine';
 import { illustrationUrl } from '../../shared/matrix-words';
 
 export interface Drawing {
@@ -102,7 +115,11 @@ export function keyRows(compiled: CompiledMatrix, key: DichotomousKey): KeyCoupl
           label,
           text,
           goTo: null,
-          reached: next.taxa.map((id) => ({ id, name: nameOf(compiled, id), scientificName: compiled.taxa[compiled.taxonIndexById.get(id) ?? 0]?.scientificName ?? id })),
+          reached: next.taxa.map((id) => ({
+            id,
+            name: nameOf(compiled, id),
+            scientificName: compiled.taxa[compiled.taxonIndexById.get(id) ?? 0]?.scientificName ?? id,
+          })),
         };
   const visit = (node: KeyNode): void => {
     if (node.kind !== 'couplet') return;
