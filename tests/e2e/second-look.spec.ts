@@ -249,8 +249,8 @@ describe('e2e: Second look and raising a query', function () {
     // An admin may read the working matrix, so the recode is based on the version read.
     await page.locator('.hint', { hasText: `based on version ${cell.version} of the cell` }).waitFor();
     expect(await seriousViolations(page)).to.deep.equal([]);
-    // The editor starts from the published range; the seeded loblolly needle length is 10 (12–23) 23 cm.
-    expect(await low.inputValue()).to.equal('12');
+    // The editor starts from the published range; the seeded loblolly needle length is 10 (15–23) 23 cm.
+    expect(await low.inputValue()).to.equal('15');
     await low.fill('30');
     await page.getByLabel('Reason').fill('Demo: typed out of order on purpose.');
     await page.getByRole('button', { name: 'Recode…' }).click();
