@@ -5,7 +5,7 @@
  * result, in the order the caller gave them (or matrix order).
  */
 import { cellInWords } from './cell-words';
-import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled-matrix';
 import { effectiveCellOf, requireTaxon } from './lookup';
 import { relation, separationStrength } from './separation';
 import { joinAnd } from './words';

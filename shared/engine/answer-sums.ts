@@ -6,7 +6,7 @@
  * answer takes keeps the current entropy, so the expected gain is never negative.
  */
 import { bandProbabilities, weightedCuts } from './bands';
-import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled-matrix';
 import { MODEL } from './defaults';
 import type { Scored } from './scoring';
 

@@ -5,7 +5,7 @@
  * JSON (UTF-8), then each typed array aligned to 8 bytes, as listed in the metadata.
  * Invariant: decodeBundle(encodeBundle(c)) ranks, suggests and describes exactly like c.
  */
-import type { CompiledMatrix } from './compiled';
+import type { CompiledMatrix } from './compiled-matrix';
 import { EngineUsageError, usageMessages } from './errors';
 
 /**

@@ -14,7 +14,7 @@ import {
   type CompiledMatrix,
   type CompiledTrait,
   type TaxonInfo,
-} from './compiled';
+} from './compiled-matrix';
 import { countSpanOf, parseCount } from './count-span';
 import { MODEL } from './defaults';
 import { MatrixValidationError, matrixMessages } from './errors';

@@ -7,7 +7,7 @@
  * Invariant: every flag and count array made here has a buffer padded to a whole number of 32-bit
  * words, and the padding bytes stay 0.
  */
-import { ValueStatus, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { ValueStatus, type CompiledMatrix, type CompiledTrait } from './compiled-matrix';
 import type { PreparedSet } from './observations';
 
 /** A byte per taxon, its buffer padded to whole 32-bit words so it can be read four taxa at a time. */

@@ -7,7 +7,7 @@
 
 // ── Types: the matrix document, observations and every result ──────────────────────────────────
 export type * from './types';
-export type { CompiledMatrix, CompiledTrait, TaxonInfo } from './compiled';
+export type { CompiledMatrix, CompiledTrait, TaxonInfo } from './compiled-matrix';
 export type { RankOptions, SuggestOptions } from './defaults';
 export type { PreparedObservation } from './observations';
 export type { LabelledTrait } from './words';
@@ -22,7 +22,7 @@ export { compileMatrix } from './compile';
 export { decodeBundle, encodeBundle } from './bundle';
 export { cellOf, taxonIndex, traitByCode } from './lookup';
 /** The compiled layout (pattern ids, value statuses, range fields), for tools that read a CompiledMatrix's arrays. */
-export { CODED_RANGE_PATTERN, INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus } from './compiled';
+export { CODED_RANGE_PATTERN, INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus } from './compiled-matrix';
 
 // ── Identification: observations, rank, suggest, compare, keys ──────────────────────────────────
 export { prepareObservations, validateObservations } from './observations';

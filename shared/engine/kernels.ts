@@ -5,7 +5,7 @@
  * Invariant: for every taxon t, a pass writes score[t] = from[t] × (on the log scale, +) the
  * group's factors at t's codes, and a padding column contributes the identity (1, or 0 for logs).
  */
-import type { CompiledMatrix } from './compiled';
+import type { CompiledMatrix } from './compiled-matrix';
 import { LITTLE_ENDIAN, unknownColumnOf, type ScoreColumn } from './likelihood-columns';
 
 function codesOf(columns: readonly ScoreColumn[], o: number, count: number): Uint16Array[] {

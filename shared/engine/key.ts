@@ -5,7 +5,7 @@
  * smaller set than its couplet, and every taxon of the set is reachable; a taxon whose coding spans
  * both leads (or is not coded) is keyed out under both, as printed keys do.
  */
-import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled-matrix';
 import { requireTaxon } from './lookup';
 import { rangeOf } from './separation';
 import { answerLabelAt, formatNumber, joinOr } from './words';

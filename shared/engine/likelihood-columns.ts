@@ -6,7 +6,7 @@
  * Invariant: every factor is finite and > 0 (every likelihood is > 0), and a column's codes index
  * its factors, so combining columns never reads past a table or multiplies by 0 or NaN.
  */
-import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled-matrix';
 import { MODEL } from './defaults';
 import type { PreparedMeasure, PreparedSet } from './observations';
 

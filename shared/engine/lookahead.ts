@@ -7,7 +7,7 @@
  * the matrix.
  */
 import { answerRows, type Evaluated, type WorkingSet } from './answer-sums';
-import type { CompiledMatrix } from './compiled';
+import type { CompiledMatrix } from './compiled-matrix';
 import { SUGGEST_DEFAULTS } from './defaults';
 
 const LN2 = Math.LN2;

@@ -4,7 +4,7 @@
  * Invariant: cellOf returns the cell as coded (before appliesWhen turned it inapplicable for scoring),
  * with ranges sorted; effectiveCellOf returns what the scorer uses.
  */
-import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled-matrix';
 import { EngineUsageError, usageMessages } from './errors';
 import type { Cell, DiscreteCell } from './types';
 

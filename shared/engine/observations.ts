@@ -4,7 +4,7 @@
  * Invariant: a PreparedObservation always refers to a trait of the compiled matrix and holds either
  * distinct in-range answer indexes (state/count) or one finite, non-negative length in centimetres.
  */
-import type { CompiledMatrix, CompiledTrait } from './compiled';
+import type { CompiledMatrix, CompiledTrait } from './compiled-matrix';
 import { parseCount } from './count-span';
 import { ObservationError, observationMessages as m } from './errors';
 import type { LengthUnit, Observation, ObservationField, ObservationProblem } from './types';

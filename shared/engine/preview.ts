@@ -9,7 +9,7 @@
  * that together hold PREVIEW_CORE_SHARE of the probability) coded with that answer.
  */
 import { bandLabel } from './bands';
-import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledMatrix } from './compiled';
+import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, ValueStatus, type CompiledMatrix } from './compiled-matrix';
 import type { Evaluated, WorkingSet } from './answer-sums';
 import type { SuggestionPreview } from './types';
 import { answerLabelAt } from './words';

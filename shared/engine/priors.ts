@@ -4,7 +4,7 @@
  * Invariant: every prior weight used is finite and at least MODEL.minPrior, so every log prior is
  * finite; the default priors of a matrix are computed once and cached with it.
  */
-import type { CompiledMatrix } from './compiled';
+import type { CompiledMatrix } from './compiled-matrix';
 import { MODEL } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
 

@@ -4,7 +4,7 @@
  * Invariant: candidates and ruledOut are each sorted best first (probability, then fewer conflicts,
  * then matrix order) and no taxon appears in both; probabilities are over all taxa.
  */
-import { ValueStatus, type CompiledMatrix } from './compiled';
+import { ValueStatus, type CompiledMatrix } from './compiled-matrix';
 import { RANK_DEFAULTS, type RankOptions } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
 import { rangeOf } from './separation';

@@ -12,7 +12,7 @@
  * Invariant: `probability` is finite, non-negative and sums to 1 over all taxa (or is empty for an
  * empty matrix); every factor is finite and > 0 (every likelihood is > 0), so no score is NaN.
  */
-import type { CompiledCondition, CompiledMatrix } from './compiled';
+import type { CompiledCondition, CompiledMatrix } from './compiled-matrix';
 import { ConflictCounts, paddedBytes, setConflictFlags, wordsOf } from './conflict-flags';
 import { MODEL } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';

@@ -12,7 +12,7 @@
  *    disjoint (touching ranges overlap): what the two usually show differs, but an occasional or rare
  *    value, or a length near the extremes, can be shared.
  */
-import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { INAPPLICABLE_PATTERN, RangeField, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled-matrix';
 import type { SeparationStrength } from './types';
 
 /** How one trait relates two taxa: separated reliably or usually, overlapping, coded alike, or not coded. */

@@ -13,7 +13,7 @@
  * or one expected to gain less than SUGGEST_DEFAULTS.minGainBits.
  */
 import { cutsFor, discreteSums, gainFromSums, numericSums, workingSet, type AnswerSums, type Evaluated, type WorkingSet } from './answer-sums';
-import type { CompiledMatrix, CompiledTrait } from './compiled';
+import type { CompiledMatrix, CompiledTrait } from './compiled-matrix';
 import { SUGGEST_DEFAULTS, type SuggestOptions } from './defaults';
 import { EngineUsageError, usageMessages } from './errors';
 import { isInHand, isMonth, seeingChance, traitInHand, type InHand } from './in-hand';

@@ -4,7 +4,7 @@
  * Invariant: every sentence is built from the edition's own labels, so the UI shows it as is.
  */
 import { cellInWords, NOT_APPLICABLE_WORDS, NOT_CODED_WORDS } from './cell-words';
-import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled';
+import { INAPPLICABLE_PATTERN, UNKNOWN_PATTERN, type CompiledMatrix, type CompiledTrait } from './compiled-matrix';
 import { cellFromPattern } from './lookup';
 import type { PreparedMeasure, PreparedObservation } from './observations';
 import type { SkipCause } from './scoring';

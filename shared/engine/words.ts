@@ -4,7 +4,7 @@
  * Invariant: each function is total (any number, any list, a label the trait does not know) and
  * returns the same text in the engine, the API and the browser.
  */
-import type { CompiledTrait } from './compiled';
+import type { CompiledTrait } from './compiled-matrix';
 import type { TraitValue } from './types';
 
 /** A number rounded to at most two decimals, without trailing zeros: 12, 12.5, 12.05. */
