@@ -24,7 +24,7 @@ import { commonName, type CompiledMatrix, type Suggestion } from '@shared/engine
                   <span class="answer">{{ preview.label }}</span>
                   <span class="arrow" aria-hidden="true">→</span>
                   <span class="leaves">{{ preview.leaders }}</span>
-                  <span class="remaining">({{ preview.remaining }} of the likely {{ preview.remaining === 1 ? 'species has' : 'species have' }} it)</span>
+                  <span class="remaining">({{ preview.remaining }} left)</span>
                 </li>
               }
             </ul>
