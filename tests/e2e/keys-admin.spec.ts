@@ -126,6 +126,8 @@ describe('e2e: Partner keys and Admin', function () {
     expect(squash(await card.locator('.quota').textContent())).to.match(/^4,999 of 5,000 requests left in today's quota/);
     await card.getByRole('button', { name: 'Show as a table' }).click();
     const table = card.getByRole('table');
+    // wait for the table to be drawn (its thirtieth day), then count
+    await table.locator('tbody tr').nth(29).waitFor();
     expect(await table.locator('tbody tr').count()).to.equal(30);
     expect(squash(await table.locator('tbody tr').first().locator('td').textContent())).to.equal('1');
     expect(await violationsWhenStill(page), 'keys page with usage, light').to.deep.equal([]);

@@ -133,7 +133,8 @@ describe('e2e: the sift in the field (phone and laptop)', function () {
     expect(before.scrollY).to.be.greaterThan(0);
     await chip.click();
     await page.locator('sv-seen-so-far mat-chip[data-trait="leaf-margin"]').waitFor();
-    expect((await settledScroll(page)) - before.scrollY).to.be.within(0, 80);
+    // scroll anchoring keeps the chip in place as content above it changes height, either way
+    expect(Math.abs((await settledScroll(page)) - before.scrollY)).to.be.at.most(80);
     expect(Math.abs((await chipTop(page, 'leaf-margin', 'serrate')) - before.chipTop)).to.be.at.most(1);
     expect(await page.evaluate(() => document.activeElement?.closest('mat-chip-option')?.id)).to.equal('chip-leaf-margin-serrate');
 
