@@ -162,6 +162,8 @@ describe('e2e: the sift in the field (phone and laptop)', function () {
       await suggestion.click();
       const section = page.locator(`#trait-${trait}`);
       await section.waitFor({ state: 'visible' });
+      // The jump ends by focusing the trait once its part has opened and it is centred: wait for that, then for the scroll to rest.
+      await page.waitForFunction((id) => document.getElementById(id)?.contains(document.activeElement) ?? false, `trait-${trait}`);
       await settledScroll(page);
       const inView = await section.evaluate((element) => {
         const box = element.getBoundingClientRect();
